@@ -6,10 +6,28 @@
  * @module
  */
 
-/** Bad usage or unusable input: a one-line message naming the bad value and what is allowed. */
+/**
+ * Bad usage or unusable input. The message is one line that names the bad
+ * value and what is allowed. `option`, when set, is the library option's
+ * camelCase name (`minDf`); the CLI shows it as its flag (`--min-df`).
+ */
 export class UsageError extends Error {
   override readonly name = 'UsageError';
-  constructor(message: string) {
+  readonly option: string | undefined;
+  constructor(message: string, option?: string) {
     super(message);
+    this.option = option;
+  }
+}
+
+/** Formats a value for an error message: strings quoted, others as JSON. */
+export function show(value: unknown): string {
+  if (typeof value === 'string') return JSON.stringify(value);
+  if (typeof value === 'number' || typeof value === 'boolean' || value === null) return String(value);
+  if (value === undefined) return 'nothing';
+  try {
+    return JSON.stringify(value) ?? String(value);
+  } catch {
+    return String(value);
   }
 }
