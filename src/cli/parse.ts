@@ -1,0 +1,55 @@
+/**
+ * Turning flag strings into typed option values, with one-line messages that
+ * name the flag, the bad value and what is allowed.
+ *
+ * @module
+ */
+import { UsageError, show } from '../util/errors.js';
+
+/** `minDf` → `--min-df`. */
+export function flagName(option: string): string {
+  return '--' + option.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase());
+}
+
+/** A whole number flag, or undefined when not given. */
+export function wholeNumber(value: string | undefined, option: string): number | undefined {
+  if (value === undefined) return undefined;
+  if (!/^\s*[+-]?\d+\s*$/.test(value)) {
+    throw new UsageError(`${option} must be a whole number; got ${show(value)}`, option);
+  }
+  return Number(value);
+}
+
+/** A number flag (whole or fractional), or undefined when not given. */
+export function decimal(value: string | undefined, option: string): number | undefined {
+  if (value === undefined) return undefined;
+  const v = value.trim();
+  if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(v)) {
+    throw new UsageError(`${option} must be a number; got ${show(value)}`, option);
+  }
+  return Number(v);
+}
+
+/** A comma-separated list flag; empty items dropped. */
+export function list(value: string | undefined): string[] | undefined {
+  if (value === undefined) return undefined;
+  return value
+    .split(',')
+    .map((s) => s.trim())
+    .filter((s) => s.length > 0);
+}
+
+/** Repeatable flag collector for commander. */
+export function collect(value: string, previous: string[] = []): string[] {
+  return [...previous, value];
+}
+
+/**
+ * The one line shown for a usage error: a message that begins with the
+ * option's library name gets the flag spelling instead.
+ */
+export function usageLine(err: UsageError): string {
+  const { option, message } = err;
+  if (option && message.startsWith(option + ' ')) return flagName(option) + message.slice(option.length);
+  return message;
+}

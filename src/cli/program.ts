@@ -1,0 +1,74 @@
+/**
+ * The sheaf command line, built on commander with `exitOverride`, so the
+ * whole CLI runs inside tests without exiting the process.
+ *
+ * @module
+ */
+import { Command, CommanderError } from 'commander';
+import type { CliIo } from './io.js';
+import { usageLine } from './parse.js';
+import { registerGroup } from './group.js';
+import { versions } from './versions.js';
+import { UsageError } from '../util/errors.js';
+
+/** Exit codes: 0 done, 1 failed while running, 2 bad usage or unusable input. */
+export const EXIT = Object.freeze({ ok: 0, failed: 1, usage: 2 });
+
+/** Builds the program; `setExit` receives the exit code an action decides on. */
+export function createProgram(io: CliIo, setExit: (code: number) => void): Command {
+  const program = new Command('sheaf')
+    .description('Sort a pile of text documents into named groups, a tree of themes and near-copy sets.')
+    .version(versions().sheaf, '-V, --version')
+    .exitOverride()
+    .showHelpAfterError('(run with --help for usage)')
+    .configureOutput({
+      writeOut: (s) => io.stdout.write(s),
+      writeErr: (s) => io.stderr.write(s),
+      outputError: (s, write) => write(s.replace(/^error: /, 'sheaf: ')),
+    });
+  registerGroup(program, io, setExit);
+  for (const sub of program.commands) {
+    sub.exitOverride().configureOutput({
+      writeOut: (s) => io.stdout.write(s),
+      writeErr: (s) => io.stderr.write(s),
+      outputError: (s, write) => write(s.replace(/^error: /, 'sheaf: ')),
+    });
+  }
+  return program;
+}
+
+/**
+ * Runs the CLI on `argv` (the arguments after the program name) and resolves
+ * to the exit code. Never exits the process and never throws: usage errors
+ * become one line on stderr and code 2; failures become one line and code 1
+ * (with the stack only when SHEAF_DEBUG is set).
+ */
+export async function runCli(argv: readonly string[], io: CliIo): Promise<number> {
+  let code: number = EXIT.ok;
+  const program = createProgram(io, (c) => {
+    code = c;
+  });
+  if (argv.length === 0) {
+    program.outputHelp();
+    return EXIT.usage;
+  }
+  try {
+    await program.parseAsync([...argv], { from: 'user' });
+    return code;
+  } catch (err) {
+    if (err instanceof CommanderError) {
+      if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') {
+        return EXIT.ok;
+      }
+      return EXIT.usage; // commander already printed its one line
+    }
+    if (err instanceof UsageError) {
+      io.stderr.write(`sheaf: ${usageLine(err)}\n`);
+      return EXIT.usage;
+    }
+    const e = err as Error;
+    io.stderr.write(`sheaf: failed: ${e?.message ?? String(err)}\n`);
+    if (io.env.SHEAF_DEBUG && e?.stack) io.stderr.write(e.stack + '\n');
+    return EXIT.failed;
+  }
+}

@@ -1,0 +1,150 @@
+/**
+ * Composes the core stages for the commands: analyze → vectorize → k-means →
+ * label. Pure: the clock and progress reporting come in as hooks, so the same
+ * function serves the CLI, the library API and the tests.
+ *
+ * @module
+ */
+import type { Csr, Doc } from './types.js';
+import { createAnalyzer, resolveAnalyzerOptions, type AnalyzerOptions, type AnalyzerSettings } from './analyze/index.js';
+import {
+  fitTfidf,
+  resolveVectorizeOptions,
+  type VectorizeOptions,
+  type Vocabulary,
+} from './vectorize/index.js';
+import {
+  DEFAULT_KMEANS_OPTIONS,
+  resolveKMeansOptions,
+  sphericalKMeans,
+  type KMeansOptions,
+  type KMeansResult,
+} from './cluster/kmeans.js';
+import { labelGroups, resolveLabelOptions, type GroupLabel, type LabelOptions } from './label/index.js';
+import { UsageError, show } from './util/errors.js';
+
+/** Options for {@link groupDocuments}, one object per stage. */
+export interface GroupOptions {
+  readonly analyzer?: Partial<AnalyzerOptions>;
+  readonly vectorize?: Partial<VectorizeOptions>;
+  readonly kmeans: Partial<KMeansOptions> & { readonly groups: number };
+  readonly label?: Partial<LabelOptions>;
+}
+
+/** Every stage's options after defaults were merged and values validated. */
+export interface ResolvedGroupOptions {
+  readonly analyzer: AnalyzerSettings;
+  readonly vectorize: VectorizeOptions;
+  readonly kmeans: Omit<KMeansOptions, 'groups'> & { readonly groups: number };
+  readonly label: LabelOptions;
+}
+
+/** Hooks the edges pass in; all optional. */
+export interface PipelineHooks {
+  /** Milliseconds from some fixed point (for stage timings). Without it, timings are 0. */
+  readonly now?: () => number;
+  /** Called as a stage makes progress. */
+  readonly progress?: (stage: string, done: number, total: number) => void;
+}
+
+/** Wall time of one stage. */
+export interface StageTiming {
+  readonly stage: string;
+  readonly ms: number;
+  /** How many documents the stage handled. */
+  readonly items: number;
+}
+
+/** Everything a grouping run produced. */
+export interface GroupResult {
+  readonly docs: readonly Doc[];
+  readonly options: ResolvedGroupOptions;
+  readonly vocabulary: Vocabulary;
+  readonly matrix: Csr;
+  readonly kmeans: KMeansResult;
+  readonly groups: readonly GroupLabel[];
+  /** Rows (document indices) with no terms left after analysis and pruning; they are in no group. */
+  readonly emptyRows: Int32Array;
+  readonly timings: readonly StageTiming[];
+}
+
+/**
+ * Validates every stage's options before any heavy work. The upper bound on
+ * `groups` depends on the data and is checked once the vectors exist.
+ */
+export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions {
+  const analyzer = resolveAnalyzerOptions(options.analyzer ?? {});
+  const vectorize = resolveVectorizeOptions(options.vectorize ?? {});
+  const groups = options.kmeans?.groups;
+  if (typeof groups !== 'number' || !Number.isInteger(groups) || groups < 2) {
+    throw new UsageError(`groups must be a whole number of at least 2; got ${show(groups)}`, 'groups');
+  }
+  // Validate the rest of the k-means options now with a bound that cannot fail on groups.
+  const kmeans = resolveKMeansOptions({ ...DEFAULT_KMEANS_OPTIONS, ...options.kmeans }, Number.MAX_SAFE_INTEGER);
+  const label = resolveLabelOptions(options.label ?? {});
+  return { analyzer, vectorize, kmeans, label };
+}
+
+/**
+ * Groups documents: analyze, vectorize (TF-IDF, L2 rows), spherical k-means,
+ * then names and exemplars. Throws {@link UsageError} for unusable settings or
+ * data (for example more groups than non-empty documents).
+ */
+export function groupDocuments(docs: readonly Doc[], options: GroupOptions, hooks: PipelineHooks = {}): GroupResult {
+  const resolved = resolveGroupOptions(options);
+  const now = hooks.now ?? (() => 0);
+  const timings: StageTiming[] = [];
+  const n = docs.length;
+
+  let t0 = now();
+  const analyzer = createAnalyzer(resolved.analyzer);
+  const step = Math.max(1, Math.floor(n / 100));
+  function* termLists(): Generator<string[]> {
+    for (let i = 0; i < n; i++) {
+      if (hooks.progress && i % step === 0) hooks.progress('analyze', i, n);
+      yield analyzer.analyze(docs[i].text);
+    }
+    hooks.progress?.('analyze', n, n);
+  }
+  const { vocabulary, matrix } = fitTfidf(termLists(), resolved.vectorize);
+  let t1 = now();
+  timings.push({ stage: 'analyze+vectorize', ms: t1 - t0, items: n });
+
+  const empty: number[] = [];
+  for (let r = 0; r < matrix.rows; r++) if (matrix.indptr[r + 1] === matrix.indptr[r]) empty.push(r);
+  const nonEmpty = n - empty.length;
+  const kmeansOptions = resolveKMeansOptions(resolved.kmeans, nonEmpty);
+
+  t0 = now();
+  hooks.progress?.('group', 0, 1);
+  const km = sphericalKMeans(matrix, kmeansOptions);
+  hooks.progress?.('group', 1, 1);
+  t1 = now();
+  timings.push({ stage: 'k-means', ms: t1 - t0, items: nonEmpty });
+
+  t0 = now();
+  const groups = labelGroups(
+    {
+      matrix,
+      assignments: km.assignments,
+      fit: km.fit,
+      groups: km.groups,
+      centroids: km.centroids,
+      terms: vocabulary.terms,
+    },
+    resolved.label,
+  );
+  t1 = now();
+  timings.push({ stage: 'label', ms: t1 - t0, items: nonEmpty });
+
+  return {
+    docs,
+    options: { ...resolved, kmeans: kmeansOptions },
+    vocabulary,
+    matrix,
+    kmeans: km,
+    groups,
+    emptyRows: Int32Array.from(empty),
+    timings,
+  };
+}
