@@ -1,0 +1,260 @@
+/**
+ * The saved model: everything needed to file new documents into the groups
+ * of a run, or to flag them as new. Pure: turns a run into JSON text and JSON
+ * text back into a checked model; reading and writing files is the caller's.
+ *
+ * Layout (`format: "sheaf-model"`, `version: 1`): the analyzer settings, the
+ * vocabulary (terms in column order, document frequencies, idf), the unit
+ * centroids as little-endian Float32 in base64 (term-major,
+ * `[term * groups + g]`), each group's label and terms, the fit threshold per
+ * group below which a new document counts as unmatched, and optionally the
+ * tree. Every field is checked on load, lengths against each other; unknown
+ * keys (including `__proto__`) are refused.
+ *
+ * @module
+ */
+import { z } from 'zod';
+import type { Csr } from '../types.js';
+import type { AnalyzerSettings } from '../analyze/index.js';
+import type { Vocabulary } from '../vectorize/index.js';
+import { UsageError } from '../util/errors.js';
+
+/** Current model format version. */
+export const MODEL_VERSION = 1;
+
+/** A model in memory, ready to apply. */
+export interface Model {
+  readonly createdBy: string;
+  readonly analyzer: AnalyzerSettings;
+  readonly vocabulary: Vocabulary;
+  readonly groups: number;
+  /** Unit centroids, term-major. */
+  readonly centroids: Float32Array;
+  readonly labels: readonly { id: number; label: string; terms: readonly { term: string; weight: number }[]; size: number }[];
+  /** Per group: a new document whose fit is below this is unmatched by default. */
+  readonly minFit: Float32Array;
+  /** Optional tree over the groups, as written to groups.json. */
+  readonly tree?: unknown;
+}
+
+/** The share of a group's own members allowed below its default fit threshold. */
+export const MIN_FIT_QUANTILE = 0.05;
+
+/**
+ * Per-group default fit thresholds from the training fits: the
+ * {@link MIN_FIT_QUANTILE} quantile of each group's members' fits (lower
+ * nearest rank), so about 95% of a group's own documents would still match it.
+ */
+export function trainingFitThresholds(assignments: Int32Array, fit: Float32Array, groups: number): Float32Array {
+  const byGroup: number[][] = Array.from({ length: groups }, () => []);
+  for (let r = 0; r < assignments.length; r++) if (assignments[r] >= 0) byGroup[assignments[r]].push(fit[r]);
+  const out = new Float32Array(groups);
+  for (let g = 0; g < groups; g++) {
+    const f = byGroup[g].sort((a, b) => a - b);
+    out[g] = f.length ? f[Math.floor(MIN_FIT_QUANTILE * (f.length - 1))] : 0;
+  }
+  return out;
+}
+
+function encodeFloat32(a: Float32Array): string {
+  const bytes = new Uint8Array(a.length * 4);
+  const view = new DataView(bytes.buffer);
+  for (let i = 0; i < a.length; i++) view.setFloat32(i * 4, a[i], true);
+  return Buffer.from(bytes).toString('base64');
+}
+
+function encodeFloat64(a: Float64Array): string {
+  const bytes = new Uint8Array(a.length * 8);
+  const view = new DataView(bytes.buffer);
+  for (let i = 0; i < a.length; i++) view.setFloat64(i * 8, a[i], true);
+  return Buffer.from(bytes).toString('base64');
+}
+
+function decodeFloats(b64: string, width: 4 | 8, what: string): Float32Array | Float64Array {
+  const bytes = Buffer.from(b64, 'base64');
+  if (bytes.length % width !== 0) throw new UsageError(`model field ${what} is not a whole number of values`);
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const n = bytes.length / width;
+  const out = width === 4 ? new Float32Array(n) : new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const v = width === 4 ? view.getFloat32(i * 4, true) : view.getFloat64(i * 8, true);
+    if (!Number.isFinite(v)) throw new UsageError(`model field ${what} holds a value that is not a finite number`);
+    out[i] = v;
+  }
+  return out;
+}
+
+const base64 = z.string().regex(/^[A-Za-z0-9+/]*={0,2}$/, 'not base64');
+
+const analyzerSchema = z.strictObject({
+  lang: z.string().min(1).max(20),
+  stem: z.boolean(),
+  minLength: z.number().int().min(1).max(1000),
+  numbers: z.boolean(),
+  phrases: z.boolean(),
+  stopwords: z.array(z.string().max(200)).max(100_000),
+});
+
+const termSchema = z.strictObject({ term: z.string(), weight: z.number() });
+
+const modelSchema = z.strictObject({
+  format: z.literal('sheaf-model'),
+  version: z.number().int(),
+  createdBy: z.string().max(200),
+  analyzer: analyzerSchema,
+  vocabulary: z.strictObject({
+    documents: z.number().int().min(1),
+    terms: z.array(z.string().min(1).max(1000)).min(1),
+    df: z.array(z.number().int().min(1)),
+    idf: base64,
+  }),
+  groups: z.number().int().min(2).max(1_000_000),
+  centroids: base64,
+  minFit: z.array(z.number().min(-1).max(1)),
+  labels: z.array(
+    z.strictObject({ id: z.number().int().min(0), label: z.string(), terms: z.array(termSchema), size: z.number().int().min(0) }),
+  ),
+  tree: z.unknown().optional(),
+});
+
+/** What a fitted run hands over to become a model. */
+export interface ModelSource {
+  readonly createdBy: string;
+  readonly analyzer: AnalyzerSettings;
+  readonly vocabulary: Vocabulary;
+  readonly groups: number;
+  readonly centroids: Float32Array;
+  readonly assignments: Int32Array;
+  readonly fit: Float32Array;
+  readonly labels: Model['labels'];
+  readonly tree?: unknown;
+}
+
+/** Serialises a model as JSON text (deterministic for the same run). */
+export function modelToJson(src: ModelSource): string {
+  const minFit = trainingFitThresholds(src.assignments, src.fit, src.groups);
+  const doc = {
+    format: 'sheaf-model',
+    version: MODEL_VERSION,
+    createdBy: src.createdBy,
+    analyzer: {
+      lang: src.analyzer.lang,
+      stem: src.analyzer.stem,
+      minLength: src.analyzer.minLength,
+      numbers: src.analyzer.numbers,
+      phrases: src.analyzer.phrases,
+      stopwords: [...src.analyzer.stopwords],
+    },
+    vocabulary: {
+      documents: src.vocabulary.docCount,
+      terms: [...src.vocabulary.terms],
+      df: Array.from(src.vocabulary.df),
+      idf: encodeFloat64(src.vocabulary.idf),
+    },
+    groups: src.groups,
+    centroids: encodeFloat32(src.centroids),
+    minFit: Array.from(minFit, (v) => Math.round(v * 1e6) / 1e6),
+    labels: src.labels.map((l) => ({
+      id: l.id,
+      label: l.label,
+      terms: l.terms.map((t) => ({ term: t.term, weight: t.weight })),
+      size: l.size,
+    })),
+    ...(src.tree !== undefined ? { tree: src.tree } : {}),
+  };
+  return JSON.stringify(doc) + '\n';
+}
+
+/**
+ * Parses and checks a model. Anything malformed, foreign, of another version
+ * or internally inconsistent is refused with one {@link UsageError} line
+ * naming the first problem; nothing is ever written onto a prototype.
+ */
+export function modelFromJson(text: string, shownPath = 'model'): Model {
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (err) {
+    throw new UsageError(`${shownPath} is not valid JSON (${(err as Error).message})`, 'model');
+  }
+  if (raw === null || typeof raw !== 'object' || Array.isArray(raw) || (raw as { format?: unknown }).format !== 'sheaf-model') {
+    throw new UsageError(`${shownPath} is not a sheaf model (no "format": "sheaf-model")`, 'model');
+  }
+  const version = (raw as { version?: unknown }).version;
+  if (version !== MODEL_VERSION) {
+    throw new UsageError(`${shownPath} has model version ${JSON.stringify(version)}; this sheaf reads version ${MODEL_VERSION}`, 'model');
+  }
+  const parsed = modelSchema.safeParse(raw);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    const where = issue.path.length ? issue.path.join('.') : '(top level)';
+    const what = issue.code === 'unrecognized_keys' ? `unexpected field(s) ${issue.keys.map((k) => JSON.stringify(k)).join(', ')}` : issue.message;
+    throw new UsageError(`${shownPath} is damaged: ${where}: ${what}`, 'model');
+  }
+  const m = parsed.data;
+  const cols = m.vocabulary.terms.length;
+  const fail = (why: string): never => {
+    throw new UsageError(`${shownPath} is damaged: ${why}`, 'model');
+  };
+  if (m.vocabulary.df.length !== cols) fail(`vocabulary.df has ${m.vocabulary.df.length} entries for ${cols} terms`);
+  const idf = decodeFloats(m.vocabulary.idf, 8, 'vocabulary.idf') as Float64Array;
+  if (idf.length !== cols) fail(`vocabulary.idf has ${idf.length} entries for ${cols} terms`);
+  const centroids = decodeFloats(m.centroids, 4, 'centroids') as Float32Array;
+  if (centroids.length !== cols * m.groups) fail(`centroids hold ${centroids.length} values; ${cols} terms × ${m.groups} groups need ${cols * m.groups}`);
+  if (m.minFit.length !== m.groups) fail(`minFit has ${m.minFit.length} entries for ${m.groups} groups`);
+  if (m.labels.length !== m.groups) fail(`labels has ${m.labels.length} entries for ${m.groups} groups`);
+  m.labels.forEach((l, i) => {
+    if (l.id !== i) fail(`labels[${i}].id is ${l.id}; expected ${i}`);
+  });
+  const index = new Map<string, number>();
+  for (let i = 0; i < cols; i++) {
+    const t = m.vocabulary.terms[i];
+    if (index.has(t)) fail(`vocabulary.terms lists ${JSON.stringify(t)} twice`);
+    index.set(t, i);
+  }
+  for (const d of m.vocabulary.df) if (d > m.vocabulary.documents) fail(`a document frequency exceeds the ${m.vocabulary.documents} documents`);
+  return {
+    createdBy: m.createdBy,
+    analyzer: Object.freeze({ ...m.analyzer, stopwords: Object.freeze([...m.analyzer.stopwords]) }),
+    vocabulary: { terms: m.vocabulary.terms, index, df: Int32Array.from(m.vocabulary.df), idf, docCount: m.vocabulary.documents },
+    groups: m.groups,
+    centroids,
+    labels: m.labels,
+    minFit: Float32Array.from(m.minFit),
+    ...(m.tree !== undefined ? { tree: m.tree } : {}),
+  };
+}
+
+/** Where each new document falls. */
+export interface Assignment {
+  /** Nearest group per row, -1 for rows with no known terms. */
+  readonly assignments: Int32Array;
+  /** Cosine to that group's centroid. */
+  readonly fit: Float32Array;
+  /** 1 when the fit is below the threshold (or the row has no known terms): the document looks new. */
+  readonly unmatched: Uint8Array;
+}
+
+/**
+ * Files vectors (made with the model's analyzer and vocabulary) into the
+ * model's groups. `minFit` overrides the per-group thresholds with one value.
+ * `nearest` is the scoring kernel (k-means' own), passed in so both share it.
+ */
+export function assignWithModel(
+  model: Model,
+  matrix: Csr,
+  nearest: (m: Csr, centroids: Float32Array, groups: number) => { assignments: Int32Array; fit: Float32Array },
+  minFit?: number,
+): Assignment {
+  if (minFit !== undefined && (!Number.isFinite(minFit) || minFit < -1 || minFit > 1)) {
+    throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
+  }
+  const { assignments, fit } = nearest(matrix, model.centroids, model.groups);
+  const unmatched = new Uint8Array(matrix.rows);
+  for (let r = 0; r < matrix.rows; r++) {
+    const g = assignments[r];
+    if (g < 0) unmatched[r] = 1;
+    else if (fit[r] < (minFit ?? model.minFit[g])) unmatched[r] = 1;
+  }
+  return { assignments, fit, unmatched };
+}
