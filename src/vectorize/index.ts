@@ -1,0 +1,22 @@
+/**
+ * vectorize: term lists -> vocabulary and TF-IDF rows (sublinear tf,
+ * smoothed idf, L2-normalised) in a CSR matrix on typed arrays.
+ *
+ * @module
+ */
+
+export {
+  DEFAULT_VECTORIZE_OPTIONS,
+  resolveVectorizeOptions,
+  type VectorizeOptions,
+} from './options.js';
+export {
+  createVocabulary,
+  fitTfidf,
+  rowDot,
+  transformTfidf,
+  type TfidfFit,
+  type Vocabulary,
+} from './tfidf.js';
+export { smoothIdf, weightRow } from './weight.js';
+export { MATRIX_MARKET_HEADER, formatFloat32, matrixMarketChunks, toMatrixMarket } from './matrix-market.js';
