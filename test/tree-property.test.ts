@@ -124,13 +124,14 @@ const matrixArb = fc
   );
 
 describe('groupAverageLink equals brute-force average link started from the partition', () => {
-  it('random partitions (with -1 rows and all-zero rows), same merges and heights to 1e-9', () => {
+  it('random partitions (with -1 rows and all-zero rows), term blocks of 1..4 or all, same merges and heights to 1e-9', () => {
     fc.assert(
       fc.property(
         matrixArb,
         fc.integer({ min: 1, max: 6 }),
         fc.array(fc.integer({ min: -1, max: 5 }), { minLength: 22, maxLength: 22 }),
-        ({ cols, dense }, kWanted, raw) => {
+        fc.integer({ min: 1, max: 4 }),
+        ({ cols, dense }, kWanted, raw, blockTerms) => {
           const m = toCsr(dense, cols);
           const n = m.rows;
           const k = Math.min(kWanted, n);
@@ -145,6 +146,8 @@ describe('groupAverageLink equals brute-force average link started from the part
           const tree = groupAverageLink(m, assign, k);
           expect(tree.leaves).toBe(k);
           expectSameMerges(treeMerges(tree), naive.merges);
+          // the same with the term dimension taken a few terms at a time
+          expectSameMerges(treeMerges(groupAverageLink(m, assign, k, { blockTerms })), naive.merges);
         },
       ),
       { numRuns: 200, seed: 20240611 },

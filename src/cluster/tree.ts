@@ -70,6 +70,9 @@ export function resolveTreeOptions(partial: Partial<TreeOptions> = {}): TreeOpti
   return { memoryLimitBytes };
 }
 
+/** Upper bound on the dense group-sum block of {@link groupAverageLink}. */
+const GROUP_SUM_BLOCK_BYTES = 64 * 1024 * 1024;
+
 /** Bytes per stored distance: Float64, so merge heights match double-precision references to ~1e-15. */
 const BYTES_PER_DISTANCE = 8;
 
@@ -100,16 +103,27 @@ export function maxDocumentsForMemory(memoryLimitBytes: number): number {
  * Leaf `g` is group `g` (`0..groups-1`). The similarity of two clusters is the mean
  * pairwise dot product between their documents, `(ΣA · ΣB) / (|A|·|B|)`, which is the
  * mean pairwise cosine for unit rows (an all-zero row counts in its group's size and is
- * 0-similar to everything). The k×k table of `ΣA · ΣB` is built in O(nnz·k) by scoring
- * each row against dense term-major group sums (`sums[term * groups + g]`, Float64,
- * `cols * groups * 8` bytes); then UPGMA with Lance–Williams size-weighted updates,
- * sizes counted in documents. `Dendrogram.size` counts leaves (groups).
+ * 0-similar to everything). The k×k table of `ΣA · ΣB` comes from dense term-major group
+ * sums (`sums[term * groups + g]`, Float64), multiplied term by term over the groups that use
+ * each term: O(nnz + Σ_t z_t²) for z_t groups using term t, which is at most O(nnz·k) (the
+ * cost of scoring every row against every group sum) and usually far less. Sums are taken
+ * `blockTerms` terms at a time (default: as many as fit in 64 MiB, i.e. all of them unless
+ * `cols * groups` exceeds 8M), so memory stays bounded for wide vocabularies. Then UPGMA
+ * with Lance–Williams size-weighted updates, sizes counted in documents.
+ * `Dendrogram.size` counts leaves (groups).
  *
  * Rows with assignment -1 are ignored.
  *
+ * @param options.blockTerms - terms per block of dense sums (a memory/speed knob; the result
+ *   is the same up to rounding).
  * @throws Error when an assignment is out of range or a group has no documents.
  */
-export function groupAverageLink(matrix: Csr, assignments: Int32Array, groups: number): Dendrogram {
+export function groupAverageLink(
+  matrix: Csr,
+  assignments: Int32Array,
+  groups: number,
+  options: { readonly blockTerms?: number } = {},
+): Dendrogram {
   const { rows, cols, indptr, indices, values } = matrix;
   if (assignments.length !== rows) {
     throw new Error(`groupAverageLink: ${assignments.length} assignments for ${rows} rows`);
@@ -117,7 +131,6 @@ export function groupAverageLink(matrix: Csr, assignments: Int32Array, groups: n
   if (!Number.isInteger(groups) || groups < 0) throw new Error(`groupAverageLink: groups must be a whole number; got ${groups}`);
   const k = groups;
   const counts = new Float64Array(k);
-  const sums = new Float64Array(cols * k);
   for (let r = 0; r < rows; r++) {
     const g = assignments[r]!;
     if (g === -1) continue;
@@ -125,28 +138,55 @@ export function groupAverageLink(matrix: Csr, assignments: Int32Array, groups: n
       throw new Error(`groupAverageLink: row ${r} has assignment ${g}, outside -1..${k - 1}`);
     }
     counts[g]!++;
-    for (let p = indptr[r]!, end = indptr[r + 1]!; p < end; p++) sums[indices[p]! * k + g]! += values[p]!;
   }
   for (let g = 0; g < k; g++) {
     if (counts[g] === 0) throw new Error(`groupAverageLink: group ${g} has no documents; every leaf of the tree needs at least one`);
   }
-  // gram[a * k + b] = ΣA · ΣB, accumulated row by row: row d of group a adds d · ΣB for every b.
+  const blockTerms = options.blockTerms ?? Math.max(1, Math.floor(GROUP_SUM_BLOCK_BYTES / 8 / Math.max(1, k)));
+  if (!Number.isInteger(blockTerms) || blockTerms < 1) {
+    throw new Error(`groupAverageLink: blockTerms must be a whole number >= 1; got ${blockTerms}`);
+  }
+  // gram[a * k + b] = ΣA · ΣB = Σ_t S[t,a] S[t,b], summed term by term over the groups with a
+  // non-zero sum on t (z_t of them): O(nnz + Σ_t z_t²), and z_t <= df_t gives Σ_t z_t² <= k·nnz,
+  // so this is never slower than scoring every row against every group sum (O(nnz·k)).
+  // Terms are taken in blocks so the dense sums S hold at most blockTerms * k values at a time;
+  // row cursors remember where each row's entries for the next block start.
   const gram = new Float64Array(k * k);
-  for (let r = 0; r < rows; r++) {
-    const a = assignments[r]!;
-    if (a === -1) continue;
-    const base = a * k;
-    for (let p = indptr[r]!, end = indptr[r + 1]!; p < end; p++) {
-      const v = values[p]!;
-      const off = indices[p]! * k;
-      for (let b = 0; b < k; b++) gram[base + b]! += v * sums[off + b]!;
+  const span = Math.min(cols, blockTerms);
+  const sums = new Float64Array(span * k);
+  const cursor = indptr.slice(0, rows);
+  const nz = new Int32Array(k);
+  for (let t0 = 0; t0 < cols; t0 += span) {
+    const t1 = Math.min(cols, t0 + span);
+    sums.fill(0);
+    for (let r = 0; r < rows; r++) {
+      const g = assignments[r]!;
+      let p = cursor[r]!;
+      const end = indptr[r + 1]!;
+      for (; p < end && indices[p]! < t1; p++) {
+        if (g !== -1) sums[(indices[p]! - t0) * k + g]! += values[p]!;
+      }
+      cursor[r] = p;
+    }
+    for (let t = 0; t < t1 - t0; t++) {
+      const base = t * k;
+      let z = 0;
+      for (let g = 0; g < k; g++) if (sums[base + g] !== 0) nz[z++] = g;
+      for (let x = 0; x < z; x++) {
+        const a = nz[x]!;
+        const va = sums[base + a]!;
+        const row = a * k;
+        for (let y = x; y < z; y++) {
+          const b = nz[y]!;
+          gram[row + b]! += va * sums[base + b]!;
+        }
+      }
     }
   }
   const dist = new Float64Array(condensedLength(k));
   for (let a = 0; a < k; a++) {
     for (let b = a + 1; b < k; b++) {
-      // the table is symmetric up to rounding; average the two accumulations
-      const dot = (gram[a * k + b]! + gram[b * k + a]!) / 2;
+      const dot = gram[a * k + b]!; // upper triangle (a < b) only
       dist[condensedIndex(k, a, b)] = 1 - dot / (counts[a]! * counts[b]!);
     }
   }
