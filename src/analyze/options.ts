@@ -62,19 +62,19 @@ export function resolveAnalyzerOptions(partial?: Partial<AnalyzerOptions>): Anal
     }
   }
   const d = DEFAULT_ANALYZER_OPTIONS;
-  const rawLang: unknown = partial.lang ?? d.lang;
+  const rawLang: unknown = pick(partial.lang, d.lang);
   const lang = typeof rawLang === 'string' ? rawLang.trim().toLowerCase() : undefined;
   if (lang === undefined || !SUPPORTED_LANGUAGES.includes(lang)) {
     throw new UsageError(`lang must be one of ${SUPPORTED_LANGUAGES.join(', ')}; got ${show(rawLang)}`, 'lang');
   }
-  const stem = boolOption('stem', partial.stem ?? d.stem);
-  const numbers = boolOption('numbers', partial.numbers ?? d.numbers);
-  const phrases = boolOption('phrases', partial.phrases ?? d.phrases);
-  const minLength: unknown = partial.minLength ?? d.minLength;
+  const stem = boolOption('stem', pick(partial.stem, d.stem));
+  const numbers = boolOption('numbers', pick(partial.numbers, d.numbers));
+  const phrases = boolOption('phrases', pick(partial.phrases, d.phrases));
+  const minLength: unknown = pick(partial.minLength, d.minLength);
   if (typeof minLength !== 'number' || !Number.isInteger(minLength) || minLength < 1) {
     throw new UsageError(`minLength must be a whole number >= 1; got ${show(minLength)}`, 'minLength');
   }
-  const rawStopwords: unknown = partial.stopwords ?? d.stopwords;
+  const rawStopwords: unknown = pick(partial.stopwords, d.stopwords);
   if (!Array.isArray(rawStopwords)) {
     throw new UsageError(`stopwords must be a list of words; got ${show(rawStopwords)}`, 'stopwords');
   }
@@ -95,6 +95,11 @@ export function resolveAnalyzerOptions(partial?: Partial<AnalyzerOptions>): Anal
     phrases,
     stopwords: Object.freeze([...stopwords].sort()),
   });
+}
+
+/** The given value, or the default when it is `undefined` (null is a value, and is checked). */
+function pick<T>(value: T | undefined, fallback: T): T {
+  return value === undefined ? fallback : value;
 }
 
 function boolOption(name: string, value: unknown): boolean {

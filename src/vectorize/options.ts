@@ -60,7 +60,7 @@ export function resolveVectorizeOptions(partial?: Partial<VectorizeOptions>): Ve
     }
   }
   const d = DEFAULT_VECTORIZE_OPTIONS;
-  const minDf: unknown = partial.minDf ?? d.minDf;
+  const minDf: unknown = partial.minDf === undefined ? d.minDf : partial.minDf;
   if (
     typeof minDf !== 'number' ||
     !Number.isFinite(minDf) ||
@@ -68,7 +68,7 @@ export function resolveVectorizeOptions(partial?: Partial<VectorizeOptions>): Ve
   ) {
     throw new UsageError(`minDf must be a whole number >= 1 or a fraction in (0, 1); got ${show(minDf)}`, 'minDf');
   }
-  const maxDf: unknown = partial.maxDf ?? d.maxDf;
+  const maxDf: unknown = partial.maxDf === undefined ? d.maxDf : partial.maxDf;
   if (
     typeof maxDf !== 'number' ||
     !Number.isFinite(maxDf) ||

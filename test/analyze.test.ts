@@ -1,0 +1,229 @@
+/**
+ * The analyzer's options, stop words, tokenisation policy, numbers,
+ * minLength, bigrams and settings round trip.
+ */
+import { describe, expect, it } from 'vitest';
+import stopwordLists from 'stopword';
+import {
+  DEFAULT_ANALYZER_OPTIONS,
+  STEMMING_LANGUAGES,
+  SUPPORTED_LANGUAGES,
+  builtInStopwords,
+  createAnalyzer,
+  resolveAnalyzerOptions,
+  type AnalyzerOptions,
+} from '../src/analyze/index.js';
+import { UsageError } from '../src/util/errors.js';
+
+function usageError(f: () => unknown): UsageError {
+  try {
+    f();
+  } catch (e) {
+    expect(e).toBeInstanceOf(UsageError);
+    return e as UsageError;
+  }
+  throw new Error('expected a UsageError');
+}
+
+describe('options', () => {
+  it('defaults: English, stemming, minLength 2, digit-only tokens dropped, no bigrams, no extra stop words', () => {
+    expect(DEFAULT_ANALYZER_OPTIONS).toEqual({
+      lang: 'en',
+      stem: true,
+      minLength: 2,
+      numbers: false,
+      phrases: false,
+      stopwords: [],
+    });
+    expect(resolveAnalyzerOptions()).toEqual(DEFAULT_ANALYZER_OPTIONS);
+    expect(resolveAnalyzerOptions({ minLength: undefined })).toEqual(DEFAULT_ANALYZER_OPTIONS);
+  });
+
+  it('stem resolves to false for a language natural has no stemmer for, and the settings say so', () => {
+    expect(resolveAnalyzerOptions({ lang: 'zh', stem: true }).stem).toBe(false);
+    expect(resolveAnalyzerOptions({ lang: 'fi' }).stem).toBe(false);
+    expect(resolveAnalyzerOptions({ lang: 'de' }).stem).toBe(true);
+    expect(resolveAnalyzerOptions({ lang: 'de', stem: false }).stem).toBe(false);
+    expect(STEMMING_LANGUAGES).toEqual(['de', 'en', 'es', 'fr', 'id', 'it', 'nb', 'nl', 'no', 'pt', 'ru', 'sv', 'uk']);
+  });
+
+  it('lang is matched case-insensitively and stored lower-case', () => {
+    expect(resolveAnalyzerOptions({ lang: ' FR ' }).lang).toBe('fr');
+  });
+
+  it('extra stop words are normalised like the text, de-duplicated and sorted', () => {
+    expect(resolveAnalyzerOptions({ stopwords: ['ＬＡＭＰ', 'Straße', 'lamp', '  ', 'O’Neill'] }).stopwords).toEqual([
+      'lamp',
+      "o'neill",
+      'strasse',
+    ]);
+  });
+
+  it('rejects bad values with one-line messages naming the value and what is allowed', () => {
+    const cases: [unknown, string, string | undefined][] = [
+      [
+        { lang: 'xx' },
+        'lang must be one of af, ar, bg, bn, br, ca, cs, da, de, el, en, eo, es, et, eu, fa, fi, fr, ga, gl, gu, ha, he, hi, hr, hu, hy, id, it, ja, ko, ku, la, lt, lv, mr, ms, my, nb, nl, no, pa, pl, pt, ro, ru, sk, sl, so, st, sv, sw, th, tl, tr, uk, ur, vi, yo, zh, zu; got "xx"',
+        'lang',
+      ],
+      [{ minLength: 0 }, 'minLength must be a whole number >= 1; got 0', 'minLength'],
+      [{ minLength: 1.5 }, 'minLength must be a whole number >= 1; got 1.5', 'minLength'],
+      [{ minLength: '3' }, 'minLength must be a whole number >= 1; got "3"', 'minLength'],
+      [{ stem: 'yes' }, 'stem must be true or false; got "yes"', 'stem'],
+      [{ numbers: 1 }, 'numbers must be true or false; got 1', 'numbers'],
+      [{ phrases: null }, 'phrases must be true or false; got null', 'phrases'],
+      [{ stopwords: 'the' }, 'stopwords must be a list of words; got "the"', 'stopwords'],
+      [{ stopwords: ['a', 3] }, 'stopwords must be a list of words; got 3 at position 2', 'stopwords'],
+      [
+        { minlength: 3 },
+        'unknown analyzer option "minlength"; allowed: lang, stem, minLength, numbers, phrases, stopwords',
+        'minlength',
+      ],
+      [null, 'analyzer options must be an object; got null', undefined],
+    ];
+    for (const [input, message, option] of cases) {
+      const e = usageError(() => resolveAnalyzerOptions(input as Partial<AnalyzerOptions>));
+      expect(e.message).toBe(message);
+      expect(e.option).toBe(option);
+    }
+    expect(usageError(() => createAnalyzer({ minLength: -1 })).message).toBe('minLength must be a whole number >= 1; got -1');
+  });
+
+  it('settings survive JSON and rebuild an analyzer that gives the same terms', () => {
+    const a = createAnalyzer({ lang: 'fr', phrases: true, stopwords: ['Phare'], minLength: 3 });
+    const saved = JSON.parse(JSON.stringify(a.settings)) as AnalyzerOptions;
+    const b = createAnalyzer(saved);
+    expect(b.settings).toEqual(a.settings);
+    const text = "Les gardiens du phare restaurèrent l'ancienne lanterne et les lentilles de Fresnel.";
+    expect(b.analyze(text)).toEqual(a.analyze(text));
+    expect(a.analyze(text)).toEqual(['gardien', 'restaur', 'ancien', 'lantern', 'lentill', 'fresnel',
+      'gardien restaur', 'restaur ancien', 'ancien lantern', 'lantern lentill', 'lentill fresnel']);
+  });
+});
+
+describe('stop words', () => {
+  it('maps ISO 639-1 codes to the stopword package lists (en -> eng, de -> deu, zh -> zho, no/nb -> nob)', () => {
+    const lists = stopwordLists as unknown as Record<string, string[]>;
+    expect(builtInStopwords('en')).toEqual(lists['eng']);
+    expect(builtInStopwords('de')).toEqual(lists['deu']);
+    expect(builtInStopwords('zh')).toEqual(lists['zho']);
+    expect(builtInStopwords('no')).toEqual(lists['nob']);
+    expect(builtInStopwords('nb')).toEqual(lists['nob']);
+    expect(builtInStopwords('xx')).toEqual([]);
+    for (const lang of SUPPORTED_LANGUAGES) expect(builtInStopwords(lang).length, lang).toBeGreaterThan(10);
+  });
+
+  it('removes the language list: English "the", "and", "of"; German "und", "der"', () => {
+    expect(createAnalyzer({ stem: false }).analyze('The keepers and the lamps of the tower')).toEqual([
+      'keepers',
+      'lamps',
+      'tower',
+    ]);
+    expect(createAnalyzer({ lang: 'de', stem: false }).analyze('Der Leuchtturm und der Hafen')).toEqual([
+      'leuchtturm',
+      'hafen',
+    ]);
+  });
+
+  it('removes stop words before stemming: a stop word "lamps" drops "lamps" but keeps "lamp"', () => {
+    const a = createAnalyzer({ stopwords: ['lamps'] });
+    expect(a.analyze('lamps lamp lamping')).toEqual(['lamp', 'lamp']);
+  });
+
+  it('treats prototype names as ordinary words, both as terms and as stop words', () => {
+    const plain = createAnalyzer({ stem: false });
+    expect(plain.analyze('constructor toString hasOwnProperty __proto__ valueOf')).toEqual([
+      'constructor',
+      'tostring',
+      'hasownproperty',
+      'proto',
+      'valueof',
+    ]);
+    const a = createAnalyzer({ stem: false, stopwords: ['constructor', 'ToString', 'proto'] });
+    expect(a.analyze('constructor toString hasOwnProperty __proto__')).toEqual(['hasownproperty']);
+  });
+});
+
+describe('tokenisation policy', () => {
+  const plain = createAnalyzer({ stem: false });
+
+  it('splits on hyphens, underscores, dots, slashes and @', () => {
+    expect(plain.analyze('lamp-room node_modules v2.3 a/b/cd keeper@harbour.example')).toEqual([
+      'lamp',
+      'room',
+      'node',
+      'modules',
+      'v2',
+      'cd',
+      'keeper',
+      'harbour',
+      'example',
+    ]);
+  });
+
+  it("keeps internal apostrophes (' or ’ written '), drops the English possessive 's", () => {
+    expect(plain.analyze("the keeper's lamp; O’Neill’s log; don't")).toEqual(['keeper', 'lamp', "o'neill", 'log', "don't"]);
+    expect(plain.analyze("'quoted' keepers' lamps")).toEqual(['quoted', 'keepers', 'lamps']);
+  });
+
+  it("drops French and Italian elided articles: l'eau -> eau, jusqu'au -> au (a stop word), dell'acqua -> acqua", () => {
+    expect(createAnalyzer({ lang: 'fr', stem: false }).analyze("l'eau jusqu'au phare d'Ouessant")).toEqual([
+      'eau',
+      'phare',
+      'ouessant',
+    ]);
+    expect(createAnalyzer({ lang: 'it', stem: false }).analyze("dell'acqua un'isola")).toEqual(['acqua', 'isola']);
+    // English has no elision rule: the apostrophe stays.
+    expect(plain.analyze("l'eau")).toEqual(["l'eau"]);
+  });
+
+  it('keeps apostrophes that are part of the spelling (Ukrainian м’ясо)', () => {
+    expect(createAnalyzer({ lang: 'uk', stem: false }).analyze('м’ясо')).toEqual(["м'ясо"]);
+  });
+});
+
+describe('numbers and minLength', () => {
+  it('drops tokens made only of digits (any script) unless numbers is on; mixed tokens always stay', () => {
+    const text = '2024 ٢٠٢٤ mp3 1990s ²³';
+    expect(createAnalyzer({ stem: false }).analyze(text)).toEqual(['mp3', '1990s']);
+    expect(createAnalyzer({ stem: false, numbers: true }).analyze(text)).toEqual(['2024', '٢٠٢٤', 'mp3', '1990s', '23']);
+  });
+
+  it('counts minLength in code points, not UTF-16 units (Gothic letters are two units each)', () => {
+    const gothic2 = '\u{10330}\u{10331}';
+    const gothic3 = '\u{10330}\u{10331}\u{10332}';
+    expect(gothic2.length).toBe(4);
+    const a = createAnalyzer({ stem: false, minLength: 3 });
+    expect(a.analyze(`${gothic2} ${gothic3} ab abc`)).toEqual([gothic3, 'abc']);
+    expect(createAnalyzer({ stem: false, minLength: 1 }).analyze('q b 7 x')).toEqual(['q', 'b', 'x']);
+  });
+});
+
+describe('phrases', () => {
+  it('adds bigrams of adjacent kept terms after stop-word removal and stemming, after the unigrams', () => {
+    const a = createAnalyzer({ phrases: true });
+    expect(a.analyze('Restoring the old lighthouse lamps')).toEqual([
+      'restor',
+      'old',
+      'lighthous',
+      'lamp',
+      'restor old',
+      'old lighthous',
+      'lighthous lamp',
+    ]);
+    expect(a.analyze('lamps')).toEqual(['lamp']);
+    expect(a.analyze('')).toEqual([]);
+  });
+});
+
+describe('stem cache', () => {
+  it('gives the same stems when many distinct words pass through one analyzer', () => {
+    const a = createAnalyzer();
+    const fresh = (w: string): string[] => createAnalyzer().analyze(w);
+    const words: string[] = [];
+    for (let i = 0; i < 3000; i++) words.push(`restoration${i.toString(36).replace(/\d/g, 'q')}s`);
+    const all = a.analyze(words.join(' '));
+    expect(all).toHaveLength(words.length);
+    for (let i = 0; i < words.length; i += 97) expect([all[i]]).toEqual(fresh(words[i]!));
+  });
+});
