@@ -53,8 +53,12 @@ export interface DuplicateSets {
   readonly chainFloor: number;
 }
 
-/** Means within this of the best count as tied when choosing a representative. */
-const TIE_TOLERANCE = 1e-9;
+/**
+ * Means within this of the best count as tied when choosing a representative:
+ * rows are stored as float32 (about 7 significant digits), so means that are
+ * equal by construction can differ by some 1e-8.
+ */
+const TIE_TOLERANCE = 1e-6;
 /** Resolution at which mean similarities are compared when ordering sets. */
 const ORDER_RESOLUTION = 1e6;
 
@@ -66,9 +70,9 @@ const ORDER_RESOLUTION = 1e6;
  * - Representative: the member with the highest mean cosine to the other
  *   members. The means come from the sum vector S of the members, exactly as
  *   Σ_{j≠i} x_i·x_j = x_i·S − x_i·x_i (O(members · nnz), so large sets stay
- *   cheap); since that rounding differs from pairwise sums by about 1e-16,
- *   means within 1e-9 of the best count as tied, and ties go to the lowest row
- *   index.
+ *   cheap). Means within 1e-6 of the best count as tied (the rows are float32,
+ *   so means equal by construction can differ by some 1e-8), and ties go to
+ *   the lowest row index.
  * - Each member's cosine to the representative is computed exactly from the
  *   vectors ({@link rowDot} arithmetic).
  * - Chaining: a set chains when its weakest member's similarity to the
