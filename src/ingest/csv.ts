@@ -1,0 +1,214 @@
+/**
+ * CSV and TSV exports, streamed through csv-parse.
+ *
+ * RFC 4180 (§2): records end with CRLF (LF and lone CR are accepted too, also
+ * mixed); fields may be enclosed in double quotes; a quoted field may hold
+ * delimiters, line breaks and quotes written twice (`""`); the first record
+ * is the header (required here). Leniencies beyond the RFC: a quote inside an
+ * unquoted field is kept as a character; rows with fewer fields than the
+ * header read the missing ones as empty and rows with more drop the extra
+ * ones (both reported with their line numbers); blank lines are ignored; a
+ * UTF-8 byte order mark is dropped. A quoted field that is never closed is an
+ * error naming the line where its record starts.
+ *
+ * @module
+ */
+import { Readable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
+import { parse, type Options } from 'csv-parse';
+import { UsageError, show } from '../util/errors.js';
+import { hasFirstLine, peekText } from './peek.js';
+import { chooseColumns, listNumbers, RowCollector, type DraftDoc } from './table.js';
+
+/** The options the CSV reader uses. */
+export interface CsvReadOptions {
+  readonly text: readonly string[] | null;
+  readonly id: string | null;
+  readonly title: string | null;
+  readonly delimiter: string | null;
+}
+
+/** Documents and warnings from one export. */
+export interface ExportRead {
+  readonly docs: DraftDoc[];
+  readonly warnings: string[];
+}
+
+const SNIFFED = [';', '\t', '|'];
+
+/** Counts each candidate delimiter in the first line, outside double quotes. */
+function sniffDelimiter(head: string): string {
+  const nl = head.search(/[\r\n]/);
+  const line = nl === -1 ? head : head.slice(0, nl);
+  const counts = new Map<string, number>();
+  let quoted = false;
+  for (const ch of line) {
+    if (ch === '"') quoted = !quoted;
+    else if (!quoted) counts.set(ch, (counts.get(ch) ?? 0) + 1);
+  }
+  if ((counts.get(',') ?? 0) > 0) return ',';
+  let best = ',';
+  let bestCount = 0;
+  for (const d of SNIFFED) {
+    const c = counts.get(d) ?? 0;
+    if (c > bestCount) {
+      best = d;
+      bestCount = c;
+    }
+  }
+  return best;
+}
+
+function delimiterName(d: string): string {
+  return d === '\t' ? 'tab' : show(d);
+}
+
+function countCrlf(values: readonly string[]): number {
+  let n = 0;
+  for (const v of values) {
+    for (let i = v.indexOf('\r\n'); i !== -1; i = v.indexOf('\r\n', i + 2)) n++;
+  }
+  return n;
+}
+
+/** Header names made usable: an empty name becomes `column_N` (1-based), a repeated one `name~2`, `name~3`… */
+function headerNames(raw: readonly string[]): { names: string[]; renamed: string[] } {
+  const names: string[] = [];
+  const renamed: string[] = [];
+  const seen = new Set<string>();
+  raw.forEach((r, i) => {
+    let n = r.trim() === '' ? `column_${i + 1}` : r;
+    if (n !== r) renamed.push(`column ${i + 1} has no name; called ${show(n)}`);
+    if (seen.has(n)) {
+      let k = 2;
+      while (seen.has(`${n}~${k}`) || raw.includes(`${n}~${k}`)) k++;
+      renamed.push(`column ${i + 1} repeats the name ${show(n)}; called ${show(`${n}~${k}`)}`);
+      n = `${n}~${k}`;
+    }
+    seen.add(n);
+    names.push(n);
+  });
+  return { names, renamed };
+}
+
+interface ParsedItem {
+  readonly record: string[];
+  /** The line on which the record starts (1-based; CRLF, LF and CR each end a line). */
+  readonly startLine: number;
+  /** An empty line, not a record. */
+  readonly blank: boolean;
+}
+
+/**
+ * Reads a CSV (or, with `kind` `tsv`, a TSV) export from decoded text
+ * chunks. `name` is how messages and sources name the input. The delimiter
+ * is `options.delimiter`, else a tab for TSV, else a comma — or, when the
+ * header has no comma, the one of `;`, tab, `|` it has most of (with a warning).
+ */
+export async function readCsv(chunks: AsyncIterable<string>, name: string, kind: 'csv' | 'tsv', options: CsvReadOptions): Promise<ExportRead> {
+  const warnings: string[] = [];
+  const peeked = await peekText(chunks, hasFirstLine);
+  let delimiter = options.delimiter ?? (kind === 'tsv' ? '\t' : null);
+  if (delimiter === null) {
+    delimiter = sniffDelimiter(peeked.head.replace(/^\s+/, ''));
+    if (delimiter !== ',') warnings.push(`${name}: read with ${delimiterName(delimiter)} as the delimiter (the header has no commas)`);
+  }
+  let crlf = 0;
+  let lastEnd = 0; // the line on which the last record parsed ends
+  const csvOptions: Options<ParsedItem, unknown> = {
+    delimiter,
+    quote: '"',
+    escape: '"',
+    record_delimiter: ['\r\n', '\n', '\r'],
+    relax_column_count: true,
+    relax_quotes: true,
+    skip_empty_lines: false,
+    bom: true,
+    raw: true,
+    max_record_size: 0,
+    // Runs as each record is parsed, so the line count is current when a later record fails.
+    // csv-parse counts the CR and the LF of a quoted CRLF as two lines; those CRLFs are in the values.
+    // With `raw`, each record arrives as { record, raw }.
+    on_record: (ext: unknown, context): ParsedItem => {
+      const { record, raw } = ext as { record: string[]; raw: string };
+      crlf += countCrlf(record);
+      const startLine = lastEnd + 1;
+      lastEnd = context.lines - crlf;
+      return { record, startLine, blank: record.length === 1 && raw.trim() === '' };
+    },
+  };
+  const parser = parse(csvOptions as unknown as Options);
+  const feeding = pipeline(Readable.from(peeked.all), parser);
+  feeding.catch(() => undefined); // its errors reach the loop below through the parser
+
+  let header: string[] | null = null;
+  let width = 0;
+  let collector: RowCollector | null = null;
+  let textIdx: number[] = [];
+  let idIdx = -1;
+  let titleIdx = -1;
+  const short: number[] = [];
+  const long: number[] = [];
+  let row = 0;
+
+  try {
+    for await (const item of parser as AsyncIterable<ParsedItem>) {
+      const { record, startLine, blank } = item;
+      if (blank) continue;
+      if (header === null) {
+        const { names, renamed } = headerNames(record);
+        header = names;
+        width = names.length;
+        for (const r of renamed) warnings.push(`${name}: ${r}`);
+        const cols = { accepted: names, listed: names, top: names };
+        const chosen = chooseColumns(name, cols, options);
+        textIdx = chosen.text.map((c) => names.indexOf(c));
+        idIdx = chosen.id === null ? -1 : names.indexOf(chosen.id);
+        titleIdx = chosen.title === null ? -1 : names.indexOf(chosen.title);
+        collector = new RowCollector(name, idIdx === -1);
+        continue;
+      }
+      row++;
+      if (record.length < width) short.push(startLine);
+      else if (record.length > width) long.push(startLine);
+      const fields = new Map<string, string>();
+      for (let c = 0; c < width; c++) if (c !== idIdx) fields.set(header[c] as string, record[c] ?? '');
+      (collector as RowCollector).add(
+        row,
+        idIdx === -1 ? undefined : record[idIdx],
+        textIdx.map((c) => record[c] ?? ''),
+        titleIdx === -1 ? undefined : record[titleIdx],
+        fields,
+      );
+    }
+  } catch (err) {
+    const code = (err as { code?: unknown }).code;
+    if (code === 'CSV_QUOTE_NOT_CLOSED') {
+      throw new UsageError(`${name}: the record starting on line ${lastEnd + 1} has a quote that is never closed`);
+    }
+    if (typeof code === 'string' && /^(CSV_|INVALID_)/.test(code)) {
+      throw new UsageError(`${name}: cannot be read as CSV near line ${lastEnd + 1}: ${(err as Error).message}`);
+    }
+    throw err;
+  }
+  await feeding;
+
+  if (header === null) {
+    warnings.push(`${name} has no header and no rows`);
+    return { docs: [], warnings };
+  }
+  if (row === 0) warnings.push(`${name} has a header but no rows`);
+  if (short.length > 0) {
+    warnings.push(
+      `${name}: ${short.length} row(s) have fewer fields than the header's ${width}; the missing ones are empty (lines ${listNumbers(short)})`,
+    );
+  }
+  if (long.length > 0) {
+    warnings.push(
+      `${name}: ${long.length} row(s) have more fields than the header's ${width}; the extra ones are dropped (lines ${listNumbers(long)})`,
+    );
+  }
+  const c = collector as RowCollector;
+  warnings.push(...c.warnings());
+  return { docs: c.docs, warnings };
+}

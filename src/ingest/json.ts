@@ -1,0 +1,230 @@
+/**
+ * JSON Lines and JSON array exports. Nested objects are reached with dotted
+ * paths (`ticket.body`); `fields` holds the top-level keys, every value that
+ * is not a string written as JSON (`null` and missing values as `''`).
+ * Object keys are read as own properties only, so keys such as `__proto__`
+ * or `constructor` are ordinary columns.
+ *
+ * @module
+ */
+import type { Skipped } from '../types.js';
+import { UsageError } from '../util/errors.js';
+import { chooseColumns, RowCollector, type ExportColumns } from './table.js';
+import type { CsvReadOptions, ExportRead } from './csv.js';
+
+/** The column options the JSON readers use (those of CSV minus the delimiter). */
+export type JsonReadOptions = Omit<CsvReadOptions, 'delimiter'>;
+
+/** Documents, warnings and the rows that were not objects or not JSON. */
+export interface JsonRead extends ExportRead {
+  readonly skipped: Skipped[];
+}
+
+type JsonObject = Record<string, unknown>;
+
+interface JsonRow {
+  readonly obj: JsonObject;
+  readonly row: number;
+}
+
+/** How deep nested objects are searched for dotted paths. */
+const MAX_DEPTH = 8;
+
+function isObject(v: unknown): v is JsonObject {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
+function own(obj: JsonObject, key: string): unknown {
+  return Object.prototype.hasOwnProperty.call(obj, key) ? obj[key] : undefined;
+}
+
+/** A JSON value as a cell: strings as they are, `null`/missing as `''`, anything else as JSON. */
+export function jsonCell(v: unknown): string {
+  if (v === undefined || v === null) return '';
+  if (typeof v === 'string') return v;
+  return JSON.stringify(v) ?? '';
+}
+
+/** Every key path of the rows, in first-seen order, with the keys it stands for. */
+class PathIndex {
+  readonly keys = new Map<string, readonly string[]>();
+  readonly top: string[] = [];
+  private readonly topSeen = new Set<string>();
+  private readonly leaves = new Set<string>();
+
+  add(obj: JsonObject): void {
+    for (const k of Object.keys(obj)) {
+      if (!this.topSeen.has(k)) {
+        this.topSeen.add(k);
+        this.top.push(k);
+      }
+    }
+    this.walk(obj, '', [], 0);
+  }
+
+  private walk(obj: JsonObject, prefix: string, keys: readonly string[], depth: number): void {
+    for (const k of Object.keys(obj)) {
+      const p = prefix === '' ? k : `${prefix}.${k}`;
+      let ks = this.keys.get(p);
+      if (ks === undefined) {
+        // First seen wins when two key paths read the same dotted ({"a.b": 1} and {"a": {"b": 1}}).
+        ks = [...keys, k];
+        this.keys.set(p, ks);
+      }
+      const v = obj[k];
+      if (isObject(v)) {
+        if (depth + 1 < MAX_DEPTH) this.walk(v, p, ks, depth + 1);
+      } else {
+        this.leaves.add(p);
+      }
+    }
+  }
+
+  columns(): ExportColumns {
+    const accepted = [...this.keys.keys()];
+    return { accepted, listed: accepted.filter((p) => this.leaves.has(p)), top: this.top };
+  }
+}
+
+function lookup(obj: JsonObject, keys: readonly string[]): unknown {
+  let v: unknown = obj;
+  for (const k of keys) {
+    if (!isObject(v)) return undefined;
+    v = own(v, k);
+  }
+  return v;
+}
+
+function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOptions): { docs: ExportRead['docs']; warnings: string[] } {
+  const index = new PathIndex();
+  for (const r of rows) index.add(r.obj);
+  const chosen = chooseColumns(name, index.columns(), options);
+  const keysOf = (p: string): readonly string[] => index.keys.get(p) as readonly string[];
+  const textKeys = chosen.text.map(keysOf);
+  const idKeys = chosen.id === null ? null : keysOf(chosen.id);
+  const titleKeys = chosen.title === null ? null : keysOf(chosen.title);
+  const idTop = idKeys !== null && idKeys.length === 1 ? (idKeys[0] as string) : null;
+  const collector = new RowCollector(name, idKeys === null);
+  for (const { obj, row } of rows) {
+    const fields = new Map<string, string>();
+    for (const k of index.top) if (k !== idTop) fields.set(k, jsonCell(own(obj, k)));
+    const idValue = idKeys === null ? undefined : lookup(obj, idKeys);
+    collector.add(
+      row,
+      idValue === undefined || idValue === null ? undefined : jsonCell(idValue),
+      textKeys.map((ks) => jsonCell(lookup(obj, ks))),
+      titleKeys === null ? undefined : jsonCell(lookup(obj, titleKeys)),
+      fields,
+    );
+  }
+  return { docs: collector.docs, warnings: collector.warnings() };
+}
+
+/**
+ * Reads JSON Lines: one object per line; blank lines are ignored. A line
+ * that is not valid JSON, or not an object, is skipped (source `name:line`)
+ * and still takes its row number, so fixing it later does not renumber the
+ * rows after it.
+ */
+export async function readJsonLines(chunks: AsyncIterable<string>, name: string, options: JsonReadOptions): Promise<JsonRead> {
+  const rows: JsonRow[] = [];
+  const skipped: Skipped[] = [];
+  let carry = '';
+  let lineNo = 0;
+  let row = 0;
+  const line = (raw: string): void => {
+    lineNo++;
+    const s = raw.endsWith('\r') ? raw.slice(0, -1) : raw;
+    if (s.trim() === '') return;
+    row++;
+    let v: unknown;
+    try {
+      v = JSON.parse(s);
+    } catch {
+      skipped.push({ source: `${name}:${lineNo}`, reason: 'not valid JSON' });
+      return;
+    }
+    if (!isObject(v)) {
+      skipped.push({ source: `${name}:${lineNo}`, reason: `not a JSON object (${describe(v)})` });
+      return;
+    }
+    rows.push({ obj: v, row });
+  };
+  for await (const chunk of chunks) {
+    const s = carry + chunk;
+    let start = 0;
+    for (let nl = s.indexOf('\n'); nl !== -1; nl = s.indexOf('\n', start)) {
+      line(s.slice(start, nl));
+      start = nl + 1;
+    }
+    carry = s.slice(start);
+  }
+  if (carry !== '') line(carry);
+  const warnings: string[] = [];
+  if (row === 0) {
+    warnings.push(`${name} has no rows`);
+    return { docs: [], warnings, skipped };
+  }
+  if (rows.length === 0) return { docs: [], warnings, skipped };
+  const built = buildDocs(rows, name, options);
+  return { docs: built.docs, warnings: [...warnings, ...built.warnings], skipped };
+}
+
+function describe(v: unknown): string {
+  if (v === null) return 'null';
+  if (Array.isArray(v)) return 'an array';
+  if (typeof v === 'object') return 'an object';
+  if (typeof v === 'boolean') return 'a boolean';
+  return `a ${typeof v}`;
+}
+
+async function* once(s: string): AsyncGenerator<string, void, undefined> {
+  yield s;
+}
+
+/**
+ * Reads a JSON array of objects (rows numbered from 1; an element that is
+ * not an object is skipped as `name#row`). A file that starts with `{` and
+ * is not one JSON value is read as JSON Lines, with a warning.
+ */
+export async function readJsonArray(chunks: AsyncIterable<string>, name: string, options: JsonReadOptions): Promise<JsonRead> {
+  let text = '';
+  try {
+    for await (const chunk of chunks) text += chunk;
+  } catch (err) {
+    if (err instanceof RangeError) {
+      throw new UsageError(`${name} is too large to read as one JSON array; write it as JSON Lines (one object per line)`);
+    }
+    throw err;
+  }
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch (err) {
+    if (/^[\s\uFEFF]*\{/.test(text)) {
+      const read = await readJsonLines(once(text), name, options);
+      return { ...read, warnings: [`${name} is not one JSON value; read as JSON Lines (one object per line)`, ...read.warnings] };
+    }
+    const m = /at position (\d+)/.exec((err as Error).message);
+    let where = '';
+    if (m) {
+      const before = text.slice(0, Number(m[1]));
+      const lineStart = before.lastIndexOf('\n') + 1;
+      where = ` (line ${before.split('\n').length}, column ${before.length - lineStart + 1})`;
+    }
+    throw new UsageError(`${name} is not valid JSON${where}`);
+  }
+  if (!Array.isArray(value)) {
+    throw new UsageError(`${name} must hold a JSON array of objects; it holds ${describe(value)}`);
+  }
+  const rows: JsonRow[] = [];
+  const skipped: Skipped[] = [];
+  value.forEach((v: unknown, i) => {
+    if (isObject(v)) rows.push({ obj: v, row: i + 1 });
+    else skipped.push({ source: `${name}#${i + 1}`, reason: `not a JSON object (${describe(v)})` });
+  });
+  if (value.length === 0) return { docs: [], warnings: [`${name} has no rows`], skipped };
+  if (rows.length === 0) return { docs: [], warnings: [], skipped };
+  const built = buildDocs(rows, name, options);
+  return { ...built, skipped };
+}

@@ -1,0 +1,58 @@
+/**
+ * Looking at the start of a text stream without consuming it.
+ *
+ * @module
+ */
+
+/** The start of a stream and the whole stream again (start included). */
+export interface Peeked {
+  /** The text read so far: everything up to the point where `enough` said yes, or the whole input. */
+  readonly head: string;
+  /** The full text: `head` first, then the rest of the source. */
+  readonly all: AsyncIterable<string>;
+}
+
+/**
+ * Reads chunks until `enough(head)` holds or the source ends. The source's
+ * own errors (a binary input, an unreadable file) surface here.
+ */
+export async function peekText(source: AsyncIterable<string>, enough: (head: string) => boolean): Promise<Peeked> {
+  const it = source[Symbol.asyncIterator]();
+  let head = '';
+  let ended = false;
+  while (!enough(head)) {
+    const r = await it.next();
+    if (r.done) {
+      ended = true;
+      break;
+    }
+    head += r.value;
+  }
+  const first = head;
+  async function* all(): AsyncGenerator<string, void, undefined> {
+    if (first.length > 0) yield first;
+    if (ended) return;
+    try {
+      for (;;) {
+        const r = await it.next();
+        if (r.done) return;
+        yield r.value;
+      }
+    } finally {
+      await it.return?.();
+    }
+  }
+  return { head, all: all() };
+}
+
+/** True once `head` holds a line break after its first character that is not white space (or the stream has ended). */
+export function hasFirstLine(head: string): boolean {
+  const m = /\S/.exec(head);
+  return m !== null && /[\r\n]/.test(head.slice(m.index));
+}
+
+/** The first character that is not white space, or `''`. */
+export function firstSignificant(head: string): string {
+  const m = /[^\s\uFEFF]/.exec(head);
+  return m ? m[0] : '';
+}

@@ -1,0 +1,168 @@
+/**
+ * Rows of an export (CSV, TSV, JSON Lines, JSON array) to documents: which
+ * columns give the text, id and title, and what goes into `fields`.
+ *
+ * `fields` keeps every column except the id column (its value is the
+ * document's `id`), text and title columns included, so an output with
+ * `id` followed by `fields` joins back to the user's full row.
+ *
+ * @module
+ */
+import { UsageError, show } from '../util/errors.js';
+import { capTitle, firstLine, normalizeNewlines } from './text.js';
+
+/** Column names taken as the text when none is named, in order of preference (matched case-insensitively). */
+export const TEXT_COLUMN_GUESSES: readonly string[] = Object.freeze([
+  'text', 'body', 'content', 'description', 'message', 'comment', 'summary', 'abstract',
+]);
+
+/** A document before ids are made unique across all inputs. */
+export interface DraftDoc {
+  id: string;
+  readonly source: string;
+  readonly title: string;
+  readonly text: string;
+  readonly fields: ReadonlyMap<string, string>;
+}
+
+/** Which names an export offers for text, id and title. */
+export interface ExportColumns {
+  /** Every name accepted (CSV: the header; JSON: every key path, dotted), in first-seen order. */
+  readonly accepted: readonly string[];
+  /** The names shown in messages (CSV: the header; JSON: top-level keys and the leaf paths under objects). */
+  readonly listed: readonly string[];
+  /** The top-level columns (CSV: the header; JSON: top-level keys). */
+  readonly top: readonly string[];
+}
+
+/** The columns chosen, as canonical names from {@link ExportColumns.accepted}. */
+export interface ChosenColumns {
+  readonly text: readonly string[];
+  readonly id: string | null;
+  readonly title: string | null;
+}
+
+const LIST_CAP = 40;
+
+/** `a, b, c`, at most {@link LIST_CAP} names, then `… (N more)`. */
+export function listNames(names: readonly string[]): string {
+  if (names.length <= LIST_CAP) return names.join(', ');
+  return names.slice(0, LIST_CAP).join(', ') + `, … (${names.length - LIST_CAP} more)`;
+}
+
+/** `4, 8, 9`, at most `cap` numbers, then `… (N in all)`. */
+export function listNumbers(nums: readonly number[], cap = 10): string {
+  if (nums.length <= cap) return nums.join(', ');
+  return nums.slice(0, cap).join(', ') + `, … (${nums.length} in all)`;
+}
+
+function findName(wanted: string, accepted: readonly string[]): string | null {
+  if (accepted.includes(wanted)) return wanted;
+  const lower = wanted.toLowerCase();
+  return accepted.find((n) => n.toLowerCase() === lower) ?? null;
+}
+
+function lastSegment(p: string): string {
+  const i = p.lastIndexOf('.');
+  return i === -1 ? p : p.slice(i + 1);
+}
+
+/**
+ * Resolves the text, id and title options against an export's columns:
+ * exact names first, then a case-insensitive match. With `text` null the
+ * first of {@link TEXT_COLUMN_GUESSES} found among the top-level columns is
+ * used, else (JSON) the first path whose last segment is one of them.
+ * Throws {@link UsageError} for a named column that does not exist or when
+ * no text column can be guessed.
+ */
+export function chooseColumns(
+  name: string,
+  cols: ExportColumns,
+  options: { readonly text: readonly string[] | null; readonly id: string | null; readonly title: string | null },
+): ChosenColumns {
+  const need = (wanted: string, option: 'text' | 'id' | 'title'): string => {
+    const found = findName(wanted, cols.accepted);
+    if (found === null) {
+      throw new UsageError(
+        `${name} has no column ${show(wanted)} for --${option}; its columns are: ${listNames(cols.listed)}`,
+        option,
+      );
+    }
+    return found;
+  };
+  let text: string[];
+  if (options.text !== null) {
+    text = options.text.map((c) => need(c, 'text'));
+  } else {
+    let guess: string | undefined;
+    for (const g of TEXT_COLUMN_GUESSES) {
+      guess = cols.top.find((c) => c.toLowerCase() === g);
+      if (guess !== undefined) break;
+    }
+    if (guess === undefined) {
+      const nested = cols.accepted.filter((p) => p.includes('.') && !cols.top.includes(p));
+      for (const g of TEXT_COLUMN_GUESSES) {
+        guess = nested.find((p) => lastSegment(p).toLowerCase() === g);
+        if (guess !== undefined) break;
+      }
+    }
+    if (guess === undefined) {
+      throw new UsageError(`${name} has no text column; name one with --text (columns: ${listNames(cols.listed)})`, 'text');
+    }
+    text = [guess];
+  }
+  return {
+    text,
+    id: options.id === null ? null : need(options.id, 'id'),
+    title: options.title === null ? null : need(options.title, 'title'),
+  };
+}
+
+/**
+ * Collects an export's rows as documents and the warnings about them
+ * (empty ids replaced by row numbers, rows without text).
+ */
+export class RowCollector {
+  /** The documents so far, in row order. */
+  readonly docs: DraftDoc[] = [];
+  private readonly emptyIds: number[] = [];
+  private readonly emptyTexts: number[] = [];
+
+  /** `name` appears in warnings and sources (`name#row`); `byRowNumber`: ids are row numbers. */
+  constructor(
+    private readonly name: string,
+    private readonly byRowNumber: boolean,
+  ) {}
+
+  /**
+   * Adds row `row` (1-based). Text: the non-blank `textParts` joined with a
+   * blank line, line endings normalised. Title: `title` when not blank, else
+   * the first line of the text, else the id.
+   */
+  add(row: number, idValue: string | undefined, textParts: readonly string[], title: string | undefined, fields: ReadonlyMap<string, string>): void {
+    let id = String(row);
+    if (!this.byRowNumber) {
+      const v = (idValue ?? '').trim();
+      if (v === '') this.emptyIds.push(row);
+      else id = v;
+    }
+    const text = normalizeNewlines(textParts.filter((p) => p.trim() !== '').join('\n\n'));
+    if (text.trim() === '') this.emptyTexts.push(row);
+    const t = title !== undefined && title.trim() !== '' ? capTitle(title) : firstLine(text) || id;
+    this.docs.push({ id, source: `${this.name}#${row}`, title: t, text, fields });
+  }
+
+  /** One warning per kind of problem seen, naming the rows. */
+  warnings(): string[] {
+    const out: string[] = [];
+    if (this.emptyIds.length > 0) {
+      out.push(
+        `${this.name}: ${this.emptyIds.length} row(s) have an empty id; their row numbers are used instead (rows ${listNumbers(this.emptyIds)})`,
+      );
+    }
+    if (this.emptyTexts.length > 0) {
+      out.push(`${this.name}: ${this.emptyTexts.length} row(s) have no text (rows ${listNumbers(this.emptyTexts)})`);
+    }
+    return out;
+  }
+}
