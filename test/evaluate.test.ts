@@ -201,6 +201,45 @@ describe('properties on random labelings', () => {
     );
   });
 
+  it('Rand index and ARI equal brute-force counts over all item pairs', () => {
+    fc.assert(
+      fc.property(labeling, ([t, p]) => {
+        const n = t.length;
+        let tp = 0;
+        let fp = 0;
+        let fn = 0;
+        let tn = 0;
+        for (let i = 0; i < n; i++) {
+          for (let j = i + 1; j < n; j++) {
+            const sameClass = t[i] === t[j];
+            const sameGroup = p[i] === p[j];
+            if (sameClass && sameGroup) tp++;
+            else if (sameGroup) fp++;
+            else if (sameClass) fn++;
+            else tn++;
+          }
+        }
+        const c = contingency(Int32Array.from(t), Int32Array.from(p));
+        const all = tp + fp + fn + tn;
+        expect(randIndex(c)).toBeCloseTo(all === 0 ? 1 : (tp + tn) / all, 14);
+        // ARI in pair-count form (as in scikit-learn's adjusted_rand_score)
+        const ari = fn === 0 && fp === 0 ? 1 : (2 * (tp * tn - fn * fp)) / ((tp + fn) * (fn + tn) + (tp + fp) * (fp + tn));
+        expect(adjustedRand(c)).toBeCloseTo(ari, 12);
+        // purity: for each predicted group, its most common class
+        let majority = 0;
+        for (const g of new Set(p)) {
+          const counts = new Map<number, number>();
+          t.forEach((cls, i) => {
+            if (p[i] === g) counts.set(cls, (counts.get(cls) ?? 0) + 1);
+          });
+          majority += Math.max(...counts.values());
+        }
+        expect(purity(c)).toBe(majority / n);
+      }),
+      { seed: 3, numRuns: 300 },
+    );
+  });
+
   it('V-measure with beta = 1 equals arithmetic NMI', () => {
     fc.assert(
       fc.property(labeling, ([t, p]) => {
