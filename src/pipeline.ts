@@ -20,7 +20,14 @@ import {
   type KMeansOptions,
   type KMeansResult,
 } from './cluster/kmeans.js';
-import { labelGroups, resolveLabelOptions, type GroupLabel, type LabelOptions } from './label/index.js';
+import {
+  labelGroups,
+  resolveLabelOptions,
+  surfaceForms,
+  withDisplayForms,
+  type GroupLabel,
+  type LabelOptions,
+} from './label/index.js';
 import { UsageError, show } from './util/errors.js';
 
 /** Options for {@link groupDocuments}, one object per stage. */
@@ -123,7 +130,7 @@ export function groupDocuments(docs: readonly Doc[], options: GroupOptions, hook
   timings.push({ stage: 'k-means', ms: t1 - t0, items: nonEmpty });
 
   t0 = now();
-  const groups = labelGroups(
+  const stemmed = labelGroups(
     {
       matrix,
       assignments: km.assignments,
@@ -134,6 +141,7 @@ export function groupDocuments(docs: readonly Doc[], options: GroupOptions, hook
     },
     resolved.label,
   );
+  const groups = readableLabels(stemmed, docs, analyzer, resolved.label);
   t1 = now();
   timings.push({ stage: 'label', ms: t1 - t0, items: nonEmpty });
 
@@ -147,4 +155,28 @@ export function groupDocuments(docs: readonly Doc[], options: GroupOptions, hook
     emptyRows: Int32Array.from(empty),
     timings,
   };
+}
+
+/** Most documents re-read to find the surface words behind stemmed label terms. */
+export const SURFACE_SAMPLE = 20_000;
+
+/**
+ * Replaces stems in labels with the most common word behind them, read from an
+ * evenly spaced sample of at most {@link SURFACE_SAMPLE} documents.
+ */
+function readableLabels(
+  labels: GroupLabel[],
+  docs: readonly Doc[],
+  analyzer: ReturnType<typeof createAnalyzer>,
+  options: LabelOptions,
+): GroupLabel[] {
+  if (!analyzer.settings.stem) return labels;
+  const wanted = new Set<string>();
+  for (const g of labels) for (const t of g.terms) wanted.add(t.term);
+  const stride = Math.max(1, Math.ceil(docs.length / SURFACE_SAMPLE));
+  function* texts(): Generator<string> {
+    for (let i = 0; i < docs.length; i += stride) yield docs[i].text;
+  }
+  const display = surfaceForms(texts(), (t) => analyzer.analyzeWithSurfaces(t), wanted);
+  return withDisplayForms(labels, display, options);
 }

@@ -38,6 +38,12 @@ export interface Analyzer {
   readonly settings: AnalyzerSettings;
   /** The terms of `text`, in text order (bigrams, when on, after all unigrams). Never throws. */
   analyze(text: string): string[];
+  /**
+   * Like {@link Analyzer.analyze}, and also the surface form (the word as it
+   * stood, normalised but not stemmed) behind each term, index for index;
+   * used to show readable names for stemmed terms.
+   */
+  analyzeWithSurfaces(text: string): { terms: string[]; surfaces: string[] };
 }
 
 /** Most stems remembered per analyzer; the cache is emptied when it fills. */
@@ -79,9 +85,11 @@ export function createAnalyzer(options?: Partial<AnalyzerOptions>): Analyzer {
   };
 
   let out: string[] = [];
+  let surfaces: string[] | null = null;
   const keep = (t: string): void => {
     if (stop.has(t)) return;
     out.push(stemmer === null ? t : stem(t));
+    if (surfaces !== null) surfaces.push(t);
   };
   /** A token from the scanner (never one needing the segmenter). */
   const accept: TokenSink = (raw, any, all, codePoints) => {
@@ -124,5 +132,18 @@ export function createAnalyzer(options?: Partial<AnalyzerOptions>): Analyzer {
     return terms;
   };
 
-  return Object.freeze({ settings, analyze });
+  const analyzeWithSurfaces = (text: string): { terms: string[]; surfaces: string[] } => {
+    const seen: string[] = [];
+    surfaces = seen;
+    try {
+      const terms = analyze(text);
+      const n = seen.length;
+      if (phrases) for (let i = 0; i + 1 < n; i++) seen.push(`${seen[i]} ${seen[i + 1]}`);
+      return { terms, surfaces: seen };
+    } finally {
+      surfaces = null;
+    }
+  };
+
+  return Object.freeze({ settings, analyze, analyzeWithSurfaces });
 }

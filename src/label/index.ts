@@ -278,3 +278,52 @@ export function exemplarRows(assignments: Int32Array, fit: Float32Array, groups:
   }
   return best;
 }
+
+/**
+ * The most common surface word behind each wanted term (ties: the shorter,
+ * then the alphabetically first), read from the given texts, so a stem such
+ * as "batteri" is shown as "battery". Terms never seen keep their own form.
+ */
+export function surfaceForms(
+  texts: Iterable<string>,
+  analyze: (text: string) => { terms: string[]; surfaces: string[] },
+  wanted: ReadonlySet<string>,
+): Map<string, string> {
+  const counts = new Map<string, Map<string, number>>();
+  for (const text of texts) {
+    const { terms, surfaces } = analyze(text);
+    for (let i = 0; i < terms.length; i++) {
+      const t = terms[i];
+      if (!wanted.has(t)) continue;
+      let c = counts.get(t);
+      if (c === undefined) counts.set(t, (c = new Map()));
+      c.set(surfaces[i], (c.get(surfaces[i]) ?? 0) + 1);
+    }
+  }
+  const out = new Map<string, string>();
+  for (const [term, c] of counts) {
+    let best = '';
+    let bestN = -1;
+    for (const [s, n] of c) {
+      if (n > bestN || (n === bestN && (s.length < best.length || (s.length === best.length && s < best)))) {
+        best = s;
+        bestN = n;
+      }
+    }
+    out.set(term, best);
+  }
+  return out;
+}
+
+/** Rewrites labels with display forms of their terms (merging terms that show alike) and rebuilds each name. */
+export function withDisplayForms(
+  labels: readonly GroupLabel[],
+  display: ReadonlyMap<string, string>,
+  options: Partial<LabelOptions> = {},
+): GroupLabel[] {
+  const o = resolveLabelOptions(options);
+  return labels.map((g) => {
+    const terms = dedupeDisplay(g.terms.map((t) => ({ ...t, term: display.get(t.term) ?? t.term })));
+    return { ...g, terms, label: terms.slice(0, o.nameTerms).map((t) => t.term).join(' · ') || '(no terms)' };
+  });
+}
