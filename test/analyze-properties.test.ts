@@ -72,4 +72,17 @@ describe('analyzer properties', () => {
       { numRuns: 500 },
     );
   });
+
+  it('analyzeWithSurfaces gives the same terms as analyze, with one surface form per term', () => {
+    fc.assert(
+      fc.property(options, anyText, (opts, text) => {
+        const a = createAnalyzer(opts);
+        const { terms, surfaces } = a.analyzeWithSurfaces(text);
+        expect(terms).toEqual(a.analyze(text));
+        expect(surfaces).toHaveLength(terms.length);
+        if (a.settings.stem === false) expect(surfaces).toEqual(terms);
+      }),
+      { numRuns: 500 },
+    );
+  });
 });

@@ -227,3 +227,23 @@ describe('stem cache', () => {
     for (let i = 0; i < words.length; i += 97) expect([all[i]]).toEqual(fresh(words[i]!));
   });
 });
+
+describe('analyzeWithSurfaces', () => {
+  it('returns the normalised, unstemmed word behind each term, index for index (bigrams too)', () => {
+    const a = createAnalyzer({ phrases: true });
+    const text = 'Restoring the LAMPS of the keeper’s cottage, 1990s mp3';
+    const { terms, surfaces } = a.analyzeWithSurfaces(text);
+    expect(terms).toEqual(a.analyze(text));
+    expect(terms.slice(0, 6)).toEqual(['restor', 'lamp', 'keeper', 'cottag', '1990s', 'mp3']);
+    expect(surfaces.slice(0, 6)).toEqual(['restoring', 'lamps', 'keeper', 'cottage', '1990s', 'mp3']);
+    expect(terms[6]).toBe('restor lamp');
+    expect(surfaces[6]).toBe('restoring lamps');
+    expect(surfaces).toHaveLength(terms.length);
+  });
+});
+
+describe('what is not stemmed', () => {
+  it('tokens holding a digit (codes, sizes, versions) and segmenter words stay as written', () => {
+    expect(createAnalyzer().analyze('1990s x86s lenses')).toEqual(['1990s', 'x86s', 'lens']);
+  });
+});

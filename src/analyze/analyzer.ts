@@ -12,6 +12,8 @@
  * 5. drop stop words (the language's `stopword` list plus the user's),
  *    compared on the normalised surface form;
  * 6. stem with natural's stemmer for the language (cached per analyzer);
+ *    tokens holding a number character (`mp3`, `1990s`) and words from the
+ *    segmenter are left as they are;
  * 7. if `phrases`, append the bigrams `"a b"` of adjacent kept terms.
  *
  * @module
@@ -45,6 +47,9 @@ export interface Analyzer {
    */
   analyzeWithSurfaces(text: string): { terms: string[]; surfaces: string[] };
 }
+
+/** A token with a number character is a code, size or version (`mp3`, `1990s`, `x86`): not stemmed. */
+const HAS_DIGIT_RE = /\p{N}/u;
 
 /** Most stems remembered per analyzer; the cache is emptied when it fills. */
 const STEM_CACHE_LIMIT = 200_000;
@@ -86,9 +91,9 @@ export function createAnalyzer(options?: Partial<AnalyzerOptions>): Analyzer {
 
   let out: string[] = [];
   let surfaces: string[] | null = null;
-  const keep = (t: string): void => {
+  const keep = (t: string, stemIt: boolean): void => {
     if (stop.has(t)) return;
-    out.push(stemmer === null ? t : stem(t));
+    out.push(stemIt && stemmer !== null ? stem(t) : t);
     if (surfaces !== null) surfaces.push(t);
   };
   /** A token from the scanner (never one needing the segmenter). */
@@ -107,12 +112,12 @@ export function createAnalyzer(options?: Partial<AnalyzerOptions>): Analyzer {
     }
     if (codePoints < minLength) return;
     if (numeric && !numbers) return;
-    keep(t);
+    keep(t, (any & NUMERIC) === 0 || !HAS_DIGIT_RE.test(t));
   };
   /** A word found by the segmenter: exempt from `minLength`. */
   const acceptWord = (w: string): void => {
     if (!numbers && isAllNumeric(w)) return;
-    keep(w);
+    keep(w, false);
   };
   const onToken: TokenSink = (token, any, all, codePoints) => {
     if ((any & NO_SPACE) !== 0) splitter.split(token, accept, acceptWord);
