@@ -230,7 +230,7 @@ describe('CSV exports (RFC 4180 §2)', () => {
     const dir = tmp();
     write(dir, 'h.csv', 'id,body\n');
     const e = await usage(ingest(['h.csv'], {}, { cwd: dir }));
-    expect(e.message).toBe('no readable documents in h.csv: h.csv has a header but no rows');
+    expect(e.message).toBe('no readable documents in h.csv; h.csv has a header but no rows');
   });
 });
 

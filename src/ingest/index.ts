@@ -429,11 +429,15 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
   const skipped = reads.flatMap((r) => r.skipped);
   const docs: Doc[] = reads.flatMap((r) => r.docs.map((d) => ({ id: d.id, source: d.source, title: d.title, text: d.text, fields: d.fields })));
   if (docs.length === 0) {
-    const details = skipped.slice(0, 3).map((s) => `${s.source} (${s.reason})`);
-    if (skipped.length > 3) details.push(`${skipped.length - 3} more skipped`);
-    if (details.length === 0 && warnings.length > 0) details.push(warnings[0] as string);
     const where = listNames(paths.length <= 3 ? [...paths] : [...paths.slice(0, 3), `${paths.length - 3} more`]);
-    throw new UsageError(`no readable documents in ${where}${details.length > 0 ? ': ' + details.join('; ') : ''}`);
+    let why = '';
+    if (skipped.length > 0) {
+      why = '; skipped ' + skipped.slice(0, 3).map((s) => `${s.source}: ${s.reason}`).join('; ');
+      if (skipped.length > 3) why += `; and ${skipped.length - 3} more`;
+    } else if (warnings.length > 0) {
+      why = '; ' + (warnings[0] as string);
+    }
+    throw new UsageError(`no readable documents in ${where}${why}`);
   }
   const inputs = reads.flatMap((r) => (r.digest ? [r.digest] : []));
   return { docs, skipped, inputs, warnings };
