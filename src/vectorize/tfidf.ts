@@ -194,16 +194,18 @@ export function fitTfidf(termLists: Iterable<readonly string[]>, options?: Parti
   // 2. Prune by document frequency, then by total count.
   const minShare = isShare(opts.minDf, 'minDf');
   const maxShare = isShare(opts.maxDf, 'maxDf');
-  let kept: number[] = [];
+  let kept = new Int32Array(names.length);
+  let keptCount = 0;
   for (let id = 0; id < names.length; id++) {
     const f = df[id]!;
     if (minShare ? f / n < opts.minDf : f < opts.minDf) continue;
     if (maxShare ? f / n > opts.maxDf : f > opts.maxDf) continue;
-    kept.push(id);
+    kept[keptCount++] = id;
   }
+  kept = kept.subarray(0, keptCount);
   if (opts.maxTerms !== null && kept.length > opts.maxTerms) {
     kept.sort((a, b) => total[b]! - total[a]! || compareStrings(names[a]!, names[b]!));
-    kept = kept.slice(0, opts.maxTerms);
+    kept = kept.subarray(0, opts.maxTerms);
   }
   if (kept.length === 0) {
     throw new UsageError(
