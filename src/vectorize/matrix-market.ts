@@ -1,6 +1,6 @@
 /**
  * MatrixMarket exchange format (NIST, "The Matrix Market Exchange Formats:
- * Initial Design", Boisvert, Pozo & Remington, 1996), coordinate real
+ * Initial Design", Boisvert, Pozo & Remington, 1996; citation from memory), coordinate real
  * general: a header line, a size line `rows cols entries`, then one
  * `row col value` line per stored entry, 1-based.
  *
