@@ -64,7 +64,10 @@ export interface StageTiming {
 
 /** Everything a grouping run produced. */
 export interface GroupResult {
+  /** The documents in canonical order (by id, digits compared as numbers); row `r` of every array is `docs[r]`. */
   readonly docs: readonly Doc[];
+  /** Row of each document in the order it was given: `docs[inputOrder[i]]` is the i-th input document. */
+  readonly inputOrder: Int32Array;
   readonly options: ResolvedGroupOptions;
   readonly vocabulary: Vocabulary;
   readonly matrix: Csr;
@@ -82,12 +85,8 @@ export interface GroupResult {
 export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions {
   const analyzer = resolveAnalyzerOptions(options.analyzer ?? {});
   const vectorize = resolveVectorizeOptions(options.vectorize ?? {});
-  const groups = options.kmeans?.groups;
-  if (typeof groups !== 'number' || !Number.isInteger(groups) || groups < 2) {
-    throw new UsageError(`groups must be a whole number of at least 2; got ${show(groups)}`, 'groups');
-  }
-  // Validate the rest of the k-means options now with a bound that cannot fail on groups.
-  const kmeans = resolveKMeansOptions({ ...DEFAULT_KMEANS_OPTIONS, ...options.kmeans }, Number.MAX_SAFE_INTEGER);
+  // Everything but the data-dependent upper bound on groups (checked once the vectors exist).
+  const kmeans = resolveKMeansOptions({ ...DEFAULT_KMEANS_OPTIONS, ...options.kmeans }, Infinity);
   const label = resolveLabelOptions(options.label ?? {});
   return { analyzer, vectorize, kmeans, label };
 }
@@ -97,8 +96,9 @@ export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions
  * then names and exemplars. Throws {@link UsageError} for unusable settings or
  * data (for example more groups than non-empty documents).
  */
-export function groupDocuments(docs: readonly Doc[], options: GroupOptions, hooks: PipelineHooks = {}): GroupResult {
+export function groupDocuments(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks = {}): GroupResult {
   const resolved = resolveGroupOptions(options);
+  const { docs, inputOrder } = canonicalOrder(input);
   const now = hooks.now ?? (() => 0);
   const timings: StageTiming[] = [];
   const n = docs.length;
@@ -147,6 +147,7 @@ export function groupDocuments(docs: readonly Doc[], options: GroupOptions, hook
 
   return {
     docs,
+    inputOrder,
     options: { ...resolved, kmeans: kmeansOptions },
     vocabulary,
     matrix,
@@ -179,4 +180,44 @@ function readableLabels(
   }
   const display = surfaceForms(texts(), (t) => analyzer.analyzeWithSurfaces(t), wanted);
   return withDisplayForms(labels, display, options);
+}
+
+/**
+ * Compares ids with runs of digits taken as numbers ("row 2" before "row 10"),
+ * then by code units, so the order is total and locale-free.
+ */
+export function compareIds(a: string, b: string): number {
+  const ra = a.match(/\d+|\D+/g) ?? [];
+  const rb = b.match(/\d+|\D+/g) ?? [];
+  const n = Math.min(ra.length, rb.length);
+  for (let i = 0; i < n; i++) {
+    const x = ra[i];
+    const y = rb[i];
+    if (x === y) continue;
+    const dx = x.charCodeAt(0) >= 48 && x.charCodeAt(0) <= 57;
+    const dy = y.charCodeAt(0) >= 48 && y.charCodeAt(0) <= 57;
+    if (dx && dy) {
+      const nx = x.replace(/^0+/, '');
+      const ny = y.replace(/^0+/, '');
+      if (nx.length !== ny.length) return nx.length - ny.length;
+      if (nx !== ny) return nx < ny ? -1 : 1;
+      continue;
+    }
+    return x < y ? -1 : 1;
+  }
+  if (ra.length !== rb.length) return ra.length - rb.length;
+  return a < b ? -1 : a > b ? 1 : 0;
+}
+
+/**
+ * Puts documents in id order so the result does not depend on the order the
+ * inputs were given in (ids are unique after ingest; equal ids keep their order).
+ */
+export function canonicalOrder(input: readonly Doc[]): { docs: Doc[]; inputOrder: Int32Array } {
+  const order = Array.from(input.keys()).sort((i, j) => compareIds(input[i].id, input[j].id) || i - j);
+  const inputOrder = new Int32Array(input.length);
+  order.forEach((original, row) => {
+    inputOrder[original] = row;
+  });
+  return { docs: order.map((i) => input[i]), inputOrder };
 }

@@ -45,11 +45,17 @@ export function collect(value: string, previous: string[] = []): string[] {
 }
 
 /**
- * The one line shown for a usage error: a message that begins with the
- * option's library name gets the flag spelling instead.
+ * The one line shown for a usage error, with library option names in their
+ * flag spelling: the error's own option when the message starts with it
+ * (`groups must be …` → `--groups must be …`), and any multi-word name from
+ * `known` wherever it stands as a whole word (`lower minDf` → `lower --min-df`).
  */
-export function usageLine(err: UsageError): string {
-  const { option, message } = err;
-  if (option && message.startsWith(option + ' ')) return flagName(option) + message.slice(option.length);
-  return message;
+export function usageLine(err: UsageError, known: readonly string[] = []): string {
+  let line = err.message;
+  if (err.option && line.startsWith(err.option + ' ')) line = flagName(err.option) + line.slice(err.option.length);
+  for (const name of new Set([...known, ...(err.option ? [err.option] : [])])) {
+    if (!/^[a-z]+[A-Z][A-Za-z]*$/.test(name)) continue;
+    line = line.replace(new RegExp(`(^|[\\s(;,])${name}(?=[\\s:;,)]|$)`, 'g'), `$1${flagName(name)}`);
+  }
+  return line;
 }

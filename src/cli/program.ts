@@ -37,6 +37,18 @@ export function createProgram(io: CliIo, setExit: (code: number) => void): Comma
   return program;
 }
 
+/** Library names (camelCase) of every long flag of every command, for error messages. */
+function knownOptions(program: Command): string[] {
+  const names = new Set<string>();
+  for (const cmd of [program, ...program.commands]) {
+    for (const opt of cmd.options) {
+      const long = opt.long?.replace(/^--(no-)?/, '');
+      if (long) names.add(long.replace(/-([a-z])/g, (_, c: string) => c.toUpperCase()));
+    }
+  }
+  return [...names];
+}
+
 /**
  * Runs the CLI on `argv` (the arguments after the program name) and resolves
  * to the exit code. Never exits the process and never throws: usage errors
@@ -63,7 +75,7 @@ export async function runCli(argv: readonly string[], io: CliIo): Promise<number
       return EXIT.usage; // commander already printed its one line
     }
     if (err instanceof UsageError) {
-      io.stderr.write(`sheaf: ${usageLine(err)}\n`);
+      io.stderr.write(`sheaf: ${usageLine(err, knownOptions(program))}\n`);
       return EXIT.usage;
     }
     const e = err as Error;

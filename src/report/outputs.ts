@@ -17,7 +17,7 @@ export interface DocumentExtras {
 }
 
 /**
- * `documents.csv`: one row per document in input order, `id, group, label,
+ * `documents.csv`: one row per document in the order given, `id, group, label,
  * fit, duplicate_set`, then the export's own columns in their order (the union
  * over all documents). A user column whose name clashes with one of ours is
  * written as `input_<name>`. Documents with no terms have an empty group.
@@ -39,7 +39,8 @@ export function documentsCsv(result: GroupResult, extras: DocumentExtras = {}): 
   const labels = result.groups.map((g) => g.label);
   const dup = extras.duplicateSet;
   function* rows(): Generator<string[]> {
-    for (let i = 0; i < result.docs.length; i++) {
+    for (let k = 0; k < result.inputOrder.length; k++) {
+      const i = result.inputOrder[k];
       const doc = result.docs[i];
       const g = assignments[i];
       const row = [
