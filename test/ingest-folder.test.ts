@@ -191,6 +191,7 @@ describe('folders', () => {
       'no documents in folder only-dot (looked for **/*.md, **/*.txt; excluding tmp/**)',
     );
     expect((await usage(ingest([], {}, { cwd }))).message).toBe('no inputs given; name files, folders, or - for standard input');
+    expect((await usage(ingest([' '], {}, { cwd }))).message).toBe('an input path is empty; name a file, a folder, or - for standard input');
     expect((await usage(ingest(['-'], {}, { cwd }))).message).toBe('cannot read "-": no standard input was given');
     expect((await usage(ingest(['notes/zero.md', 'notes/bin.txt'], {}, { cwd }))).message).toBe(
       'no readable documents in notes/zero.md, notes/bin.txt; skipped notes/zero.md: empty (0 bytes); notes/bin.txt: binary: NUL bytes in the first 8 KiB',

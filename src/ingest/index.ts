@@ -48,25 +48,25 @@ export { TEXT_COLUMN_GUESSES } from './table.js';
 /** What one input was, for `run.json`: its size and SHA-256. */
 export interface InputDigest {
   /** The path as given (`-` for standard input). */
-  readonly path: string;
-  readonly kind: 'folder' | 'file' | 'stdin';
+  path: string;
+  kind: 'folder' | 'file' | 'stdin';
   /** Bytes read (a folder: all files read). */
-  readonly bytes: number;
+  bytes: number;
   /**
    * Lower-case hex SHA-256 of the bytes; for a folder, of the lines
    * `<sha256>  <id>\n` of its files read, sorted by id.
    */
-  readonly sha256: string;
+  sha256: string;
   /** A folder: how many files were read (and hashed). */
-  readonly files?: number;
+  files?: number;
 }
 
 /** Everything ingest produced. */
 export interface IngestResult {
-  readonly docs: Doc[];
-  readonly skipped: Skipped[];
-  readonly inputs: InputDigest[];
-  readonly warnings: string[];
+  docs: Doc[];
+  skipped: Skipped[];
+  inputs: InputDigest[];
+  warnings: string[];
 }
 
 /** Where ingest reads from. */
@@ -380,6 +380,7 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
   const planned: Planned[] = [];
   const seen = new Set<string>();
   for (const given of paths) {
+    if (given.trim() === '') throw new UsageError('an input path is empty; name a file, a folder, or - for standard input');
     const key = given === '-' ? '-' : path.resolve(io.cwd, given);
     if (seen.has(key)) {
       warnings.push(`${given === '-' ? 'standard input' : given} given more than once; read once`);
