@@ -22,10 +22,18 @@
  *   row y with `maxweight(x) · ‖y‖₁ < t` can match neither x nor any later row
  *   (later rows have smaller maxweight) and is dropped from the front of the
  *   posting lists for good.
+ * - Added to the paper's bounds, the prefix L2-norm bounds of Anastasiu &
+ *   Karypis, "L2AP: Fast cosine similarity search with prefix L-2 norm
+ *   bounds" (ICDE 2014), by Cauchy–Schwarz: the index bound and `remscore`
+ *   are each also capped by `‖prefix‖₂ · max row norm`, and every posting
+ *   entry carries the norm of its row before that dimension, so after the
+ *   last match of y at x's dimension k the rest can add at most
+ *   `‖x before k‖₂ · ‖y before k‖₂`.
  * - Scores accumulate in a preallocated Float64Array with a touched-list; a
- *   candidate goes on only if `score + min(|y'|, |x|) · maxweight(x) ·
- *   maxweight(y')` (y' its unindexed prefix) reaches the threshold, and then
- *   its exact dot product is computed from the full rows.
+ *   candidate goes on only if both `score + ‖x before k‖₂ · ‖y before k‖₂`
+ *   and `score + min(|y'|, |x|) · maxweight(x) · maxweight(y')` (y' its
+ *   unindexed prefix) reach the threshold, and then its exact dot product is
+ *   computed from the full rows.
  *
  * Every bound is a true upper bound for non-negative rows whatever their norm
  * (unit length is needed only for the dot product to be the cosine), and the
@@ -83,11 +91,14 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
   const mwCol = new Float64Array(m);
   const mwRow = new Float64Array(n);
   let maxDf = 0;
+  let maxNorm2 = 0;
   for (let r = 0; r < n; r++) {
     let mw = 0;
+    let norm2 = 0;
     for (let e = indptr[r]!; e < indptr[r + 1]!; e++) {
       const v = values[e]!;
       if (v > 0) {
+        norm2 += v * v;
         const c = indices[e]!;
         const d = ++df[c]!;
         if (d > maxDf) maxDf = d;
@@ -96,7 +107,9 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
       }
     }
     mwRow[r] = mw;
+    if (norm2 > maxNorm2) maxNorm2 = norm2;
   }
+  const maxNorm = Math.sqrt(maxNorm2);
 
   // rank[c]: position of column c in decreasing-df order (counting sort, stable in c).
   const rank = rankColumns(df, maxDf, true);
@@ -123,6 +136,7 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
     const s = rowStart[p]!;
     const e = rowStart[p + 1]!;
     let b = 0;
+    let norm2 = 0;
     let sum = 0;
     let k = s;
     let mwp = 0;
@@ -131,7 +145,8 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
       const r = rankOf[k]!;
       const w = mwRank[r]! < mwx ? mwRank[r]! : mwx;
       b += w * v;
-      if (b >= tb) break;
+      norm2 += v * v;
+      if (b >= tb && maxNorm * Math.sqrt(norm2) >= tb) break;
       if (v > mwp) mwp = v;
       sum += v;
     }
@@ -149,12 +164,15 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
   const listHead = new Int32Array(m); // entries dropped from the front so far
   const listRow = new Int32Array(listStart[m]!);
   const listVal = new Float32Array(listStart[m]!);
+  const listNorm = new Float64Array(listStart[m]!); // norm of the row's entries before this one
 
   // Preallocated per-probe buffers.
   const acc = new Float64Array(live);
+  const upper = new Float64Array(live); // acc + prefix-norm bound, as of the candidate's last match
   const touched = new Int32Array(live);
   const dense = new Float64Array(m);
   const rem = new Float64Array(maxLen);
+  const before = new Float64Array(maxLen);
 
   const outA = new GrowableInt32();
   const outB = new GrowableInt32();
@@ -167,11 +185,17 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
     const e = rowStart[p + 1]!;
     const lenx = e - s;
 
-    // rem[k]: bound on what x's dimensions 0..k can add to any dot product.
+    // rem[k]: bound on what x's dimensions 0..k can add to any dot product;
+    // before[k]: the L2 norm of x's dimensions 0..k-1.
     let run = 0;
+    let norm2 = 0;
     for (let k = 0; k < lenx; k++) {
-      run += valueOf[s + k]! * mwRank[rankOf[s + k]!]!;
-      rem[k] = run;
+      const v = valueOf[s + k]!;
+      before[k] = Math.sqrt(norm2);
+      norm2 += v * v;
+      const ap = (run += v * mwRank[rankOf[s + k]!]!);
+      const l2 = maxNorm * Math.sqrt(norm2);
+      rem[k] = ap < l2 ? ap : l2;
     }
 
     let nt = 0;
@@ -180,6 +204,7 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
       if (remscore < tb && nt === 0) break; // nothing can start, nothing started
       const r = rankOf[s + k]!;
       const xv = valueOf[s + k]!;
+      const xb = before[k]!;
       const base = listStart[r]!;
       let h = base + listHead[r]!;
       const end = base + listFill[r]!;
@@ -189,12 +214,15 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
         for (let j = h; j < end; j++) {
           const y = listRow[j]!;
           if (acc[y] === 0) touched[nt++] = y;
-          acc[y] += xv * listVal[j]!;
+          const a = (acc[y] += xv * listVal[j]!);
+          upper[y] = a + xb * listNorm[j]!;
         }
       } else {
         for (let j = h; j < end; j++) {
           const y = listRow[j]!;
-          if (acc[y] !== 0) acc[y] += xv * listVal[j]!;
+          if (acc[y] === 0) continue;
+          const a = (acc[y] += xv * listVal[j]!);
+          upper[y] = a + xb * listNorm[j]!;
         }
       }
     }
@@ -206,7 +234,7 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
         const py = prefixLen[y]!;
         const bound = acc[y]! + (py < lenx ? py : lenx) * mwx * mwPrefix[y]!;
         acc[y] = 0;
-        if (bound < tb) continue;
+        if (bound < tb || upper[y]! < tb) continue;
         // Exact dot product over the full original rows (same sum as rowDot).
         const yr = order[y]!;
         let dot = 0;
@@ -220,12 +248,13 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
       for (let q = indptr[x]!; q < indptr[x + 1]!; q++) dense[indices[q]!] = 0;
     }
 
-    // Index x's suffix from its first indexed dimension.
-    for (let k = s + prefixLen[p]!; k < e; k++) {
-      const r = rankOf[k]!;
+    // Index x's suffix from its first indexed dimension (before[] still holds x's prefix norms).
+    for (let k = prefixLen[p]!; k < lenx; k++) {
+      const r = rankOf[s + k]!;
       const at = listStart[r]! + listFill[r]!++;
       listRow[at] = p;
-      listVal[at] = valueOf[k]!;
+      listVal[at] = valueOf[s + k]!;
+      listNorm[at] = before[k]!;
     }
   }
 
