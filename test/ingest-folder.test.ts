@@ -160,7 +160,7 @@ describe('folders', () => {
     const io: IngestIo = {
       cwd,
       open: (abs) => {
-        if (abs.endsWith('secret.txt')) {
+        if (abs.endsWith('secret.txt') || abs.endsWith('secret.csv')) {
           const e = Object.assign(new Error(`EACCES: permission denied, open '${abs}'`), { code: 'EACCES', syscall: 'open' });
           return (async function* () {
             throw e;
@@ -169,11 +169,13 @@ describe('folders', () => {
         return createReadStream(abs);
       },
     };
-    const r = await ingest(['f', 'f/secret.txt'], {}, io);
+    put(cwd, 'secret.csv', 'id,text\n1,locked\n');
+    const r = await ingest(['f', 'f/secret.txt', 'secret.csv'], {}, io);
     expect(r.docs.map((d) => d.id)).toEqual(['ok.txt']);
     expect(r.skipped).toEqual([
       { source: 'f/secret.txt', reason: 'unreadable: permission denied (EACCES)' },
       { source: 'f/secret.txt', reason: 'unreadable: permission denied (EACCES)' },
+      { source: 'secret.csv', reason: 'unreadable: permission denied (EACCES)' },
     ]);
     expect(r.inputs.map((i) => [i.path, i.files])).toEqual([['f', 1]]);
   });
@@ -217,6 +219,14 @@ describe('files named one by one', () => {
     ]);
     const html = readFileSync(path.join(cwd, 'notes/sub/deep/c.html'));
     expect(r.inputs[0]).toEqual({ path: './notes/sub/deep/c.html', kind: 'file', bytes: html.length, sha256: sha(html) });
+  });
+
+  it('reads a UTF-16LE export with its byte order mark', async () => {
+    const cwd = mkdtempSync(path.join(os.tmpdir(), 'sheaf-ingest-utf16-'));
+    put(cwd, 'u.tsv', Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from('id\tbody\r\nu1\tDéjà vu ✓\r\n', 'utf16le')]));
+    const r = await ingest(['u.tsv'], { id: 'id' }, { cwd });
+    expect(r.docs.map((d) => [d.id, d.text])).toEqual([['u1', 'Déjà vu ✓']]);
+    expect(r.warnings).toEqual([]);
   });
 
   it('a format option reads a named file as that format', async () => {
