@@ -43,25 +43,31 @@ export function wordShingles(tokens: readonly string[], width: number): string[]
 
 /**
  * One row per token list: the set of its `width`-word shingles (same rule for
- * short lists as {@link wordShingles}). Shingles are interned exactly — tokens
- * to ids through a `Map`, then each sequence of ids to a column through a
- * `Map` — so there are no hash collisions; columns are numbered in order of
- * first appearance. Stored values are all 1 (a binary matrix, not
+ * short lists as {@link wordShingles}). Shingles are interned exactly, with
+ * no collisions: tokens to ids through a `Map`, then each l-word sequence to
+ * an id by its pair (id of its first l - 1 words, id of its last word),
+ * l = 2 .. width, in a table that compares whole keys, and each shingle to a
+ * column; columns are numbered in order of first appearance. Stored values are all 1 (a binary matrix, not
  * normalised); column indices ascending, each shingle once per row.
  */
 export function shingleMatrix(tokenLists: Iterable<readonly string[]>, width: number): Csr {
   checkWholeNumber(width, 'width', 1, 100);
   const tokenId = new Map<string, number>();
-  const shingleId = new Map<string, number>();
+  // Level l interns (id of a sequence of l - 1 tokens, next token id) -> id of the l-token sequence.
+  const level: PairInterner[] = [];
+  for (let l = 0; l <= width; l++) level.push(new PairInterner());
+  const column = new PairInterner(); // (sequence id, its length) -> column
   const indptr = new GrowableInt32();
   const indices = new GrowableInt32();
   indptr.push(0);
   let ids = new Int32Array(64);
+  let seq = new Int32Array(64);
   let rowCols = new Int32Array(64);
   for (const tokens of tokenLists) {
     const len = tokens.length;
     if (ids.length < len) {
       ids = new Int32Array(len * 2);
+      seq = new Int32Array(len * 2);
       rowCols = new Int32Array(len * 2);
     }
     for (let i = 0; i < len; i++) {
@@ -72,19 +78,16 @@ export function shingleMatrix(tokenLists: Iterable<readonly string[]>, width: nu
         tokenId.set(tok, id);
       }
       ids[i] = id;
+      seq[i] = id;
     }
     const w = len < width ? len : width;
     const count = len === 0 ? 0 : len - w + 1;
-    for (let i = 0; i < count; i++) {
-      let key = String(ids[i]);
-      for (let j = 1; j < w; j++) key += ',' + ids[i + j];
-      let col = shingleId.get(key);
-      if (col === undefined) {
-        col = shingleId.size;
-        shingleId.set(key, col);
-      }
-      rowCols[i] = col;
+    // seq[i] becomes the id of tokens i .. i + l - 1, level by level.
+    for (let l = 2; l <= w; l++) {
+      const interner = level[l]!;
+      for (let i = 0; i + l <= len; i++) seq[i] = interner.intern(seq[i]!, ids[i + l - 1]!);
     }
+    for (let i = 0; i < count; i++) rowCols[i] = column.intern(seq[i]!, w);
     const sorted = rowCols.subarray(0, count).sort();
     let previous = -1;
     for (let i = 0; i < count; i++) {
@@ -97,7 +100,62 @@ export function shingleMatrix(tokenLists: Iterable<readonly string[]>, width: nu
   const idx = indices.toArray();
   const values = new Float32Array(idx.length).fill(1);
   const ptr = indptr.toArray();
-  return { rows: ptr.length - 1, cols: shingleId.size, indptr: ptr, indices: idx, values };
+  return { rows: ptr.length - 1, cols: column.size, indptr: ptr, indices: idx, values };
+}
+
+/**
+ * Exact interning of pairs of non-negative int32s to dense ids 0, 1, … in
+ * order of first sight: an open-addressing table on typed arrays (linear
+ * probing, doubling at half full). The hash only picks the slot; both halves
+ * of the key are compared, so distinct pairs never share an id.
+ */
+class PairInterner {
+  private keyA = new Int32Array(1024).fill(-1);
+  private keyB = new Int32Array(1024);
+  private value = new Int32Array(1024);
+  private mask = 1023;
+  size = 0;
+
+  intern(a: number, b: number): number {
+    let slot = hashPair(a, b) & this.mask;
+    for (;;) {
+      const ka = this.keyA[slot]!;
+      if (ka === -1) break;
+      if (ka === a && this.keyB[slot] === b) return this.value[slot]!;
+      slot = (slot + 1) & this.mask;
+    }
+    const id = this.size++;
+    this.keyA[slot] = a;
+    this.keyB[slot] = b;
+    this.value[slot] = id;
+    if (this.size * 2 > this.mask) this.grow();
+    return id;
+  }
+
+  private grow(): void {
+    const { keyA, keyB, value } = this;
+    const capacity = keyA.length * 2;
+    this.keyA = new Int32Array(capacity).fill(-1);
+    this.keyB = new Int32Array(capacity);
+    this.value = new Int32Array(capacity);
+    this.mask = capacity - 1;
+    for (let k = 0; k < keyA.length; k++) {
+      const a = keyA[k]!;
+      if (a === -1) continue;
+      let slot = hashPair(a, keyB[k]!) & this.mask;
+      while (this.keyA[slot] !== -1) slot = (slot + 1) & this.mask;
+      this.keyA[slot] = a;
+      this.keyB[slot] = keyB[k]!;
+      this.value[slot] = value[k]!;
+    }
+  }
+}
+
+/** A 32-bit mix of two int32s (multiply-xorshift, constants common practice). */
+function hashPair(a: number, b: number): number {
+  let h = Math.imul(a, 0x9e3779b1) ^ Math.imul(b + 0x7f4a7c15, 0x85ebca77);
+  h = Math.imul(h ^ (h >>> 15), 0x2c1b3c6d);
+  return (h ^ (h >>> 13)) >>> 0;
 }
 
 /** Size of the intersection of two strictly increasing id lists. */
