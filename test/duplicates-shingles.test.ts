@@ -129,6 +129,35 @@ describe('wordShingles and shingleMatrix', () => {
     expect(Array.from(m2.indices)).toEqual([0, 1, 2, 3]);
   });
 
+  it('matches a naive string-keyed interning exactly, columns and all (fast-check, tables large enough to grow)', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.array(fc.integer({ min: 0, max: 60 }), { maxLength: 40 }), { maxLength: 60 }),
+        fc.integer({ min: 1, max: 5 }),
+        (docs, width) => {
+          const lists = docs.map((d) => d.map((w) => `t${w}`));
+          const col = new Map<string, number>();
+          const ptr = [0];
+          const idx: number[] = [];
+          for (const tokens of lists) {
+            const ids = wordShingles(tokens, width).map((sh) => {
+              if (!col.has(sh)) col.set(sh, col.size);
+              return col.get(sh)!;
+            });
+            idx.push(...[...new Set(ids)].sort((p, q) => p - q));
+            ptr.push(idx.length);
+          }
+          const m = shingleMatrix(lists, width);
+          expect(m.rows).toBe(lists.length);
+          expect(m.cols).toBe(col.size);
+          expect(Array.from(m.indptr)).toEqual(ptr);
+          expect(Array.from(m.indices)).toEqual(idx);
+        },
+      ),
+      { numRuns: 150 },
+    );
+  });
+
   it('validates the width', () => {
     let error: unknown;
     try {
