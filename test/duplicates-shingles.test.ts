@@ -9,6 +9,7 @@ import {
   wordShingles,
 } from '../src/duplicates/index.js';
 import { UsageError } from '../src/util/errors.js';
+import { createRng } from '../src/util/random.js';
 
 const words = (s: string): string[] => s.split(' ');
 const row = (m: Csr, r: number): Int32Array => m.indices.slice(m.indptr[r]!, m.indptr[r + 1]!);
@@ -156,6 +157,24 @@ describe('wordShingles and shingleMatrix', () => {
       ),
       { numRuns: 150 },
     );
+  });
+
+  it('stays exact when the intern tables grow many times (9,000 distinct shingles)', () => {
+    const rng = createRng(7);
+    const lists = Array.from({ length: 300 }, () => Array.from({ length: 30 }, () => `t${rng.int(500)}`));
+    const col = new Map<string, number>();
+    const idx: number[] = [];
+    for (const tokens of lists) {
+      const ids = wordShingles(tokens, 3).map((sh) => {
+        if (!col.has(sh)) col.set(sh, col.size);
+        return col.get(sh)!;
+      });
+      idx.push(...[...new Set(ids)].sort((p, q) => p - q));
+    }
+    const m = shingleMatrix(lists, 3);
+    expect(col.size).toBeGreaterThan(8000);
+    expect(m.cols).toBe(col.size);
+    expect(Array.from(m.indices)).toEqual(idx);
   });
 
   it('validates the width', () => {
