@@ -32,7 +32,12 @@ describe('sheaf group on the demo tickets', () => {
     expect(lines[0]).toMatch(/^group\s+size\s+name\s+cohesion\s+for example$/);
     const rows = lines.slice(2).filter((l) => /^\s+\d+\s+\d+\s/.test(l));
     expect(rows).toHaveLength(8);
-    expect(run.stdout).toContain(`Wrote:\n  ${path.join(out, 'documents.csv')}\n  ${path.join(out, 'groups.json')}\n  ${path.join(out, 'run.json')}\n`);
+    expect(run.stdout).toContain(
+      `Wrote:\n  ${path.join(out, 'documents.csv')}\n  ${path.join(out, 'groups.json')}\n  ${path.join(out, 'tree.nwk')}\n  ${path.join(out, 'run.json')}\n`,
+    );
+    // The tree outline reaches every group when there are few.
+    const outline = run.stdout.slice(run.stdout.indexOf('Tree of themes'));
+    expect(outline.match(/group \d+ · \d+ · /g)).toHaveLength(8);
   });
 
   it('writes documents.csv that joins back to every input row', () => {
@@ -80,9 +85,11 @@ describe('sheaf group on the demo tickets', () => {
     expect(r.tool).toBe('sheaf');
     expect(r.inputs[0].sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(r.inputs[0].bytes).toBe(readFileSync(demoCsv).length);
-    expect(r.settings.kmeans.groups).toBe(8);
+    expect(r.settings.grouping.groups).toBe(8);
     expect(r.counts.documents).toBe(457);
-    expect(r.timings.map((t: { stage: string }) => t.stage)).toEqual(['read', 'analyze+vectorize', 'k-means', 'label', 'write']);
+    expect(r.timings.map((t: { stage: string }) => t.stage)).toEqual(['read', 'analyze+vectorize', 'k-means', 'tree', 'quality', 'label', 'write']);
+    expect(r.quality.silhouette).toBeGreaterThan(0);
+    expect(r.choice).toBeNull();
     expect(r.versions.dependencies.commander).toBe('14.0.3');
   });
 });
@@ -217,7 +224,11 @@ describe('bad input: one line, exit 2, nothing written', () => {
     ['a missing --text column', () => ['group', 'corpus-demo/tickets.csv', '--text', 'bdy', '--groups', '3'], 'sheaf: corpus-demo/tickets.csv has no column "bdy" for --text; its columns are: ticket_id, created, channel, customer, subject, body, category, priority\n'],
     ['a vocabulary emptied by pruning', () => ['group', demoCsv, '--text', 'body', '--groups', '3', '--min-df', '5000'], 'sheaf: no terms left after pruning (--min-df 5000, --max-df 1, --max-terms none) over 457 documents; lower --min-df or raise --max-df\n'],
     ['a bad --min-df', () => ['group', demoCsv, '--text', 'body', '--groups', '3', '--min-df', '-2'], 'sheaf: --min-df must be a whole number >= 1 or a fraction in (0, 1); got -2\n'],
-    ['--groups missing', () => ['group', demoCsv], "sheaf: required option '--groups <k>' not specified\n(run with --help for usage)\n"],
+    ['--groups missing', () => ['group', demoCsv, '--text', 'body'], 'sheaf: --groups is required: a whole number of at least 2, or auto (or give --min-similarity)\n'],
+    ['--groups and --min-similarity together', () => ['group', demoCsv, '--text', 'body', '--groups', '3', '--min-similarity', '0.2'], 'sheaf: give either groups or --min-similarity, not both; got groups 3 and --min-similarity 0.2\n'],
+    ['a bad --range', () => ['group', demoCsv, '--text', 'body', '--groups', 'auto', '--range', '9..4'], 'sheaf: --range must be two whole numbers from 2 up, the first not above the second (like 4..40); got [9,4]\n'],
+    ['an unknown --method', () => ['group', demoCsv, '--text', 'body', '--groups', '3', '--method', 'ward'], 'sheaf: --method must be one of kmeans, agglomerative; got "ward"\n'],
+    ['a --truth column the input lacks', () => ['group', demoCsv, '--text', 'body', '--groups', '3', '--truth', 'topic'], 'sheaf: --truth column "topic" is not in the input; its columns are: ticket_id, created, channel, customer, subject, body, category, priority\n'],
   ];
   for (const [what, argv, message] of cases) {
     it(what, async () => {
@@ -266,5 +277,84 @@ describe('bad input: one line, exit 2, nothing written', () => {
     const run = await sheaf(['group', demoCsv, '--groups', '3', '--colour']);
     expect(run.stderr).toBe("sheaf: unknown option '--colour'\n(run with --help for usage)\n");
     expect(run.code).toBe(2);
+  });
+});
+
+describe('the tree, the number of groups, and known labels', () => {
+  it('--groups auto scores every cut in --range, marks the choice, and records the table', async () => {
+    const out = path.join(tempDir(), 'auto');
+    const run = await sheaf(['group', demoCsv, '--text', 'subject,body', '--id', 'ticket_id', '--groups', 'auto', '--range', '4..12', '--out', out, '--quiet']);
+    expect(run.code).toBe(0);
+    const r = JSON.parse(readFileSync(path.join(out, 'run.json'), 'utf8'));
+    expect(r.choice.by).toBe('silhouette');
+    expect(r.choice.tried.map((t: { groups: number }) => t.groups)).toEqual([4, 5, 6, 7, 8, 9, 10, 11, 12]);
+    const best = Math.max(...r.choice.tried.map((t: { silhouette: number }) => t.silhouette));
+    expect(r.choice.tried.find((t: { groups: number }) => t.groups === r.choice.chosen).silhouette).toBe(best);
+    expect(r.counts.groups).toBe(r.choice.chosen);
+    expect(run.stdout).toMatch(new RegExp(`^Chose ${r.choice.chosen} groups: the highest mean silhouette`));
+    expect(run.stdout).toMatch(new RegExp(`\\n\\s+${r.choice.chosen}\\s+\\d\\.\\d{3}\\s+◀ chosen\\n`));
+  });
+
+  it('writes the tree in groups.json and tree.nwk with group labels as leaf names', async () => {
+    const out = path.join(tempDir(), 't');
+    expect((await sheaf(['group', demoCsv, '--text', 'body', '--id', 'ticket_id', '--groups', '5', '--out', out, '--quiet'])).code).toBe(0);
+    const g = JSON.parse(readFileSync(path.join(out, 'groups.json'), 'utf8'));
+    expect(g.tree.leaves).toBe(5);
+    expect(g.tree.root).toBe(8);
+    const root = g.tree.nodes[8];
+    expect(root.documents).toBe(457);
+    expect(root.groups).toBe(5);
+    // Similarities never rise towards the root (average-link has no inversions).
+    const inner = g.tree.nodes.filter((n: { children: unknown }) => n.children);
+    for (let i = 1; i < inner.length; i++) expect(inner[i].similarity).toBeLessThanOrEqual(inner[i - 1].similarity + 1e-12);
+    const nwk = readFileSync(path.join(out, 'tree.nwk'), 'utf8');
+    expect(nwk.trimEnd().endsWith(';')).toBe(true);
+    for (const group of g.groups) expect(nwk).toContain(`'${group.id} ${group.label.replace(/'/g, "''")}'`);
+  });
+
+  it('--method agglomerative cuts the document-level tree and writes it as documents.nwk', async () => {
+    const out = path.join(tempDir(), 'agg');
+    const run = await sheaf(['group', demoNotes, '--method', 'agglomerative', '--groups', '4', '--out', out, '--quiet']);
+    expect(run.code).toBe(0);
+    const docs = readCsv(path.join(out, 'documents.csv'));
+    expect(new Set(docs.map((d) => d.group)).size).toBe(4);
+    const nwk = readFileSync(path.join(out, 'documents.nwk'), 'utf8');
+    for (const d of docs) expect(nwk).toContain(d.id.includes('_') || d.id.includes(' ') ? `'${d.id}'` : d.id);
+  });
+
+  it('--min-similarity cuts the tree instead of a number of groups', async () => {
+    const out = path.join(tempDir(), 'sim');
+    const run = await sheaf(['group', demoNotes, '--method', 'agglomerative', '--min-similarity', '0.1', '--out', out, '--quiet']);
+    expect(run.code).toBe(0);
+    const r = JSON.parse(readFileSync(path.join(out, 'run.json'), 'utf8'));
+    expect(r.choice.by).toBe('similarity');
+    // Every merge inside a group is at or above the threshold: check with the groups' own tree.
+    const g = JSON.parse(readFileSync(path.join(out, 'groups.json'), 'utf8'));
+    for (const node of g.tree.nodes.filter((n: { children: unknown }) => n.children)) expect(node.similarity).toBeLessThan(0.1);
+  });
+
+  it('--truth scores the groups against known labels and shows where each label went', async () => {
+    const out = path.join(tempDir(), 'truth');
+    const run = await sheaf(['group', demoCsv, '--text', 'subject,body', '--id', 'ticket_id', '--groups', '8', '--truth', 'category', '--out', out, '--quiet']);
+    expect(run.code).toBe(0);
+    const r = JSON.parse(readFileSync(path.join(out, 'run.json'), 'utf8'));
+    const docs = readCsv(path.join(out, 'documents.csv'));
+    const want = externalScores(encodeLabels(docs.map((d) => d.category)).codes, Int32Array.from(docs.map((d) => Number(d.group))));
+    expect(r.evaluation.nmi).toBeCloseTo(want.nmi, 6);
+    expect(r.evaluation.ari).toBeCloseTo(want.ari, 6);
+    expect(r.evaluation.purity).toBeCloseTo(want.purity, 6);
+    expect(r.evaluation.contingency[0]).toMatchObject({ label: 'billing', size: 89 });
+    expect(run.stdout).toMatch(/Against "category" \(457 documents\): purity \d\.\d{3}  NMI \d\.\d{3}  ARI -?\d\.\d{3}  V-measure \d\.\d{3}/);
+  });
+
+  it('sheaf tree writes the tree alone, choosing the number of groups', async () => {
+    const out = path.join(tempDir(), 'tree');
+    const run = await sheaf(['tree', demoNotes, '--out', out, '--range', '3..6', '--quiet']);
+    expect(run.code).toBe(0);
+    expect(readdirSync(out).sort()).toEqual(['.sheaf-output', 'run.json', 'tree.json', 'tree.nwk']);
+    const t = JSON.parse(readFileSync(path.join(out, 'tree.json'), 'utf8'));
+    expect(t.tree.leaves).toBeGreaterThanOrEqual(3);
+    expect(t.tree.leaves).toBeLessThanOrEqual(6);
+    expect(run.stdout).toContain('Tree of themes');
   });
 });

@@ -1,6 +1,7 @@
 /**
- * `sheaf group`: read the inputs, group them, name the groups, write the
- * output folder and show a table of groups.
+ * `sheaf group` (and `sheaf tree`, which shares its reading and grouping):
+ * read the inputs, group them, name the groups, build the tree, write the
+ * output folder and show what was found.
  *
  * @module
  */
@@ -11,14 +12,24 @@ import type { CliIo } from './io.js';
 import { collect, decimal, list, wholeNumber } from './parse.js';
 import { progressReporter } from './progress.js';
 import { versions } from './versions.js';
-import { renderTable } from './table.js';
-import { ingest, resolveIngestOptions, type IngestOptions } from '../ingest/index.js';
-import { groupDocuments, resolveGroupOptions, type GroupOptions, type GroupResult } from '../pipeline.js';
-import { documentsCsv, groupsJson, jsonText, round } from '../report/outputs.js';
+import { choiceLines, evaluationLines, groupTable, treeOutline } from './render.js';
+import { ingest, resolveIngestOptions, type IngestOptions, type IngestResult } from '../ingest/index.js';
+import { groupDocuments, resolveGroupOptions, type GroupOptions, type GroupResult, type StageTiming } from '../pipeline.js';
+import {
+  documentsCsv,
+  documentTreeNewick,
+  evaluateLabels,
+  evaluationJson,
+  groupsJson,
+  jsonText,
+  round,
+  treeNewick,
+  type Evaluation,
+} from '../report/outputs.js';
 import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import { UsageError } from '../util/errors.js';
-import { fixed } from '../report/csv.js';
+import type { Doc } from '../types.js';
 
 /** Raw flag values as commander hands them over. */
 export interface GroupFlags {
@@ -39,10 +50,15 @@ export interface GroupFlags {
   maxDf?: string;
   maxTerms?: string;
   groups?: string;
+  range?: string;
+  minSimilarity?: string;
+  method?: string;
+  sample?: string;
   restarts?: string;
   maxIterations?: string;
   seed?: string;
   terms?: string;
+  truth?: string;
   out: string;
   saveVectors?: string;
   json?: boolean;
@@ -75,6 +91,21 @@ export function addAnalysisFlags(cmd: Command): Command {
     .option('--max-terms <n>', 'keep at most this many terms, the most frequent');
 }
 
+/** Adds the flags that decide how groups are formed. */
+export function addGroupingFlags(cmd: Command, groupsHelp: string): Command {
+  return cmd
+    .option('--groups <k>', groupsHelp)
+    .option('--range <a..b>', 'with --groups auto: the numbers of groups tried (default 2..20)')
+    .option('--min-similarity <s>', 'instead of --groups: cut the tree where average similarity falls below s')
+    .option('--method <m>', 'kmeans (any size) or agglomerative (document-level average-link, smaller piles)', 'kmeans')
+    .option('--sample <n>', 'documents sampled for silhouette scores (default 2000)')
+    .option('--restarts <n>', 'seeded k-means runs; the best is kept')
+    .option('--max-iterations <n>', 'cap on k-means iterations per run')
+    .option('--seed <n>', 'random seed; the same seed and input give the same output')
+    .option('--terms <n>', 'terms listed per group')
+    .option('--truth <field>', 'compare the groups with a column of known labels');
+}
+
 /** Registers `group` on the program. */
 export function registerGroup(program: Command, io: CliIo, setExit: (code: number) => void): void {
   const cmd = program
@@ -83,18 +114,33 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
     .argument('<inputs...>', 'folders, files (.txt .md .html .csv .tsv .jsonl .json), or - for stdin');
   addInputFlags(cmd);
   addAnalysisFlags(cmd);
+  addGroupingFlags(cmd, 'number of groups, or auto to choose by silhouette');
   cmd
-    .requiredOption('--groups <k>', 'number of groups')
-    .option('--restarts <n>', 'seeded k-means runs; the best is kept')
-    .option('--max-iterations <n>', 'cap on k-means iterations per run')
-    .option('--seed <n>', 'random seed; the same seed and input give the same output')
-    .option('--terms <n>', 'terms listed per group')
     .option('--out <dir>', 'output folder', 'sheaf-out')
     .option('--save-vectors <dir>', 'also write the TF-IDF matrix (MatrixMarket), terms and ids to this folder')
     .option('--json', 'print the groups as JSON on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: GroupFlags) => {
-      setExit(await runGroup(inputs, flags, io));
+      setExit(await runGroup(inputs, flags, io, 'group'));
+    });
+}
+
+/** Registers `tree` on the program: the tree alone. */
+export function registerTree(program: Command, io: CliIo, setExit: (code: number) => void): void {
+  const cmd = program
+    .command('tree')
+    .description('build the tree of themes (average-link) and write it as Newick and JSON')
+    .argument('<inputs...>', 'folders, files, or - for stdin');
+  addInputFlags(cmd);
+  addAnalysisFlags(cmd);
+  addGroupingFlags(cmd, 'number of groups at the tree’s leaves, or auto (default auto)');
+  cmd
+    .option('--out <dir>', 'output folder', 'sheaf-tree')
+    .option('--json', 'print the tree as JSON on stdout')
+    .option('--quiet', 'no progress bars or notes on stderr')
+    .action(async (inputs: string[], flags: GroupFlags) => {
+      if (flags.groups === undefined && flags.minSimilarity === undefined) flags.groups = 'auto';
+      setExit(await runGroup(inputs, flags, io, 'tree'));
     });
 }
 
@@ -112,6 +158,14 @@ async function readStopwords(file: string, cwd: string): Promise<string[]> {
     .filter((l) => l.length > 0);
 }
 
+/** `4..40` → [4, 40]. */
+function parseRange(value: string | undefined): [number, number] | undefined {
+  if (value === undefined) return undefined;
+  const m = /^\s*(\d+)\s*(?:\.\.|-|:)\s*(\d+)\s*$/.exec(value);
+  if (!m) throw new UsageError(`range must look like 4..40 (two whole numbers); got ${JSON.stringify(value)}`, 'range');
+  return [Number(m[1]), Number(m[2])];
+}
+
 /** Turns flags into the library's option objects (validated here, before any reading). */
 export async function groupOptionsFromFlags(
   flags: GroupFlags,
@@ -126,7 +180,12 @@ export async function groupOptionsFromFlags(
     ...(flags.include ? { include: flags.include } : {}),
     ...(flags.exclude ? { exclude: flags.exclude } : {}),
   });
+  const groups = flags.groups === undefined ? undefined : flags.groups.trim().toLowerCase() === 'auto' ? 'auto' : wholeNumber(flags.groups, 'groups');
   const group: GroupOptions = {
+    groups,
+    minSimilarity: decimal(flags.minSimilarity, 'minSimilarity'),
+    method: flags.method as GroupOptions['method'],
+    choose: { range: parseRange(flags.range), sampleSize: wholeNumber(flags.sample, 'sample') },
     analyzer: {
       lang: flags.lang,
       stem: flags.stem,
@@ -141,24 +200,43 @@ export async function groupOptionsFromFlags(
       maxTerms: wholeNumber(flags.maxTerms, 'maxTerms'),
     },
     kmeans: {
-      groups: wholeNumber(flags.groups, 'groups') as number,
       restarts: wholeNumber(flags.restarts, 'restarts'),
       maxIterations: wholeNumber(flags.maxIterations, 'maxIterations'),
       seed: wholeNumber(flags.seed, 'seed'),
     },
     label: { terms: wholeNumber(flags.terms, 'terms') },
   };
-  resolveGroupOptions(group);
+  try {
+    resolveGroupOptions(group);
+  } catch (err) {
+    // The library calls the sample size sampleSize; the flag is --sample.
+    if (err instanceof UsageError && err.option === 'sampleSize') {
+      throw new UsageError(err.message.replace(/^sampleSize/, 'sample'), 'sample');
+    }
+    throw err;
+  }
   return { ingest: ingestOptions, group };
 }
 
-async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo): Promise<number> {
+/** Throws unless some document has the `--truth` column (checked before the heavy work). */
+function assertTruthColumn(docs: readonly Doc[], field: string): void {
+  if (!docs.some((d) => d.fields.has(field))) {
+    const columns = [...new Set(docs.flatMap((d) => [...d.fields.keys()]))];
+    throw new UsageError(
+      `--truth column ${JSON.stringify(field)} is not in the input; ${columns.length ? `its columns are: ${columns.join(', ')}` : 'it has no columns besides the text'}`,
+      'truth',
+    );
+  }
+}
+
+async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command: 'group' | 'tree'): Promise<number> {
   const now = io.now ?? (() => performance.now());
   const startedAt = new Date();
   const { ingest: ingestOptions, group } = await groupOptionsFromFlags(flags, io);
   const outDir = path.resolve(io.cwd, flags.out);
   await assertReplaceable(outDir, flags.out);
   if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);
+  const width = Math.max(60, io.stdout.columns ?? 110);
 
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(line + '\n');
@@ -167,9 +245,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo): Promise
   const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
   const readMs = now() - t0;
   reportSkips(read.skipped, read.warnings, note);
-  if (read.docs.length === 0) {
-    throw new UsageError(`no readable documents in ${inputs.join(', ')} (${read.skipped.length} skipped)`);
-  }
+  if (flags.truth) assertTruthColumn(read.docs, flags.truth);
 
   const progress = progressReporter(io, flags.quiet ?? false);
   let result: GroupResult;
@@ -178,6 +254,13 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo): Promise
   } finally {
     progress.done();
   }
+  const evaluation = flags.truth
+    ? evaluateLabels(
+        flags.truth,
+        result.docs.map((d) => d.fields.get(flags.truth as string) ?? ''),
+        Array.from(result.partition.assignments, (g) => (g >= 0 ? String(g) : '')),
+      )
+    : null;
   if (result.emptyRows.length > 0) {
     note(
       `sheaf: note: ${result.emptyRows.length} document(s) have no terms after analysis; they are in no group ` +
@@ -187,21 +270,18 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo): Promise
 
   const tw = now();
   const files = new Map<string, string>();
-  files.set('documents.csv', documentsCsv(result));
   const groupsDoc = groupsJson(result);
-  files.set('groups.json', jsonText(groupsDoc));
-  const writeMs = now() - tw;
-  const timings = [
-    { stage: 'read', ms: readMs, items: read.docs.length },
-    ...result.timings,
-    { stage: 'write', ms: writeMs, items: read.docs.length },
-  ];
-  files.set(
-    'run.json',
-    jsonText(
-      runJson({ inputs, flags, ingestOptions, result, read, timings, startedAt, finishedAt: new Date() }),
-    ),
-  );
+  if (command === 'group') {
+    files.set('documents.csv', documentsCsv(result));
+    files.set('groups.json', jsonText(groupsDoc));
+  } else {
+    files.set('tree.json', jsonText({ tree: groupsDoc.tree, groups: groupsDoc.groups.map((g) => ({ id: g.id, label: g.label, size: g.size })) }));
+  }
+  files.set('tree.nwk', treeNewick(result));
+  const docTree = documentTreeNewick(result);
+  if (docTree !== null) files.set('documents.nwk', docTree);
+  const timings: StageTiming[] = [{ stage: 'read', ms: readMs, items: read.docs.length }, ...result.timings, { stage: 'write', ms: now() - tw, items: read.docs.length }];
+  files.set('run.json', jsonText(runJson({ command, flags, ingestOptions, result, read, evaluation, timings, startedAt, finishedAt: new Date() })));
   const written = await writeOutputFolder(outDir, files);
   const shownWritten = written.map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
@@ -215,16 +295,23 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo): Promise
   }
 
   if (flags.json) {
-    io.stdout.write(jsonText(groupsDoc));
+    io.stdout.write(command === 'group' ? jsonText(groupsDoc) : jsonText({ tree: groupsDoc.tree }));
     note(`sheaf: wrote ${shownWritten.join(', ')}`);
-  } else {
-    printGroups(result, io);
-    io.stdout.write(
-      `\n${read.docs.length} documents (${read.skipped.length} skipped, ${result.emptyRows.length} without terms) ` +
-        `in ${result.groups.length} groups; ${result.vocabulary.terms.length} terms.\nWrote:\n` +
-        shownWritten.map((p) => `  ${p}\n`).join(''),
-    );
+    return 0;
   }
+  const out: string[] = [];
+  if (result.choice) out.push(...choiceLines(result), '');
+  if (command === 'group') out.push(...groupTable(result, width), '');
+  out.push('Tree of themes (average-link over the groups):', ...treeOutline(result, width, result.groups.length <= 24 ? Infinity : command === 'tree' ? 6 : 4), '');
+  if (evaluation) out.push(...evaluationLines(evaluation, width), '');
+  out.push(
+    `${read.docs.length} documents (${read.skipped.length} skipped, ${result.emptyRows.length} without terms) ` +
+      `in ${result.groups.length} groups; ${result.vocabulary.terms.length} terms; ` +
+      `mean silhouette ${Number.isFinite(result.quality.silhouette.mean) ? result.quality.silhouette.mean.toFixed(3) : '–'}.`,
+    'Wrote:',
+    ...shownWritten.map((p) => `  ${p}`),
+  );
+  io.stdout.write(out.join('\n') + '\n');
   return 0;
 }
 
@@ -237,60 +324,37 @@ function reportSkips(skipped: readonly { source: string; reason: string }[], war
   if (warnings.length > cap) note(`sheaf: … and ${warnings.length - cap} more warnings (in run.json)`);
 }
 
-/** The group table: id, size, name, cohesion, two exemplar titles. */
-export function printGroups(result: GroupResult, io: CliIo): void {
-  const rows = result.groups.map((g) => [
-    String(g.id),
-    String(g.size),
-    g.label,
-    fixed(g.cohesion, 2),
-    g.exemplars
-      .slice(0, 2)
-      .map((r) => result.docs[r].title || result.docs[r].id)
-      .join(' | '),
-  ]);
-  const lines = renderTable(
-    [
-      { heading: 'group', align: 'right' },
-      { heading: 'size', align: 'right' },
-      { heading: 'name', min: 16 },
-      { heading: 'cohesion', align: 'right' },
-      { heading: 'for example', min: 20 },
-    ],
-    rows,
-    Math.max(60, io.stdout.columns ?? 110),
-  );
-  io.stdout.write(lines.join('\n') + '\n');
-}
-
 interface RunJsonInput {
-  inputs: string[];
+  command: string;
   flags: GroupFlags;
   ingestOptions: IngestOptions;
   result: GroupResult;
-  read: Awaited<ReturnType<typeof ingest>>;
-  timings: { stage: string; ms: number; items: number }[];
+  read: IngestResult;
+  evaluation: Evaluation | null;
+  timings: StageTiming[];
   startedAt: Date;
   finishedAt: Date;
 }
 
-/** `run.json`: settings, versions, input digests, what was skipped and why, stage timings. */
+/** `run.json`: settings, versions, input digests, what was skipped and why, choices, scores, stage timings. */
 function runJson(x: RunJsonInput): unknown {
   const { result, read } = x;
   const km = result.kmeans;
+  const o = result.options;
   return {
     tool: 'sheaf',
-    command: 'group',
+    command: x.command,
     startedAt: x.startedAt.toISOString(),
     finishedAt: x.finishedAt.toISOString(),
     versions: versions(),
     inputs: read.inputs,
     settings: {
       ingest: x.ingestOptions,
-      analyzer: result.options.analyzer,
-      vectorize: result.options.vectorize,
-      kmeans: result.options.kmeans,
-      label: result.options.label,
+      analyzer: o.analyzer,
+      vectorize: o.vectorize,
+      grouping: { method: o.method, groups: o.groups, minSimilarity: o.minSimilarity, choose: o.choose, tree: o.tree },
+      kmeans: o.kmeans,
+      label: o.label,
       out: x.flags.out,
     },
     counts: {
@@ -298,17 +362,35 @@ function runJson(x: RunJsonInput): unknown {
       skipped: read.skipped.length,
       grouped: read.docs.length - result.emptyRows.length,
       withoutTerms: result.emptyRows.length,
+      groups: result.partition.groups,
       terms: result.vocabulary.terms.length,
       nonZeros: result.matrix.indptr[result.matrix.rows],
     },
-    kmeans: {
-      groups: km.groups,
-      objective: round(km.objective, 6),
-      iterations: km.iterations,
-      converged: km.converged,
-      restartObjectives: Array.from(km.restartObjectives, (v) => round(v, 6)),
-      reseeded: km.reseeded,
+    choice: result.choice
+      ? {
+          by: result.choice.by,
+          chosen: result.choice.chosen,
+          treeLeaves: result.choice.treeLeaves,
+          sampled: result.choice.sampled,
+          tried: result.choice.tried.map((t) => ({ groups: t.groups, silhouette: Number.isFinite(t.silhouette) ? round(t.silhouette, 6) : null })),
+        }
+      : null,
+    quality: {
+      silhouette: Number.isFinite(result.quality.silhouette.mean) ? round(result.quality.silhouette.mean, 6) : null,
+      silhouetteSampled: result.quality.silhouette.sampled,
+      objective: round(result.partition.objective, 6),
     },
+    kmeans: km
+      ? {
+          groups: km.groups,
+          objective: round(km.objective, 6),
+          iterations: km.iterations,
+          converged: km.converged,
+          restartObjectives: Array.from(km.restartObjectives, (v) => round(v, 6)),
+          reseeded: km.reseeded,
+        }
+      : null,
+    evaluation: x.evaluation ? evaluationJson(x.evaluation) : null,
     skipped: read.skipped,
     warnings: read.warnings,
     withoutTerms: Array.from(result.emptyRows, (r) => result.docs[r].id),

@@ -7,7 +7,7 @@
 import { Command, CommanderError } from 'commander';
 import type { CliIo } from './io.js';
 import { usageLine } from './parse.js';
-import { registerGroup } from './group.js';
+import { registerGroup, registerTree } from './group.js';
 import { versions } from './versions.js';
 import { UsageError } from '../util/errors.js';
 
@@ -27,6 +27,7 @@ export function createProgram(io: CliIo, setExit: (code: number) => void): Comma
       outputError: (s, write) => write(s.replace(/^error: /, 'sheaf: ')),
     });
   registerGroup(program, io, setExit);
+  registerTree(program, io, setExit);
   for (const sub of program.commands) {
     sub.exitOverride().configureOutput({
       writeOut: (s) => io.stdout.write(s),

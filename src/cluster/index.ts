@@ -7,3 +7,4 @@ export * from './kmeans.js';
 export * from './tree.js';
 export * from './newick.js';
 export * from './quality.js';
+export * from './partition.js';

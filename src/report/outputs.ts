@@ -5,6 +5,9 @@
  * @module
  */
 import type { GroupResult } from '../pipeline.js';
+import { treeToJson } from '../cluster/tree.js';
+import { toNewick } from '../cluster/newick.js';
+import { encodeLabels, externalScores, type ExternalScores } from '../evaluate/index.js';
 import { csvText, fixed } from './csv.js';
 
 /** Columns sheaf puts first in `documents.csv`. */
@@ -35,7 +38,7 @@ export function documentsCsv(result: GroupResult, extras: DocumentExtras = {}): 
     }
   }
   const header = [...DOCUMENT_COLUMNS, ...userColumns.map((c) => (own.has(c) ? `input_${c}` : c))];
-  const { assignments, fit } = result.kmeans;
+  const { assignments, fit } = result.partition;
   const labels = result.groups.map((g) => g.label);
   const dup = extras.duplicateSet;
   function* rows(): Generator<string[]> {
@@ -57,7 +60,7 @@ export function documentsCsv(result: GroupResult, extras: DocumentExtras = {}): 
   return csvText(header, rows());
 }
 
-/** The `groups` part of `groups.json`. */
+/** The shape of `groups.json`. */
 export interface GroupsJson {
   readonly groups: {
     id: number;
@@ -65,13 +68,30 @@ export interface GroupsJson {
     terms: { term: string; weight: number }[];
     size: number;
     cohesion: number;
+    /** Highest cosine between this group's centroid and another group's (null with one group). */
+    separation: number | null;
+    /** Mean silhouette of the group's sampled members (null when none was sampled). */
+    silhouette: number | null;
     exemplars: string[];
   }[];
+  /** Average-link tree over the groups: leaves are group ids, node `groups + i` is made by merge `i`. */
+  readonly tree: {
+    method: string;
+    leaves: number;
+    root: number | null;
+    nodes: { id: number; children: [number, number] | null; similarity: number | null; groups: number; documents: number; label?: string }[];
+  };
   readonly [extra: string]: unknown;
 }
 
-/** `groups.json`: groups with label, weighted terms, size, cohesion and exemplar ids. */
+function finiteOrNull(v: number, digits = 6): number | null {
+  return Number.isFinite(v) ? round(v, digits) : null;
+}
+
+/** `groups.json`: groups with label, weighted terms, size, cohesion, separation, exemplar ids, and the tree over them. */
 export function groupsJson(result: GroupResult, extra: Record<string, unknown> = {}): GroupsJson {
+  const sizes = result.groups.map((g) => g.size);
+  const tree = treeToJson(result.tree, { leafDocuments: sizes });
   return {
     groups: result.groups.map((g) => ({
       id: g.id,
@@ -79,9 +99,96 @@ export function groupsJson(result: GroupResult, extra: Record<string, unknown> =
       terms: g.terms.map((t) => ({ term: t.term, weight: round(t.weight, 6) })),
       size: g.size,
       cohesion: round(g.cohesion, 6),
+      separation: finiteOrNull(result.quality.separation[g.id]),
+      silhouette: finiteOrNull(result.quality.silhouette.perGroup[g.id]),
       exemplars: g.exemplars.map((r) => result.docs[r].id),
     })),
+    tree: {
+      method: 'average-link (UPGMA) on cosine over the groups',
+      leaves: tree.leaves,
+      root: tree.root,
+      nodes: tree.nodes.map((node) => ({
+        id: node.id,
+        children: node.children,
+        similarity: node.similarity === null ? null : round(node.similarity, 6),
+        groups: node.size,
+        documents: node.documents ?? 0,
+        ...(node.children === null ? { label: result.groups[node.id].label } : {}),
+      })),
+    },
     ...extra,
+  };
+}
+
+/** `tree.nwk`: the tree over the groups in Newick, leaves named `<id> <label>`. */
+export function treeNewick(result: GroupResult): string {
+  return toNewick(result.tree, result.groups.map((g) => `${g.id} ${g.label}`)) + '\n';
+}
+
+/** `documents.nwk` (method agglomerative): the document-level tree in Newick, leaves named by document id. */
+export function documentTreeNewick(result: GroupResult): string | null {
+  if (!result.documentTree || !result.treeRows) return null;
+  const rows = result.treeRows;
+  return toNewick(result.documentTree, Array.from(rows, (r) => result.docs[r].id)) + '\n';
+}
+
+/** Scores of the groups against known labels, and where each known label went. */
+export interface Evaluation {
+  readonly field: string;
+  /** Documents scored (in a group and with a known label). */
+  readonly scored: number;
+  /** Documents left out (no group, or an empty label). */
+  readonly leftOut: number;
+  readonly scores: Omit<ExternalScores, 'contingency'>;
+  /** One row per known label, largest first: where its documents went. */
+  readonly contingency: { label: string; size: number; groups: { group: string; count: number }[] }[];
+}
+
+/**
+ * Compares predicted groups with known labels (`truth[i]` and `predicted[i]`
+ * for the same document; empty strings are left out).
+ */
+export function evaluateLabels(field: string, truth: readonly string[], predicted: readonly string[]): Evaluation {
+  const keep: number[] = [];
+  for (let i = 0; i < truth.length; i++) if (truth[i] !== '' && predicted[i] !== '') keep.push(i);
+  const t = encodeLabels(keep.map((i) => truth[i]));
+  const p = encodeLabels(keep.map((i) => predicted[i]));
+  const all = externalScores(t.codes, p.codes);
+  const { contingency: c, ...scores } = all;
+  const rows = t.names.map((label, a) => {
+    const groups: { group: string; count: number }[] = [];
+    for (let b = 0; b < c.cols; b++) {
+      const count = c.counts[a * c.cols + b];
+      if (count > 0) groups.push({ group: p.names[b], count });
+    }
+    groups.sort((x, y) => y.count - x.count || compareGroupNames(x.group, y.group));
+    return { label, size: c.rowTotals[a], groups };
+  });
+  rows.sort((x, y) => y.size - x.size || (x.label < y.label ? -1 : 1));
+  return { field, scored: keep.length, leftOut: truth.length - keep.length, scores, contingency: rows };
+}
+
+function compareGroupNames(a: string, b: string): number {
+  const na = Number(a);
+  const nb = Number(b);
+  if (Number.isFinite(na) && Number.isFinite(nb)) return na - nb;
+  return a < b ? -1 : a > b ? 1 : 0;
+}
+
+/** `{ purity, nmi, ari, v_measure, contingency }` for scripts (`sheaf evaluate --json`). */
+export function evaluationJson(e: Evaluation): unknown {
+  return {
+    field: e.field,
+    scored: e.scored,
+    left_out: e.leftOut,
+    purity: round(e.scores.purity, 6),
+    nmi: round(e.scores.nmi, 6),
+    ari: round(e.scores.ari, 6),
+    v_measure: round(e.scores.vMeasure, 6),
+    homogeneity: round(e.scores.homogeneity, 6),
+    completeness: round(e.scores.completeness, 6),
+    rand_index: round(e.scores.randIndex, 6),
+    contingency: e.contingency,
   };
 }
 

@@ -12,8 +12,16 @@ import { chromium, type Browser } from 'playwright-core';
 import { diffWords } from 'diff';
 import type { ReportData, ReportDiffPiece } from '../../src/report/report-data.js';
 import { groupMap } from '../../src/report/map.js';
+import { ingest } from '../../src/ingest/index.js';
+import { groupDocuments } from '../../src/pipeline.js';
+import { groupAverageLink } from '../../src/cluster/tree.js';
+import { groupSeparation } from '../../src/cluster/quality.js';
+import { findNearDuplicates, wordDiff as pieceDiff } from '../../src/duplicates/index.js';
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
+
+/** The repository root (for the demo corpus). */
+export const REPO_ROOT = path.resolve(path.dirname(new URL(import.meta.url).pathname), '..', '..');
 
 /** Launches Debian's Chromium headless; fails with a clear message when it is missing. */
 export async function launchBrowser(): Promise<Browser> {
@@ -273,5 +281,85 @@ export function largeReport(n: number, k: number): ReportData {
       y: Math.sin((2 * Math.PI * g) / k),
     })),
     documents,
+  };
+}
+
+/**
+ * Report data from a real run of the pipeline on the demo tickets
+ * (corpus-demo/tickets.csv, subject + body, id ticket_id, title subject):
+ * k-means groups, the map from their centroids, the average-link tree over the
+ * groups, near-duplicate sets at cosine >= `threshold` (default 0.8, low enough to catch the
+ * demo's planted near-copies as well as its exact copies) with word diffs.
+ */
+export async function demoReport(groups = 8, threshold = 0.8): Promise<ReportData> {
+  const { docs, skipped } = await ingest(
+    ['corpus-demo/tickets.csv'],
+    { text: ['subject', 'body'], id: 'ticket_id', title: 'subject' },
+    { cwd: REPO_ROOT },
+  );
+  const result = groupDocuments(docs, { kmeans: { groups } });
+  const km = result.partition;
+  const k = km.groups;
+  const terms = result.vocabulary.terms.length;
+  const map = groupMap(km.centroids, terms, k);
+  const separation = groupSeparation(km.centroids, terms, k);
+  const tree = groupAverageLink(result.matrix, km.assignments, k);
+  const near = findNearDuplicates(result.matrix, { threshold });
+  const rows = result.docs;
+  const merges = Array.from({ length: tree.left.length }, (_, i) => ({
+    left: tree.left[i],
+    right: tree.right[i],
+    similarity: tree.similarity[i],
+    size: tree.size[i],
+  }));
+  return {
+    title: 'sheaf — tickets.csv',
+    createdAt: '2029-11-01T09:00:00.000Z',
+    version: '0.1.0',
+    settings: [
+      { name: 'groups', value: String(k) },
+      { name: 'seed', value: String(result.options.kmeans.seed) },
+      { name: 'restarts', value: String(result.options.kmeans.restarts) },
+      { name: 'near-duplicate threshold', value: String(near.options.threshold) },
+    ],
+    counts: {
+      documents: rows.length,
+      grouped: rows.length - result.emptyRows.length,
+      withoutTerms: result.emptyRows.length,
+      skipped: skipped.length,
+      terms,
+    },
+    groups: result.groups.map((g) => ({
+      id: g.id,
+      label: g.label,
+      size: g.size,
+      cohesion: g.cohesion,
+      separation: separation[g.id],
+      terms: g.terms.map((t) => ({ term: t.term, weight: t.weight })),
+      exemplars: g.exemplars.map((r) => rows[r].id),
+      x: map.x[g.id],
+      y: map.y[g.id],
+    })),
+    tree: { merges },
+    documents: Array.from(result.inputOrder, (r) => ({
+      id: rows[r].id,
+      title: rows[r].title,
+      group: km.assignments[r],
+      fit: km.assignments[r] >= 0 ? km.fit[r] : Number.NaN,
+      duplicateSet: near.setOf[r],
+    })),
+    duplicates: {
+      threshold: near.options.threshold,
+      by: 'cosine of TF-IDF vectors',
+      sets: near.sets.map((set) => ({
+        id: set.id,
+        representative: rows[set.representative].id,
+        members: Array.from(set.members, (r, j) => ({
+          id: rows[r].id,
+          similarity: set.similarityToRepresentative[j],
+          ...(r === set.representative ? {} : { diff: pieceDiff(rows[set.representative].text, rows[r].text) }),
+        })),
+      })),
+    },
   };
 }
