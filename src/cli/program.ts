@@ -8,6 +8,7 @@ import { Command, CommanderError } from 'commander';
 import type { CliIo } from './io.js';
 import { usageLine } from './parse.js';
 import { registerGroup, registerTree } from './group.js';
+import { registerEvaluate } from './evaluate.js';
 import { versions } from './versions.js';
 import { UsageError } from '../util/errors.js';
 
@@ -28,6 +29,7 @@ export function createProgram(io: CliIo, setExit: (code: number) => void): Comma
     });
   registerGroup(program, io, setExit);
   registerTree(program, io, setExit);
+  registerEvaluate(program, io, setExit);
   for (const sub of program.commands) {
     sub.exitOverride().configureOutput({
       writeOut: (s) => io.stdout.write(s),
