@@ -17,8 +17,8 @@
  * - Probing, dimensions taken from the rarest: a row not yet met is admitted as
  *   a candidate only while `remscore` (the bound on what the dimensions not
  *   yet taken can add, `Σ x[i] · maxweight_i(V)`) reaches the threshold.
- * - Size pruning, in a stronger form than the paper's `|y| >= t / maxweight(x)`
- *   that holds for any non-negative rows: x · y <= maxweight(x) · ‖y‖₁, so a
+ * - Size pruning, in place of the paper's bound on the number of entries |y|
+ *   (which leans on unit length), a form that holds for any non-negative rows: x · y <= maxweight(x) · ‖y‖₁, so a
  *   row y with `maxweight(x) · ‖y‖₁ < t` can match neither x nor any later row
  *   (later rows have smaller maxweight) and is dropped from the front of the
  *   posting lists for good.
