@@ -49,7 +49,7 @@ describe('sheaf evaluate', () => {
     expect(run.code).toBe(0);
     const lines = run.stdout.split('\n');
     expect(lines[0]).toBe('Against "shape" (17 documents): purity 0.706  NMI 0.365  ARI 0.243  V-measure 0.365'); // scikit-learn's adjusted_rand_score on these labels: 0.242915
-    expect(lines[3]).toBe('x          8  group 1: 5 (63%), group 3: 2 (25%), group 2: 1 (13%)');
+    expect(lines[3]).toBe('x         8  group 1: 5 (63%), group 3: 2 (25%), group 2: 1 (13%)');
   });
 
   it('leaves out rows with no group, and says so', async () => {
