@@ -7,7 +7,7 @@ import { renderReport, REPORT_DATA_ELEMENT_ID } from '../src/report/html.js';
 import { escapeHtml, formatCount, formatFixed, jsonForScript, truncate } from '../src/report/html-escape.js';
 import { reportPayload, type ReportPayload } from '../src/report/html-payload.js';
 import { REPORT_SCRIPT } from '../src/report/html-client.js';
-import { treeLayout } from '../src/report/html-charts.js';
+import { similarityAxis, treeLayout } from '../src/report/html-charts.js';
 import type { ReportData } from '../src/report/report-data.js';
 import { HOSTILE, tinyReport } from './helpers/browser.js';
 
@@ -174,22 +174,44 @@ describe('renderReport: self-contained page', () => {
     expect((cx[2] - cx[0]) / (g[2].x - g[0].x)).toBeCloseTo(sx, 1);
   });
 
-  it('tree: one branch per merge, join heights linear in similarity with 1 at the bottom, leaves linked', () => {
+  it('tree: one branch per merge, join heights linear in similarity on the axis, leaves on the bottom edge, leaves linked', () => {
     const tree = byId(doc, 'tree');
     const merges = data.tree!.merges;
-    expect(DomUtils.findAll((el) => el.name === 'path', [tree])).toHaveLength(merges.length);
+    const branches = DomUtils.findAll((el) => el.name === 'path' && el.attribs.class === 'branch', [tree]);
+    expect(branches).toHaveLength(merges.length);
+    const ticks = DomUtils.findAll((el) => el.name === 'text' && el.attribs.class === 'tick', [tree]).map((t) => ({
+      value: Number(DomUtils.textContent(t)),
+      y: Number(t.attribs.y) - 4,
+    }));
+    const axis = similarityAxis(merges.map((m) => m.similarity));
+    expect(ticks[0].value).toBeCloseTo(axis.low, 9);
+    expect(ticks[ticks.length - 1].value).toBeCloseTo(axis.high, 9);
+    const yAt = (sim: number) =>
+      ticks[0].y + ((sim - ticks[0].value) * (ticks[ticks.length - 1].y - ticks[0].y)) / (ticks[ticks.length - 1].value - ticks[0].value);
     const joins = DomUtils.findAll((el) => el.name === 'circle', [tree]).map((c) => Number(c.attribs.cy));
-    // Leaves sit at similarity 1: read off the first branch's starting y.
-    const first = DomUtils.findOne((el) => el.name === 'path', [tree])!.attribs.d;
-    const leafY = Number(/^M[\d.]+ ([\d.]+)/.exec(first)![1]);
-    const slope = (leafY - joins[0]) / (1 - merges[0].similarity);
-    expect(slope).toBeGreaterThan(0);
-    expect((leafY - joins[1]) / (1 - merges[1].similarity)).toBeCloseTo(slope, 1);
+    merges.forEach((m, i) => expect(joins[i]).toBeCloseTo(yAt(m.similarity), 1));
+    // Higher similarity is drawn lower; the leaves start on the bottom edge (the axis maximum).
+    expect(ticks[ticks.length - 1].y).toBeGreaterThan(ticks[0].y);
+    const leafY = Number(/^M[\d.]+ ([\d.]+)/.exec(branches[0].attribs.d)![1]);
+    expect(leafY).toBeCloseTo(ticks[ticks.length - 1].y, 1);
     const leafLinks = DomUtils.findAll((el) => el.name === 'a', [DomUtils.findOne((el) => el.name === 'svg', [tree])!]);
     expect(leafLinks.map((a) => a.attribs.href).sort()).toEqual(['#group-0', '#group-1', '#group-2']);
     const rows = DomUtils.findAll((el) => el.name === 'tr', [DomUtils.findOne((el) => el.name === 'tbody', [tree])!]);
     expect(rows).toHaveLength(2);
     expect(DomUtils.textContent(rows[1])).toContain('merge 1 (2 groups)');
+  });
+
+  it('similarityAxis: steps of 1, 2 or 5 × 10^n from a tick below the lowest join to half a step or more above the highest', () => {
+    const close = (got: { low: number; high: number; tick: number }, want: [number, number, number]) => {
+      expect(got.low).toBeCloseTo(want[0], 12);
+      expect(got.high).toBeCloseTo(want[1], 12);
+      expect(got.tick).toBe(want[2]);
+    };
+    close(similarityAxis([0.031, 0.098]), [0.02, 0.12, 0.02]); // span 0.067: 0.02 steps; 0.098 + 0.01 -> 0.12
+    close(similarityAxis([0.031, 0.09]), [0.03, 0.1, 0.01]); // span 0.059 <= 6 steps of 0.01; 0.09 + 0.005 -> 0.10
+    close(similarityAxis([0.2, 0.9]), [0.2, 1, 0.2]); // capped at 1
+    close(similarityAxis([0.5]), [0.5, 0.501, 0.001]); // one join: minimum span 0.005 -> steps of 0.001
+    close(similarityAxis([0, 0.0123]), [0, 0.015, 0.005]);
   });
 
   it('group page: stats, term bars with weights, exemplars with titles, a mount for the document list', () => {
@@ -212,10 +234,10 @@ describe('renderReport: self-contained page', () => {
     expect(mount.attribs).toMatchObject({ 'data-table': 'group', 'data-group': '0' });
   });
 
-  it('embedded numbers are rounded to 4 decimals, non-finite fits become null', () => {
+  it('embedded numbers are rounded to 3 decimals (what the page shows), non-finite fits become null', () => {
     const p = JSON.parse(rawDataBlock(html)) as ReportPayload;
     data.documents.forEach((d, i) => {
-      if (Number.isFinite(d.fit)) expect(Math.abs(p.documents.fit[i]! - d.fit)).toBeLessThanOrEqual(5e-5);
+      if (Number.isFinite(d.fit)) expect(p.documents.fit[i]).toBe(Number(d.fit.toFixed(3)));
       else expect(p.documents.fit[i]).toBeNull();
     });
     expect(p.duplicates!.sets[0].members[1].diff).toEqual(

@@ -148,17 +148,20 @@ export function mapChart(groups: readonly Group[], colourIndex: ReadonlyMap<numb
     ),
     `<rect class="plot-frame" x="1" y="1" width="${width - 2}" height="${height - 2}"></rect>`,
   ];
+  const px = xs.map((x) => cx0 + s * x);
+  const py = ys.map((y) => cy0 - s * y); // positive y upwards
+  const pr = groups.map((g) => Math.max(rMin, rMax * Math.sqrt(clamp(g.size, 0, maxSize) / maxSize)));
+  const names = groups.map((g) => groupName(g, 26));
+  const placed = placeLabels(order, px, py, pr, names, width, height);
   for (const i of order) {
     const g = groups[i];
-    const px = cx0 + s * xs[i];
-    const py = cy0 - s * ys[i]; // positive y upwards
-    const r = Math.max(rMin, rMax * Math.sqrt(clamp(g.size, 0, maxSize) / maxSize));
+    const label = placed[i];
     out.push(
       `<a href="${groupHref(g.id)}" class="chart-link" aria-label="${e(
         `Group ${g.id}: ${g.label}, ${formatCount(g.size)} documents`,
       )}">`,
-      `<circle class="map-dot" cx="${c2(px)}" cy="${c2(py)}" r="${c2(r)}" fill="${groupColour(colourIndex.get(g.id) ?? i)}"></circle>`,
-      `<text class="map-label" x="${c2(px)}" y="${c2(py + r + 13)}" text-anchor="middle">${e(groupName(g, 26))}<title>${e(
+      `<circle class="map-dot" cx="${c2(px[i])}" cy="${c2(py[i])}" r="${c2(pr[i])}" fill="${groupColour(colourIndex.get(g.id) ?? i)}"></circle>`,
+      `<text class="map-label" x="${c2(label.x)}" y="${c2(label.y)}" text-anchor="${label.anchor}">${e(names[i])}<title>${e(
         `${groupName(g)}, ${formatCount(g.size)} documents`,
       )}</title></text>`,
       `</a>`,
@@ -166,6 +169,69 @@ export function mapChart(groups: readonly Group[], colourIndex: ReadonlyMap<numb
   }
   out.push('</svg>');
   return out.join('');
+}
+
+/** Where a map label goes: its anchor point and text-anchor. */
+export interface LabelSpot {
+  readonly x: number;
+  readonly y: number;
+  readonly anchor: 'start' | 'middle' | 'end';
+}
+
+/** Rough width of 12px sans-serif text per character (common practice: about 0.55 em). */
+const CHAR_WIDTH = 6.8;
+
+/**
+ * Greedy label placement for the map: in the given order (largest first), each
+ * label takes the candidate spot (below, above, right, left of its circle) that
+ * overlaps least with labels already placed and with circles, and stays inside
+ * the frame; ties go to the earlier candidate.
+ */
+export function placeLabels(
+  order: readonly number[],
+  px: readonly number[],
+  py: readonly number[],
+  pr: readonly number[],
+  names: readonly string[],
+  width: number,
+  height: number,
+): LabelSpot[] {
+  type Box = [number, number, number, number];
+  const boxes: Box[] = [];
+  const spots: LabelSpot[] = new Array(px.length);
+  const overlap = (a: Box, b: Box) =>
+    Math.max(0, Math.min(a[2], b[2]) - Math.max(a[0], b[0])) * Math.max(0, Math.min(a[3], b[3]) - Math.max(a[1], b[1]));
+  for (const i of order) {
+    const w = Array.from(names[i]).length * CHAR_WIDTH;
+    const candidates: LabelSpot[] = [
+      { x: px[i], y: py[i] + pr[i] + 13, anchor: 'middle' },
+      { x: px[i], y: py[i] - pr[i] - 5, anchor: 'middle' },
+      { x: px[i] + pr[i] + 4, y: py[i] + 4, anchor: 'start' },
+      { x: px[i] - pr[i] - 4, y: py[i] + 4, anchor: 'end' },
+    ];
+    let best = 0;
+    let bestScore = Infinity;
+    let bestBox: Box = [0, 0, 0, 0];
+    candidates.forEach((c, ci) => {
+      const x0 = c.anchor === 'middle' ? c.x - w / 2 : c.anchor === 'start' ? c.x : c.x - w;
+      const box: Box = [x0, c.y - 11, x0 + w, c.y + 3];
+      let score = 0;
+      for (const b of boxes) score += overlap(box, b);
+      for (let j = 0; j < px.length; j++) {
+        score += 0.5 * overlap(box, [px[j] - pr[j], py[j] - pr[j], px[j] + pr[j], py[j] + pr[j]]);
+      }
+      const outside = w * 14 - overlap(box, [2, 2, width - 2, height - 2]);
+      score += 4 * outside;
+      if (score < bestScore - 1e-9) {
+        bestScore = score;
+        best = ci;
+        bestBox = box;
+      }
+    });
+    boxes.push(bestBox);
+    spots[i] = candidates[best];
+  }
+  return spots;
 }
 
 /** Validated tree layout: leaf order and per-node positions, or a reason it cannot be drawn. */
@@ -212,9 +278,29 @@ export function treeLayout(k: number, merges: readonly Merge[]): TreeLayout {
 }
 
 /**
- * The dendrogram over the groups: leaves at the bottom (similarity 1), each
- * merge drawn at the height of its average-link similarity, lower similarity
- * higher up. Leaf labels are links to the group pages.
+ * Range and tick step of the dendrogram's similarity axis: from a tick at or
+ * below the lowest join to the first tick at least half a step above the
+ * highest (at most 1), so the highest join stands clear of the leaves; about
+ * 3 to 7 steps of 1, 2 or 5 × 10^n. Text TF-IDF groups often join at similarities
+ * near 0, so the axis covers the joins rather than all of [0, 1].
+ */
+export function similarityAxis(similarities: readonly number[]): { low: number; high: number; tick: number } {
+  const finite = similarities.filter((v) => Number.isFinite(v)).map((v) => clamp(v, -1, 1));
+  const lo = finite.length > 0 ? Math.min(...finite) : 0;
+  const hi = finite.length > 0 ? Math.max(...finite) : 1;
+  const span = Math.max(hi - lo, 0.005);
+  const steps = [0.001, 0.002, 0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5];
+  const tick = steps.find((s) => span / s <= 6) ?? 0.5;
+  const low = Math.max(-1, Math.floor(lo / tick + 1e-9) * tick);
+  const high = Math.min(1, Math.ceil((hi + tick / 2) / tick - 1e-9) * tick);
+  return { low, high, tick };
+}
+
+/**
+ * The dendrogram over the groups: leaves on the bottom edge, each merge drawn
+ * at the height of its average-link similarity on the axis of
+ * {@link similarityAxis}, lower similarity higher up. Leaf labels are links to
+ * the group pages.
  */
 export function treeChart(groups: readonly Group[], merges: readonly Merge[]): string {
   const k = groups.length;
@@ -228,17 +314,15 @@ export function treeChart(groups: readonly Group[], merges: readonly Merge[]): s
   const width = left + step * k + 24;
   const height = top + plotH + labelH;
   const sims = merges.map((m) => (Number.isFinite(m.similarity) ? m.similarity : 0));
-  const lowRaw = Math.min(1, ...sims);
-  const span = 1 - lowRaw;
-  const tick = span > 1 ? 0.5 : span > 0.5 ? 0.2 : span > 0.2 ? 0.1 : span > 0.1 ? 0.05 : 0.02;
-  const low = Math.max(-1, Math.floor(lowRaw / tick + 1e-9) * tick);
-  // Similarity 1 at the bottom (where the leaves sit), lower similarity higher up.
-  const yOf = (sim: number) => top + (plotH * (clamp(sim, low, 1) - low)) / (1 - low || 1);
+  const { low, high, tick } = similarityAxis(sims);
+  const digits = tick < 0.01 ? 3 : tick < 0.1 ? 2 : 1;
+  // Lower similarity higher up; the leaves sit on the bottom edge (the highest value of the axis).
+  const yOf = (sim: number) => top + (plotH * (clamp(sim, low, high) - low)) / (high - low || 1);
   const nx = new Float64Array(k + merges.length);
   const ny = new Float64Array(k + merges.length);
   layout.leafOrder.forEach((leaf, pos) => {
     nx[leaf] = left + step * (pos + 0.5);
-    ny[leaf] = yOf(1);
+    ny[leaf] = yOf(high);
   });
   const out: string[] = [
     svgOpen(
@@ -247,20 +331,25 @@ export function treeChart(groups: readonly Group[], merges: readonly Merge[]): s
       height,
       'Tree of the groups',
       `Dendrogram of ${k} groups built by average-link agglomeration on cosine similarity. ` +
-        'Leaves at the bottom are groups; two branches join at the height of the mean similarity between their documents, ' +
-        'read on the left axis (1 at the bottom, lower similarity higher up). Leaf labels link to the group pages.',
+        'Leaves on the bottom edge are the groups; two branches join at the height of the mean similarity between their documents, ' +
+        `read on the left axis, which runs from ${formatFixed(high, digits)} at the bottom to ${formatFixed(low, digits)} at the top ` +
+        '(the range of the joins; lower similarity higher up). Leaf labels link to the group pages.',
       'tree-chart',
     ),
   ];
-  // Axis with ticks.
-  out.push(`<line class="axis" x1="${left - 8}" y1="${c2(yOf(1))}" x2="${left - 8}" y2="${c2(yOf(low))}"></line>`);
-  const ticks = Math.round((1 - low) / tick);
+  // Axis with ticks; a break mark at the bottom when the axis does not reach 1.
+  out.push(`<line class="axis" x1="${left - 8}" y1="${c2(yOf(high))}" x2="${left - 8}" y2="${c2(yOf(low))}"></line>`);
+  if (high < 1) {
+    const yb = yOf(high) - 10;
+    out.push(`<path class="axis" d="M${left - 13} ${c2(yb + 3)}l10 -5M${left - 13} ${c2(yb + 8)}l10 -5"></path>`);
+  }
+  const ticks = Math.round((high - low) / tick);
   for (let t = 0; t <= ticks; t++) {
-    const v = 1 - t * tick;
+    const v = low + t * tick;
     const y = yOf(v);
     out.push(
       `<line class="grid" x1="${left - 12}" y1="${c2(y)}" x2="${c2(width - 16)}" y2="${c2(y)}"></line>`,
-      `<text class="tick" x="${left - 14}" y="${c2(y + 4)}" text-anchor="end">${formatFixed(v, tick < 0.1 ? 2 : 1)}</text>`,
+      `<text class="tick" x="${left - 14}" y="${c2(y + 4)}" text-anchor="end">${formatFixed(v, digits)}</text>`,
     );
   }
   out.push(

@@ -352,7 +352,7 @@ function renderMember(set, mem) {
     if (mem.diff && mem.diff.length) {
       var added = 0, removed = 0;
       for (var k = 0; k < mem.diff.length; k++) { if (mem.diff[k][0] === 1) added++; else if (mem.diff[k][0] === 2) removed++; }
-      art.appendChild(el('p', { className: 'muted', text: count(added) + ' added and ' + count(removed) + ' removed passages.' }));
+      art.appendChild(el('p', { className: 'muted', text: added + removed === 0 ? 'The same words as the representative.' : count(added) + ' added and ' + count(removed) + ' removed passages.' }));
       var full = false;
       var body = renderDiff(mem.diff, full);
       var toggle = el('button', { type: 'button', className: 'toggle', 'aria-expanded': 'false', text: 'Show the full text' });

@@ -68,10 +68,13 @@ export function truncate(text: string, max: number): string {
   return points.slice(0, Math.max(1, max - 1)).join('') + '…';
 }
 
-/** Rounds for the embedded data; `null` for a non-finite value (JSON has no NaN). */
+/**
+ * Rounds for the embedded data exactly as `toFixed` does (so the page, which
+ * shows `toFixed` of the same number of digits, shows what the server-side
+ * markup shows); `null` for a non-finite value (JSON has no NaN).
+ */
 export function roundOrNull(value: number, digits: number): number | null {
   if (!Number.isFinite(value)) return null;
-  const f = 10 ** digits;
-  const r = Math.round(value * f) / f;
+  const r = Number(value.toFixed(digits));
   return Object.is(r, -0) ? 0 : r;
 }

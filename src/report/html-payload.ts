@@ -2,15 +2,16 @@
  * The data block embedded in the HTML report: a compact, column-wise form of
  * {@link ReportData} that the page's script reads with `JSON.parse`. Strings are
  * kept exactly; fits and similarities are rounded to {@link PAYLOAD_DIGITS}
- * decimals (the page shows three), which keeps 100k documents to a few MB.
+ * decimals, the precision the page shows, so what a list is sorted by is what
+ * it shows (and 100k documents stay a few MB).
  *
  * @module
  */
 import type { ReportData, ReportDiffPiece } from './report-data.js';
 import { roundOrNull } from './html-escape.js';
 
-/** Decimals kept for fits and similarities in the embedded data. */
-export const PAYLOAD_DIGITS = 4;
+/** Decimals kept for fits and similarities in the embedded data (and shown by the page). */
+export const PAYLOAD_DIGITS = 3;
 
 /** A diff piece as `[kind, text]`, kind 0 = same, 1 = added, 2 = removed. */
 export type PayloadDiffPiece = [0 | 1 | 2, string];
