@@ -284,6 +284,19 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
     expect(await o.page.evaluate(() => (globalThis as any).document.activeElement.tagName)).toBe('H2');
   });
 
+  it('the skip link moves focus to the content without changing the view or the hash', async () => {
+    await o.page.goto(o.url);
+    await go(o.page, '#map');
+    await o.page.locator('a.skip').focus();
+    await o.page.keyboard.press('Enter');
+    expect(await o.page.evaluate(() => (globalThis as any).document.activeElement.id)).toBe('main');
+    expect(await o.page.evaluate(() => (globalThis as any).location.hash)).toBe('#map');
+    expect(await visibleViews(o.page)).toEqual(['map']);
+    // The next Tab lands on the first link inside the content: a circle of the map.
+    await o.page.keyboard.press('Tab');
+    expect(await o.page.evaluate(() => (globalThis as any).document.activeElement.getAttribute('href'))).toMatch(/^#group-\d+$/);
+  });
+
   it('screenshots are real PNGs (overview, a group, a set)', async () => {
     mkdirSync(SHOT_DIR, { recursive: true });
     await go(o.page, '#overview');
@@ -429,5 +442,13 @@ describe('100,000 documents', () => {
     } finally {
       await o.context.close();
     }
+  });
+});
+
+describe('without Chromium', () => {
+  it('the browser tests fail with a message saying what to install', async () => {
+    await expect(launchBrowser('/nonexistent/chromium')).rejects.toThrow(
+      "Chromium is not installed at /nonexistent/chromium; the report's browser tests need it (Debian: apt-get install -y chromium).",
+    );
   });
 });

@@ -340,7 +340,7 @@ export function treeChart(groups: readonly Group[], merges: readonly Merge[]): s
   // Axis with ticks; a break mark at the bottom when the axis does not reach 1.
   out.push(`<line class="axis" x1="${left - 8}" y1="${c2(yOf(high))}" x2="${left - 8}" y2="${c2(yOf(low))}"></line>`);
   if (high < 1) {
-    const yb = yOf(high) - 10;
+    const yb = yOf(high) - 16;
     out.push(`<path class="axis" d="M${left - 13} ${c2(yb + 3)}l10 -5M${left - 13} ${c2(yb + 8)}l10 -5"></path>`);
   }
   const ticks = Math.round((high - low) / tick);

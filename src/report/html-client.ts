@@ -94,7 +94,7 @@ function groupLink(id) {
   return el('a', { href: '#group-' + id, text: id + ' \u00b7 ' + groupLabel.get(id) });
 }
 function setLink(id) {
-  if (id < 0) return el('span', { className: 'muted', text: '\u2013', 'aria-label': 'none' });
+  if (id < 0) return el('span', { className: 'muted' }, [el('span', { 'aria-hidden': 'true', text: '\u2013' }), el('span', { className: 'visually-hidden', text: 'none' })]);
   return el('a', { href: '#set-' + id, text: 'set ' + id });
 }
 function docTitle(i) {
@@ -442,6 +442,10 @@ function route(moveFocus) {
   if (moveFocus && h2) h2.focus({ preventScroll: true });
 }
 window.addEventListener('hashchange', function () { route(true); });
+// The skip link moves focus without changing the hash, so back/forward stay between views.
+var skip = doc.querySelector('a.skip');
+var mainEl = doc.getElementById('main');
+if (skip && mainEl) skip.addEventListener('click', function (ev) { ev.preventDefault(); mainEl.focus(); });
 route(false);
 })();
 `;

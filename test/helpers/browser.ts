@@ -24,15 +24,15 @@ export const CHROMIUM_PATH = '/usr/bin/chromium';
 export const REPO_ROOT = path.resolve(path.dirname(new URL(import.meta.url).pathname), '..', '..');
 
 /** Launches Debian's Chromium headless; fails with a clear message when it is missing. */
-export async function launchBrowser(): Promise<Browser> {
-  if (!existsSync(CHROMIUM_PATH)) {
+export async function launchBrowser(executablePath = CHROMIUM_PATH): Promise<Browser> {
+  if (!existsSync(executablePath)) {
     throw new Error(
-      `Chromium is not installed at ${CHROMIUM_PATH}; the report's browser tests need it (Debian: apt-get install -y chromium).`,
+      `Chromium is not installed at ${executablePath}; the report's browser tests need it (Debian: apt-get install -y chromium).`,
     );
   }
   // playwright's launch() gives the browser a fresh temporary user-data-dir of its own.
   return chromium.launch({
-    executablePath: CHROMIUM_PATH,
+    executablePath,
     args: [
       '--headless',
       '--no-sandbox',
