@@ -16,7 +16,7 @@ import { HOSTILE, demoReport, largeReport, launchBrowser, tinyReport, writeTempH
 /* eslint-disable @typescript-eslint/no-explicit-any -- page callbacks run in the browser, where DOM types exist */
 
 /** Screenshots land here (stable path, overwritten on each run). */
-export const SHOT_DIR = path.join(tmpdir(), 'sheaf-report-screens');
+const SHOT_DIR = path.join(tmpdir(), 'sheaf-report-screens');
 
 let browser: Browser;
 beforeAll(async () => {

@@ -7,7 +7,7 @@ import { renderReport, REPORT_DATA_ELEMENT_ID } from '../src/report/html.js';
 import { escapeHtml, formatCount, formatFixed, jsonForScript, truncate } from '../src/report/html-escape.js';
 import { reportPayload, type ReportPayload } from '../src/report/html-payload.js';
 import { REPORT_SCRIPT } from '../src/report/html-client.js';
-import { similarityAxis, treeLayout } from '../src/report/html-charts.js';
+import { placeLabels, similarityAxis, treeLayout } from '../src/report/html-charts.js';
 import type { ReportData } from '../src/report/report-data.js';
 import { HOSTILE, tinyReport } from './helpers/browser.js';
 
@@ -333,6 +333,17 @@ describe('renderReport: views degrade when parts are missing', () => {
     expect(treeLayout(4, merges).leafOrder).toEqual([0, 2, 1, 3]);
     expect(treeLayout(4, merges.slice(0, 2)).leafOrder).toEqual([1, 3, 0, 2]);
     expect(treeLayout(4, [merges[0], { left: 0, right: 1, similarity: 0.5, size: 2 }]).problem).toBe('merge 1 reuses node 0');
+  });
+});
+
+describe('map label placement', () => {
+  it('a label moves above its circle when below would cover another circle, and inside the frame at an edge', () => {
+    // A at (200,100) r 10; B just below it at (200,125) r 5: A's label below would cover B, so it goes above.
+    const spots = placeLabels([0, 1, 2], [200, 200, 710], [100, 125, 260], [10, 5, 8], ['group A', 'group B', 'edge group'], 720, 520);
+    expect(spots[0]).toEqual({ x: 200, y: 85, anchor: 'middle' });
+    expect(spots[1]).toEqual({ x: 200, y: 143, anchor: 'middle' });
+    // Near the right edge only the spot to the left keeps the whole label inside.
+    expect(spots[2]).toEqual({ x: 698, y: 264, anchor: 'end' });
   });
 });
 

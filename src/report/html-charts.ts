@@ -14,8 +14,10 @@ type Group = ReportData['groups'][number];
 type Merge = NonNullable<ReportData['tree']>['merges'][number];
 
 /**
- * Okabe & Ito (2008), "Color Universal Design", colours distinguishable with
- * common colour-vision deficiencies (black left out so marks show on dark backgrounds).
+ * The qualitative palette of Okabe & Ito (2008), "Color Universal Design",
+ * chosen to stay distinguishable with common colour-vision deficiencies (hex
+ * values from memory; black left out so marks show on dark backgrounds).
+ * Colour only repeats what the labels say.
  */
 export const PALETTE: readonly string[] = ['#E69F00', '#56B4E9', '#009E73', '#F0E442', '#0072B2', '#D55E00', '#CC79A7', '#999999'];
 
