@@ -28,6 +28,8 @@ import {
 } from '../report/outputs.js';
 import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
 import { toMatrixMarket } from '../vectorize/index.js';
+import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copies.js';
+import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
 import { UsageError } from '../util/errors.js';
 import type { Doc } from '../types.js';
 
@@ -59,6 +61,7 @@ export interface GroupFlags {
   seed?: string;
   terms?: string;
   truth?: string;
+  duplicates?: string;
   out: string;
   saveVectors?: string;
   json?: boolean;
@@ -118,6 +121,7 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
   cmd
     .option('--out <dir>', 'output folder', 'sheaf-out')
     .option('--save-vectors <dir>', 'also write the TF-IDF matrix (MatrixMarket), terms and ids to this folder')
+    .option('--duplicates <t>', 'also find near-copies at cosine >= t (duplicate_set column, duplicates.csv/json)')
     .option('--json', 'print the groups as JSON on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: GroupFlags) => {
@@ -166,12 +170,9 @@ function parseRange(value: string | undefined): [number, number] | undefined {
   return [Number(m[1]), Number(m[2])];
 }
 
-/** Turns flags into the library's option objects (validated here, before any reading). */
-export async function groupOptionsFromFlags(
-  flags: GroupFlags,
-  io: CliIo,
-): Promise<{ ingest: IngestOptions; group: GroupOptions }> {
-  const ingestOptions = resolveIngestOptions({
+/** The ingest options from the input flags (validated). */
+export function ingestOptionsFromFlags(flags: GroupFlags): IngestOptions {
+  return resolveIngestOptions({
     text: list(flags.text) ?? null,
     id: flags.id ?? null,
     title: flags.title ?? null,
@@ -180,12 +181,11 @@ export async function groupOptionsFromFlags(
     ...(flags.include ? { include: flags.include } : {}),
     ...(flags.exclude ? { exclude: flags.exclude } : {}),
   });
-  const groups = flags.groups === undefined ? undefined : flags.groups.trim().toLowerCase() === 'auto' ? 'auto' : wholeNumber(flags.groups, 'groups');
-  const group: GroupOptions = {
-    groups,
-    minSimilarity: decimal(flags.minSimilarity, 'minSimilarity'),
-    method: flags.method as GroupOptions['method'],
-    choose: { range: parseRange(flags.range), sampleSize: wholeNumber(flags.sample, 'sample') },
+}
+
+/** The analyzer and vocabulary options from the analysis flags (reads the stop-word file). */
+export async function analysisOptionsFromFlags(flags: GroupFlags, io: CliIo): Promise<Pick<GroupOptions, 'analyzer' | 'vectorize'>> {
+  return {
     analyzer: {
       lang: flags.lang,
       stem: flags.stem,
@@ -199,6 +199,22 @@ export async function groupOptionsFromFlags(
       maxDf: decimal(flags.maxDf, 'maxDf'),
       maxTerms: wholeNumber(flags.maxTerms, 'maxTerms'),
     },
+  };
+}
+
+/** Turns flags into the library's option objects (validated here, before any reading). */
+export async function groupOptionsFromFlags(
+  flags: GroupFlags,
+  io: CliIo,
+): Promise<{ ingest: IngestOptions; group: GroupOptions }> {
+  const ingestOptions = ingestOptionsFromFlags(flags);
+  const groups = flags.groups === undefined ? undefined : flags.groups.trim().toLowerCase() === 'auto' ? 'auto' : wholeNumber(flags.groups, 'groups');
+  const group: GroupOptions = {
+    groups,
+    minSimilarity: decimal(flags.minSimilarity, 'minSimilarity'),
+    method: flags.method as GroupOptions['method'],
+    choose: { range: parseRange(flags.range), sampleSize: wholeNumber(flags.sample, 'sample') },
+    ...(await analysisOptionsFromFlags(flags, io)),
     kmeans: {
       restarts: wholeNumber(flags.restarts, 'restarts'),
       maxIterations: wholeNumber(flags.maxIterations, 'maxIterations'),
@@ -218,6 +234,18 @@ export async function groupOptionsFromFlags(
   return { ingest: ingestOptions, group };
 }
 
+/** Options of the near-copy search a grouping run adds with `--duplicates t` (the flag names the threshold). */
+function groupDuplicateOptions(value: string, group: GroupOptions): ReturnType<typeof resolveFindDuplicatesOptions> {
+  try {
+    return resolveFindDuplicatesOptions({ threshold: decimal(value, 'duplicates'), analyzer: group.analyzer, vectorize: group.vectorize });
+  } catch (err) {
+    if (err instanceof UsageError && err.option === 'threshold') {
+      throw new UsageError(err.message.replace(/^threshold/, 'duplicates'), 'duplicates');
+    }
+    throw err;
+  }
+}
+
 /** Throws unless some document has the `--truth` column (checked before the heavy work). */
 function assertTruthColumn(docs: readonly Doc[], field: string): void {
   if (!docs.some((d) => d.fields.has(field))) {
@@ -233,6 +261,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const now = io.now ?? (() => performance.now());
   const startedAt = new Date();
   const { ingest: ingestOptions, group } = await groupOptionsFromFlags(flags, io);
+  const dupOptions = flags.duplicates !== undefined ? groupDuplicateOptions(flags.duplicates, group) : null;
   const outDir = path.resolve(io.cwd, flags.out);
   await assertReplaceable(outDir, flags.out);
   if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);
@@ -268,19 +297,33 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     );
   }
 
+  const td = now();
+  const near = dupOptions ? nearCopiesOfVectors(result.docs, result.matrix, dupOptions) : null;
+  const dupMs = now() - td;
+
   const tw = now();
   const files = new Map<string, string>();
   const groupsDoc = groupsJson(result);
   if (command === 'group') {
-    files.set('documents.csv', documentsCsv(result));
+    files.set('documents.csv', documentsCsv(result, near ? { duplicateSet: near.setOf } : {}));
     files.set('groups.json', jsonText(groupsDoc));
+    if (near && dupOptions) {
+      const src = { docs: result.docs, by: 'tfidf', threshold: dupOptions.threshold, sets: near.sets, pairs: near.pairs, setOf: near.setOf };
+      files.set('duplicates.csv', duplicatesCsv(src));
+      files.set('duplicates.json', jsonText(duplicatesJson(src)));
+    }
   } else {
     files.set('tree.json', jsonText({ tree: groupsDoc.tree, groups: groupsDoc.groups.map((g) => ({ id: g.id, label: g.label, size: g.size })) }));
   }
   files.set('tree.nwk', treeNewick(result));
   const docTree = documentTreeNewick(result);
   if (docTree !== null) files.set('documents.nwk', docTree);
-  const timings: StageTiming[] = [{ stage: 'read', ms: readMs, items: read.docs.length }, ...result.timings, { stage: 'write', ms: now() - tw, items: read.docs.length }];
+  const timings: StageTiming[] = [
+    { stage: 'read', ms: readMs, items: read.docs.length },
+    ...result.timings,
+    ...(near ? [{ stage: 'near-duplicates', ms: dupMs, items: read.docs.length }] : []),
+    { stage: 'write', ms: now() - tw, items: read.docs.length },
+  ];
   files.set('run.json', jsonText(runJson({ command, flags, ingestOptions, result, read, evaluation, timings, startedAt, finishedAt: new Date() })));
   const written = await writeOutputFolder(outDir, files);
   const shownWritten = written.map((p) => path.join(flags.out, path.basename(p)));
@@ -304,6 +347,10 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   if (command === 'group') out.push(...groupTable(result, width), '');
   out.push('Tree of themes (average-link over the groups):', ...treeOutline(result, width, result.groups.length <= 24 ? Infinity : command === 'tree' ? 6 : 4), '');
   if (evaluation) out.push(...evaluationLines(evaluation, width), '');
+  if (near && dupOptions) {
+    const inSets = near.sets.reduce((a, x) => a + x.members.length, 0);
+    out.push(`Near-copies at cosine ≥ ${dupOptions.threshold}: ${near.sets.length} set(s) holding ${inSets} documents (duplicate_set in documents.csv).`, '');
+  }
   out.push(
     `${read.docs.length} documents (${read.skipped.length} skipped, ${result.emptyRows.length} without terms) ` +
       `in ${result.groups.length} groups; ${result.vocabulary.terms.length} terms; ` +
@@ -316,7 +363,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
 }
 
 /** Warnings and skips on stderr: the first few, then a count. */
-function reportSkips(skipped: readonly { source: string; reason: string }[], warnings: readonly string[], note: (l: string) => void): void {
+export function reportSkips(skipped: readonly { source: string; reason: string }[], warnings: readonly string[], note: (l: string) => void): void {
   const cap = 10;
   for (const s of skipped.slice(0, cap)) note(`sheaf: skipped ${s.source}: ${s.reason}`);
   if (skipped.length > cap) note(`sheaf: … and ${skipped.length - cap} more skipped (listed in run.json)`);

@@ -9,6 +9,7 @@ import type { CliIo } from './io.js';
 import { usageLine } from './parse.js';
 import { registerGroup, registerTree } from './group.js';
 import { registerEvaluate } from './evaluate.js';
+import { registerDuplicates } from './duplicates.js';
 import { versions } from './versions.js';
 import { UsageError } from '../util/errors.js';
 
@@ -29,6 +30,7 @@ export function createProgram(io: CliIo, setExit: (code: number) => void): Comma
     });
   registerGroup(program, io, setExit);
   registerTree(program, io, setExit);
+  registerDuplicates(program, io, setExit);
   registerEvaluate(program, io, setExit);
   for (const sub of program.commands) {
     sub.exitOverride().configureOutput({

@@ -1,0 +1,194 @@
+/**
+ * `sheaf duplicates`: the sets of near-copies, strongest first, and what
+ * differs inside them.
+ *
+ * @module
+ */
+import path from 'node:path';
+import type { Command } from 'commander';
+import type { CliIo } from './io.js';
+import { decimal, wholeNumber } from './parse.js';
+import { versions } from './versions.js';
+import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, reportSkips, type GroupFlags } from './group.js';
+import { renderTable, clip } from './table.js';
+import { ingest } from '../ingest/index.js';
+import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
+import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
+import { jsonText, round } from '../report/outputs.js';
+import { fixed } from '../report/csv.js';
+import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
+import { toMatrixMarket } from '../vectorize/index.js';
+import type { DiffPiece } from '../duplicates/index.js';
+
+interface DuplicatesFlags extends GroupFlags {
+  threshold?: string;
+  by?: string;
+  shingle?: string;
+  show?: string;
+}
+
+/** Registers `duplicates` on the program. */
+export function registerDuplicates(program: Command, io: CliIo, setExit: (code: number) => void): void {
+  const cmd = program
+    .command('duplicates')
+    .description('find sets of near-copies (every pair at or above a similarity), strongest first')
+    .argument('<inputs...>', 'folders, files, or - for stdin');
+  addInputFlags(cmd);
+  addAnalysisFlags(cmd);
+  cmd
+    .option('--threshold <t>', 'similarity at or above which two documents are near-copies (default 0.9, or 0.8 with shingles)')
+    .option('--by <what>', 'tfidf (shared words, order ignored) or shingles (runs of words: order matters)', 'tfidf')
+    .option('--shingle <w>', 'words per shingle with --by shingles (default 4)')
+    .option('--show <n>', 'print what differs inside the n strongest sets', '0')
+    .option('--out <dir>', 'output folder', 'sheaf-duplicates')
+    .option('--save-vectors <dir>', 'also write the vectors compared (MatrixMarket), their columns and ids')
+    .option('--json', 'print duplicates.json on stdout')
+    .option('--quiet', 'no notes on stderr')
+    .action(async (inputs: string[], flags: DuplicatesFlags) => {
+      setExit(await runDuplicates(inputs, flags, io));
+    });
+}
+
+/** The library options for a near-copy search from the flags (validated). */
+export async function duplicateOptionsFromFlags(flags: DuplicatesFlags, io: CliIo, show: number): Promise<FindDuplicatesOptions> {
+  const analysis = await analysisOptionsFromFlags(flags, io);
+  const options: FindDuplicatesOptions = {
+    by: flags.by as CompareBy,
+    threshold: decimal(flags.threshold, 'threshold'),
+    shingle: wholeNumber(flags.shingle, 'shingle'),
+    show,
+    ...analysis,
+  };
+  resolveFindDuplicatesOptions(options);
+  return options;
+}
+
+async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo): Promise<number> {
+  const now = io.now ?? (() => performance.now());
+  const startedAt = new Date();
+  const show = wholeNumber(flags.show, 'show') ?? 0;
+  const ingestOptions = ingestOptionsFromFlags(flags);
+  const options = await duplicateOptionsFromFlags(flags, io, Math.max(show, 10));
+  const outDir = path.resolve(io.cwd, flags.out);
+  await assertReplaceable(outDir, flags.out);
+  if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);
+  const note = (line: string): void => {
+    if (!flags.quiet) io.stderr.write(line + '\n');
+  };
+  const t0 = now();
+  const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
+  const readMs = now() - t0;
+  reportSkips(read.skipped, read.warnings, note);
+  const run = findDuplicates(read.docs, options, { now });
+  const o = run.options;
+  const src = { docs: run.docs, by: o.by, threshold: o.threshold, sets: run.sets, pairs: run.pairs, setOf: run.setOf };
+  const dupJson = duplicatesJson(src);
+  const files = new Map<string, string>([
+    ['duplicates.csv', duplicatesCsv(src)],
+    ['duplicates.json', jsonText(dupJson)],
+    [
+      'run.json',
+      jsonText({
+        tool: 'sheaf',
+        command: 'duplicates',
+        startedAt: startedAt.toISOString(),
+        finishedAt: new Date().toISOString(),
+        versions: versions(),
+        inputs: read.inputs,
+        settings: { ingest: ingestOptions, by: o.by, threshold: o.threshold, shingle: o.shingle, analyzer: o.analyzer, vectorize: o.vectorize, duplicates: o.duplicates, out: flags.out },
+        counts: {
+          documents: read.docs.length,
+          skipped: read.skipped.length,
+          sets: run.sets.length,
+          inSets: run.sets.reduce((a, s) => a + s.members.length, 0),
+          pairs: run.pairs.a.length,
+          exactCopies: run.exactCopies,
+          chained: run.sets.filter((s) => s.chained).length,
+        },
+        chained: run.sets.filter((s) => s.chained).map((s) => ({ set: s.id, weakest: round(s.weakest, 6) })),
+        skipped: read.skipped,
+        warnings: read.warnings,
+        timings: [{ stage: 'read', ms: readMs, items: read.docs.length }, ...run.timings].map((t) => ({
+          stage: t.stage,
+          ms: round(t.ms, 1),
+          documentsPerSecond: t.ms > 0 ? Math.round((t.items / t.ms) * 1000) : null,
+        })),
+      }),
+    ],
+  ]);
+  const written = (await writeOutputFolder(outDir, files)).map((p) => path.join(flags.out, path.basename(p)));
+  if (flags.saveVectors) {
+    const v = await writeOutputFolder(
+      path.resolve(io.cwd, flags.saveVectors),
+      new Map([
+        ['vectors.mtx', toMatrixMarket(run.matrix)],
+        ['ids.txt', run.docs.map((d) => d.id.replace(/[\r\n]+/g, ' ')).join('\n') + '\n'],
+      ]),
+    );
+    written.push(...v.map((p) => path.join(flags.saveVectors as string, path.basename(p))));
+  }
+  if (flags.json) {
+    io.stdout.write(jsonText(dupJson));
+    note(`sheaf: wrote ${written.join(', ')}`);
+    return 0;
+  }
+  const width = Math.max(60, io.stdout.columns ?? 110);
+  io.stdout.write([...duplicateLines(run, width, show), '', 'Wrote:', ...written.map((p) => `  ${p}`)].join('\n') + '\n');
+  return 0;
+}
+
+/** The terminal summary of a search: a table of sets, chaining warnings, and diffs of the first `show` sets. */
+export function duplicateLines(run: DuplicateRun, width: number, show: number): string[] {
+  const o = run.options;
+  const measure = o.by === 'tfidf' ? 'cosine' : `resemblance of ${o.shingle}-word shingles`;
+  const inSets = run.sets.reduce((a, s) => a + s.members.length, 0);
+  const lines = [
+    `${run.sets.length} near-duplicate set(s) holding ${inSets} of ${run.docs.length} documents, at ${measure} ≥ ${o.threshold}` +
+      (run.exactCopies ? ` (${run.exactCopies} exact cop${run.exactCopies === 1 ? 'y' : 'ies'})` : '') +
+      '.',
+  ];
+  if (run.sets.length === 0) return lines;
+  const top = run.sets.slice(0, 30);
+  lines.push(
+    '',
+    ...renderTable(
+      [
+        { heading: 'set', align: 'right' },
+        { heading: 'size', align: 'right' },
+        { heading: 'mean', align: 'right' },
+        { heading: 'weakest', align: 'right' },
+        { heading: 'representative', min: 20 },
+      ],
+      top.map((s) => [
+        String(s.id),
+        String(s.members.length),
+        fixed(s.meanSimilarity, 2),
+        fixed(s.weakest, 2),
+        `${run.docs[s.representative].id}  ${run.docs[s.representative].title}`,
+      ]),
+      width,
+    ),
+  );
+  if (run.sets.length > top.length) lines.push(`… and ${run.sets.length - top.length} more sets (all in duplicates.csv)`);
+  for (const s of run.sets.filter((x) => x.chained)) {
+    lines.push(
+      `note: set ${s.id} chains: its weakest member is only ${fixed(s.weakest, 2)} alike to the representative ` +
+        `(threshold ${o.threshold}); its members are linked through one another`,
+    );
+  }
+  for (const s of run.sets.slice(0, show)) {
+    lines.push('', `set ${s.id} — representative ${run.docs[s.representative].id}: ${clip(run.docs[s.representative].title, width - 30)}`);
+    for (const d of run.diffs.get(s.id) ?? []) {
+      const i = Array.from(s.members).indexOf(d.row);
+      lines.push(`  ${run.docs[d.row].id} (${fixed(s.similarityToRepresentative[i], 2)}): ${diffText(d)}`);
+    }
+  }
+  return lines;
+}
+
+/** A diff as one line: removed words as ⟦-…⟧, added words as ⟦+…⟧. */
+export function diffText(d: MemberDiff | { pieces: readonly DiffPiece[] }): string {
+  if (!d.pieces.some((p) => p.kind !== 'same')) return '(identical text)';
+  const parts = d.pieces.map((p) => (p.kind === 'same' ? p.text : p.kind === 'added' ? `⟦+${p.text}⟧` : `⟦-${p.text}⟧`));
+  return parts.join('').replace(/\s+/g, ' ').trim();
+}
