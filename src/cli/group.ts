@@ -30,6 +30,9 @@ import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copies.js';
 import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
+import { modelToJson } from '../model/index.js';
+import { renderReport } from '../report/html.js';
+import { reportFromRun } from '../report/report-from-run.js';
 import { UsageError } from '../util/errors.js';
 import type { Doc } from '../types.js';
 
@@ -61,7 +64,8 @@ export interface GroupFlags {
   seed?: string;
   terms?: string;
   truth?: string;
-  duplicates?: string;
+  duplicates?: string | false;
+  report?: boolean;
   out: string;
   saveVectors?: string;
   json?: boolean;
@@ -121,7 +125,9 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
   cmd
     .option('--out <dir>', 'output folder', 'sheaf-out')
     .option('--save-vectors <dir>', 'also write the TF-IDF matrix (MatrixMarket), terms and ids to this folder')
-    .option('--duplicates <t>', 'also find near-copies at cosine >= t (duplicate_set column, duplicates.csv/json)')
+    .option('--duplicates <t>', 'near-copies at cosine >= t go in duplicate_set, duplicates.csv/json and the report', '0.9')
+    .option('--no-duplicates', 'do not look for near-copies')
+    .option('--no-report', 'do not write report.html')
     .option('--json', 'print the groups as JSON on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: GroupFlags) => {
@@ -237,7 +243,8 @@ export async function groupOptionsFromFlags(
 /** Options of the near-copy search a grouping run adds with `--duplicates t` (the flag names the threshold). */
 function groupDuplicateOptions(value: string, group: GroupOptions): ReturnType<typeof resolveFindDuplicatesOptions> {
   try {
-    return resolveFindDuplicatesOptions({ threshold: decimal(value, 'duplicates'), analyzer: group.analyzer, vectorize: group.vectorize });
+    // Diffs for the strongest sets feed the report.
+    return resolveFindDuplicatesOptions({ threshold: decimal(value, 'duplicates'), show: 50, analyzer: group.analyzer, vectorize: group.vectorize });
   } catch (err) {
     if (err instanceof UsageError && err.option === 'threshold') {
       throw new UsageError(err.message.replace(/^threshold/, 'duplicates'), 'duplicates');
@@ -261,7 +268,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const now = io.now ?? (() => performance.now());
   const startedAt = new Date();
   const { ingest: ingestOptions, group } = await groupOptionsFromFlags(flags, io);
-  const dupOptions = flags.duplicates !== undefined ? groupDuplicateOptions(flags.duplicates, group) : null;
+  const dupOptions = command === 'group' && typeof flags.duplicates === 'string' ? groupDuplicateOptions(flags.duplicates, group) : null;
   const outDir = path.resolve(io.cwd, flags.out);
   await assertReplaceable(outDir, flags.out);
   if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);
@@ -312,6 +319,33 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
       files.set('duplicates.csv', duplicatesCsv(src));
       files.set('duplicates.json', jsonText(duplicatesJson(src)));
     }
+    files.set(
+      'model.json',
+      modelToJson({
+        createdBy: `sheaf ${versions().sheaf}`,
+        analyzer: result.options.analyzer,
+        vocabulary: result.vocabulary,
+        groups: result.partition.groups,
+        centroids: result.partition.centroids,
+        assignments: result.partition.assignments,
+        fit: result.partition.fit,
+        labels: result.groups.map((g) => ({ id: g.id, label: g.label, terms: g.terms.map((t) => ({ term: t.term, weight: round(t.weight, 6) })), size: g.size })),
+        tree: groupsDoc.tree,
+      }),
+    );
+    if (flags.report !== false) {
+      files.set(
+        'report.html',
+        renderReport(
+          reportFromRun(result, near, dupOptions ? { threshold: dupOptions.threshold, by: 'cosine of TF-IDF vectors' } : null, {
+            title: `sheaf — ${inputs.map((i) => (i === '-' ? 'standard input' : path.basename(i))).join(', ')}`,
+            createdAt: new Date().toISOString(),
+            version: versions().sheaf,
+            skipped: read.skipped.length,
+          }),
+        ),
+      );
+    }
   } else {
     files.set('tree.json', jsonText({ tree: groupsDoc.tree, groups: groupsDoc.groups.map((g) => ({ id: g.id, label: g.label, size: g.size })) }));
   }
@@ -324,7 +358,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     ...(near ? [{ stage: 'near-duplicates', ms: dupMs, items: read.docs.length }] : []),
     { stage: 'write', ms: now() - tw, items: read.docs.length },
   ];
-  files.set('run.json', jsonText(runJson({ command, flags, ingestOptions, result, read, evaluation, timings, startedAt, finishedAt: new Date() })));
+  files.set('run.json', jsonText(runJson({ command, cwd: io.cwd, flags, ingestOptions, result, read, evaluation, timings, startedAt, finishedAt: new Date() })));
   const written = await writeOutputFolder(outDir, files);
   const shownWritten = written.map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
@@ -373,6 +407,7 @@ export function reportSkips(skipped: readonly { source: string; reason: string }
 
 interface RunJsonInput {
   command: string;
+  cwd: string;
   flags: GroupFlags;
   ingestOptions: IngestOptions;
   result: GroupResult;
@@ -438,6 +473,9 @@ function runJson(x: RunJsonInput): unknown {
         }
       : null,
     evaluation: x.evaluation ? evaluationJson(x.evaluation) : null,
+    cwd: x.cwd,
+    // Documents read from files of their own (not export rows), so `sheaf organize` can sort the files.
+    files: result.docs.filter((d) => d.fields.size === 0).map((d) => ({ id: d.id, path: path.resolve(x.cwd, d.source) })),
     skipped: read.skipped,
     warnings: read.warnings,
     withoutTerms: Array.from(result.emptyRows, (r) => result.docs[r].id),

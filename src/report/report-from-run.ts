@@ -1,0 +1,106 @@
+/**
+ * Assembles {@link ReportData} from a grouping run (and its near-copy search,
+ * when there was one). Pure.
+ *
+ * @module
+ */
+import type { GroupResult } from '../pipeline.js';
+import type { DuplicateRun } from '../near-copies.js';
+import type { ReportData } from './report-data.js';
+import { groupMap } from './map.js';
+
+/** What the report shows besides the run itself. */
+export interface ReportContext {
+  readonly title: string;
+  /** ISO time the run finished. */
+  readonly createdAt: string;
+  readonly version: string;
+  readonly skipped: number;
+  /** Extra settings to list (name, value), after the grouping's own. */
+  readonly settings?: readonly { name: string; value: string }[];
+}
+
+/** The report's data for a grouping run; `near` adds the near-duplicate view. */
+export function reportFromRun(
+  result: GroupResult,
+  near: Pick<DuplicateRun, 'sets' | 'setOf' | 'diffs'> | null,
+  nearSettings: { threshold: number; by: string } | null,
+  context: ReportContext,
+): ReportData {
+  const p = result.partition;
+  const k = p.groups;
+  const rows = result.docs;
+  const map = groupMap(p.centroids, result.matrix.cols, k);
+  const tree = result.tree;
+  const o = result.options;
+  const settings = [
+    { name: 'method', value: o.method === 'kmeans' ? 'spherical k-means' : 'average-link over documents' },
+    { name: 'groups', value: result.choice ? `${k} (chosen by ${result.choice.by})` : String(k) },
+    { name: 'language', value: o.analyzer.lang },
+    { name: 'stemming', value: o.analyzer.stem ? 'on' : 'off' },
+    { name: 'term pruning', value: `min df ${o.vectorize.minDf}, max df ${o.vectorize.maxDf}, max terms ${o.vectorize.maxTerms ?? 'none'}` },
+    { name: 'seed', value: String(o.kmeans.seed) },
+    { name: 'mean silhouette', value: Number.isFinite(result.quality.silhouette.mean) ? result.quality.silhouette.mean.toFixed(3) : '–' },
+    ...(nearSettings ? [{ name: 'near-duplicate threshold', value: `${nearSettings.threshold} (${nearSettings.by})` }] : []),
+    ...(context.settings ?? []),
+  ];
+  return {
+    title: context.title,
+    createdAt: context.createdAt,
+    version: context.version,
+    settings,
+    counts: {
+      documents: rows.length,
+      grouped: rows.length - result.emptyRows.length,
+      withoutTerms: result.emptyRows.length,
+      skipped: context.skipped,
+      terms: result.matrix.cols,
+    },
+    groups: result.groups.map((g) => ({
+      id: g.id,
+      label: g.label,
+      size: g.size,
+      cohesion: g.cohesion,
+      ...(Number.isFinite(result.quality.separation[g.id]) ? { separation: result.quality.separation[g.id] } : {}),
+      terms: g.terms.map((t) => ({ term: t.term, weight: t.weight })),
+      exemplars: g.exemplars.map((r) => rows[r].id),
+      x: map.x[g.id],
+      y: map.y[g.id],
+    })),
+    tree: {
+      merges: Array.from({ length: tree.left.length }, (_, i) => ({
+        left: tree.left[i],
+        right: tree.right[i],
+        similarity: tree.similarity[i],
+        size: tree.size[i],
+      })),
+    },
+    documents: Array.from(result.inputOrder, (r) => ({
+      id: rows[r].id,
+      title: rows[r].title,
+      group: p.assignments[r],
+      fit: p.assignments[r] >= 0 ? p.fit[r] : Number.NaN,
+      duplicateSet: near ? near.setOf[r] : -1,
+    })),
+    ...(near && nearSettings
+      ? {
+          duplicates: {
+            threshold: nearSettings.threshold,
+            by: nearSettings.by,
+            sets: near.sets.map((set) => {
+              const diffs = new Map((near.diffs.get(set.id) ?? []).map((d) => [d.row, d.pieces]));
+              return {
+                id: set.id,
+                representative: rows[set.representative].id,
+                members: Array.from(set.members, (r, j) => ({
+                  id: rows[r].id,
+                  similarity: set.similarityToRepresentative[j],
+                  ...(diffs.has(r) ? { diff: diffs.get(r) } : {}),
+                })),
+              };
+            }),
+          },
+        }
+      : {}),
+  };
+}
