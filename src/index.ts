@@ -42,6 +42,7 @@ export {
 export * from './label/index.js';
 export * from './evaluate/index.js';
 export * from './model/index.js';
+export { applyModel, type ModelApplication } from './model/apply.js';
 export {
   groupDocuments,
   resolveGroupOptions,

@@ -10,6 +10,8 @@ import { usageLine } from './parse.js';
 import { registerGroup, registerTree } from './group.js';
 import { registerEvaluate } from './evaluate.js';
 import { registerDuplicates } from './duplicates.js';
+import { registerAssign } from './assign.js';
+import { registerOrganize } from './organize.js';
 import { versions } from './versions.js';
 import { UsageError } from '../util/errors.js';
 
@@ -32,6 +34,8 @@ export function createProgram(io: CliIo, setExit: (code: number) => void): Comma
   registerTree(program, io, setExit);
   registerDuplicates(program, io, setExit);
   registerEvaluate(program, io, setExit);
+  registerAssign(program, io, setExit);
+  registerOrganize(program, io, setExit);
   for (const sub of program.commands) {
     sub.exitOverride().configureOutput({
       writeOut: (s) => io.stdout.write(s),

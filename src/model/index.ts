@@ -16,7 +16,7 @@
 import { z } from 'zod';
 import type { Csr } from '../types.js';
 import type { AnalyzerSettings } from '../analyze/index.js';
-import type { Vocabulary } from '../vectorize/index.js';
+import { createVocabulary, type Vocabulary } from '../vectorize/index.js';
 import { UsageError } from '../util/errors.js';
 
 /** Current model format version. */
@@ -206,17 +206,27 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   m.labels.forEach((l, i) => {
     if (l.id !== i) fail(`labels[${i}].id is ${l.id}; expected ${i}`);
   });
-  const index = new Map<string, number>();
+  const seen = new Set<string>();
   for (let i = 0; i < cols; i++) {
     const t = m.vocabulary.terms[i];
-    if (index.has(t)) fail(`vocabulary.terms lists ${JSON.stringify(t)} twice`);
-    index.set(t, i);
+    if (seen.has(t)) fail(`vocabulary.terms lists ${JSON.stringify(t)} twice`);
+    seen.add(t);
   }
   for (const d of m.vocabulary.df) if (d > m.vocabulary.documents) fail(`a document frequency exceeds the ${m.vocabulary.documents} documents`);
+  let vocabulary: Vocabulary;
+  try {
+    vocabulary = createVocabulary(m.vocabulary.terms, m.vocabulary.df, m.vocabulary.documents);
+  } catch (err) {
+    return fail(`vocabulary: ${(err as Error).message}`);
+  }
+  // The stored idf must be the one the document frequencies give (a tampered weight would change every vector).
+  for (let i = 0; i < cols; i++) {
+    if (Math.abs(vocabulary.idf[i] - idf[i]) > 1e-9) fail(`vocabulary.idf of ${JSON.stringify(m.vocabulary.terms[i])} does not follow from its document frequency`);
+  }
   return {
     createdBy: m.createdBy,
     analyzer: Object.freeze({ ...m.analyzer, stopwords: Object.freeze([...m.analyzer.stopwords]) }),
-    vocabulary: { terms: m.vocabulary.terms, index, df: Int32Array.from(m.vocabulary.df), idf, docCount: m.vocabulary.documents },
+    vocabulary,
     groups: m.groups,
     centroids,
     labels: m.labels,

@@ -1,0 +1,150 @@
+/**
+ * `sheaf assign`: files new documents into the groups of a saved model, and
+ * says which look new.
+ *
+ * @module
+ */
+import { readFile } from 'node:fs/promises';
+import path from 'node:path';
+import type { Command } from 'commander';
+import type { CliIo } from './io.js';
+import { decimal } from './parse.js';
+import { versions } from './versions.js';
+import { renderTable } from './table.js';
+import { addInputFlags, ingestOptionsFromFlags, reportSkips, type GroupFlags } from './group.js';
+import { ingest } from '../ingest/index.js';
+import { modelFromJson, type Model } from '../model/index.js';
+import { applyModel, type ModelApplication } from '../model/apply.js';
+import { csvText, fixed } from '../report/csv.js';
+import { jsonText, round } from '../report/outputs.js';
+import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
+import { UsageError } from '../util/errors.js';
+
+interface AssignFlags extends GroupFlags {
+  model: string;
+  minFit?: string;
+}
+
+/** Registers `assign` on the program. */
+export function registerAssign(program: Command, io: CliIo, setExit: (code: number) => void): void {
+  const cmd = program
+    .command('assign')
+    .description('file new documents into the groups of a saved model; flag those that fit none')
+    .argument('<inputs...>', 'folders, files, or - for stdin');
+  addInputFlags(cmd);
+  cmd
+    .requiredOption('--model <file>', 'a model.json written by sheaf group')
+    .option('--min-fit <f>', 'one fit threshold for every group (default: each group’s own, from its training documents)')
+    .option('--out <dir>', 'output folder', 'sheaf-assigned')
+    .option('--json', 'print the counts as JSON on stdout')
+    .option('--quiet', 'no notes on stderr')
+    .action(async (inputs: string[], flags: AssignFlags) => {
+      setExit(await runAssign(inputs, flags, io));
+    });
+}
+
+/** Reads and checks a model file (one clear line when it is missing, foreign or damaged). */
+export async function loadModel(file: string, cwd: string): Promise<Model> {
+  let text: string;
+  try {
+    text = await readFile(path.resolve(cwd, file), 'utf8');
+  } catch (err) {
+    const code = (err as { code?: string }).code;
+    throw new UsageError(code === 'ENOENT' ? `no such model file: ${file}` : `cannot read model file ${file} (${code ?? 'error'})`, 'model');
+  }
+  return modelFromJson(text, file);
+}
+
+/** `assigned.csv`: `id, group, label, fit, status`, then the input's own columns; status is matched or new. */
+export function assignedCsv(model: Model, a: ModelApplication): string {
+  const columns: string[] = [];
+  const seen = new Set<string>(['id', 'group', 'label', 'fit', 'status']);
+  for (const d of a.docs) for (const k of d.fields.keys()) if (!seen.has(k)) (seen.add(k), columns.push(k));
+  function* rows(): Generator<string[]> {
+    for (let i = 0; i < a.docs.length; i++) {
+      const d = a.docs[i];
+      const g = a.assignments[i];
+      yield [
+        d.id,
+        g >= 0 ? String(g) : '',
+        g >= 0 ? model.labels[g].label : '',
+        g >= 0 ? fixed(a.fit[i]) : '',
+        a.unmatched[i] ? 'new' : 'matched',
+        ...columns.map((c) => d.fields.get(c) ?? ''),
+      ];
+    }
+  }
+  return csvText(['id', 'group', 'label', 'fit', 'status', ...columns], rows());
+}
+
+async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promise<number> {
+  const minFit = decimal(flags.minFit, 'minFit');
+  if (minFit !== undefined && !(minFit >= -1 && minFit <= 1)) throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
+  const ingestOptions = ingestOptionsFromFlags(flags);
+  const model = await loadModel(flags.model, io.cwd);
+  const outDir = path.resolve(io.cwd, flags.out);
+  await assertReplaceable(outDir, flags.out);
+  const note = (line: string): void => {
+    if (!flags.quiet) io.stderr.write(line + '\n');
+  };
+  const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
+  reportSkips(read.skipped, read.warnings, note);
+  const a = applyModel(model, read.docs, minFit);
+  const unmatched = a.unmatched.reduce((x, v) => x + v, 0);
+  const counts = {
+    documents: a.docs.length,
+    matched: a.docs.length - unmatched,
+    new: unmatched,
+    noKnownTerms: a.noKnownTerms,
+    groups: model.labels.map((l) => ({ id: l.id, label: l.label, matched: a.matched[l.id], nearButNew: a.nearButNew[l.id], minFit: round(minFit ?? model.minFit[l.id], 6) })),
+  };
+  const written = await writeOutputFolder(
+    outDir,
+    new Map([
+      ['assigned.csv', assignedCsv(model, a)],
+      [
+        'run.json',
+        jsonText({
+          tool: 'sheaf',
+          command: 'assign',
+          finishedAt: new Date().toISOString(),
+          versions: versions(),
+          model: { file: flags.model, createdBy: model.createdBy, groups: model.groups, terms: model.vocabulary.terms.length },
+          minFit: minFit ?? 'per group, from the training fits',
+          inputs: read.inputs,
+          counts,
+          skipped: read.skipped,
+          warnings: read.warnings,
+        }),
+      ],
+    ]),
+  );
+  if (flags.json) {
+    io.stdout.write(jsonText(counts));
+    return 0;
+  }
+  const width = Math.max(60, io.stdout.columns ?? 110);
+  const lines = renderTable(
+    [
+      { heading: 'group', align: 'right' },
+      { heading: 'name', min: 16 },
+      { heading: 'filed', align: 'right' },
+      { heading: 'near but new', align: 'right' },
+      { heading: 'min fit', align: 'right' },
+    ],
+    counts.groups.map((g) => [String(g.id), g.label, String(g.matched), String(g.nearButNew), fixed(g.minFit, 2)]),
+    width,
+  );
+  io.stdout.write(
+    [
+      ...lines,
+      '',
+      `${counts.documents} documents: ${counts.matched} filed into the model's ${model.groups} groups, ${counts.new} look new` +
+        (a.noKnownTerms ? ` (${a.noKnownTerms} share no term with the model)` : '') +
+        '.',
+      'Wrote:',
+      ...written.map((p) => `  ${path.join(flags.out, path.basename(p))}`),
+    ].join('\n') + '\n',
+  );
+  return 0;
+}
