@@ -16,7 +16,8 @@ import { ingest } from '../../src/ingest/index.js';
 import { groupDocuments } from '../../src/pipeline.js';
 import { groupAverageLink } from '../../src/cluster/tree.js';
 import { groupSeparation } from '../../src/cluster/quality.js';
-import { findNearDuplicates, wordDiff as pieceDiff } from '../../src/duplicates/index.js';
+import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../../src/near-copies.js';
+import { reportFromRun } from '../../src/report/report-from-run.js';
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 
@@ -285,11 +286,12 @@ export function largeReport(n: number, k: number): ReportData {
 }
 
 /**
- * Report data from a real run of the pipeline on the demo tickets
- * (corpus-demo/tickets.csv, subject + body, id ticket_id, title subject):
- * k-means groups, the map from their centroids, the average-link tree over the
- * groups, near-duplicate sets at cosine >= `threshold` (default 0.8, low enough to catch the
- * demo's planted near-copies as well as its exact copies) with word diffs.
+ * Report data from a real run on the demo tickets (corpus-demo/tickets.csv,
+ * subject + body, id ticket_id, title subject), assembled by the same
+ * `reportFromRun` the CLI uses for report.html: k-means groups, the map, the
+ * tree over the groups, and near-duplicate sets at cosine >= `threshold`
+ * (default 0.8, low enough to catch the demo's planted near-copies as well as
+ * its exact copies) with word diffs.
  */
 export async function demoReport(groups = 8, threshold = 0.8): Promise<ReportData> {
   const { docs, skipped } = await ingest(
@@ -297,69 +299,13 @@ export async function demoReport(groups = 8, threshold = 0.8): Promise<ReportDat
     { text: ['subject', 'body'], id: 'ticket_id', title: 'subject' },
     { cwd: REPO_ROOT },
   );
-  const result = groupDocuments(docs, { kmeans: { groups } });
-  const km = result.partition;
-  const k = km.groups;
-  const terms = result.vocabulary.terms.length;
-  const map = groupMap(km.centroids, terms, k);
-  const separation = groupSeparation(km.centroids, terms, k);
-  const tree = groupAverageLink(result.matrix, km.assignments, k);
-  const near = findNearDuplicates(result.matrix, { threshold });
-  const rows = result.docs;
-  const merges = Array.from({ length: tree.left.length }, (_, i) => ({
-    left: tree.left[i],
-    right: tree.right[i],
-    similarity: tree.similarity[i],
-    size: tree.size[i],
-  }));
-  return {
+  const result = groupDocuments(docs, { groups });
+  const o = resolveFindDuplicatesOptions({ threshold, show: 50 });
+  const near = nearCopiesOfVectors(result.docs, result.matrix, o);
+  return reportFromRun(result, near, { threshold, by: 'cosine of TF-IDF vectors' }, {
     title: 'sheaf — tickets.csv',
     createdAt: '2029-11-01T09:00:00.000Z',
     version: '0.1.0',
-    settings: [
-      { name: 'groups', value: String(k) },
-      { name: 'seed', value: String(result.options.kmeans.seed) },
-      { name: 'restarts', value: String(result.options.kmeans.restarts) },
-      { name: 'near-duplicate threshold', value: String(near.options.threshold) },
-    ],
-    counts: {
-      documents: rows.length,
-      grouped: rows.length - result.emptyRows.length,
-      withoutTerms: result.emptyRows.length,
-      skipped: skipped.length,
-      terms,
-    },
-    groups: result.groups.map((g) => ({
-      id: g.id,
-      label: g.label,
-      size: g.size,
-      cohesion: g.cohesion,
-      separation: separation[g.id],
-      terms: g.terms.map((t) => ({ term: t.term, weight: t.weight })),
-      exemplars: g.exemplars.map((r) => rows[r].id),
-      x: map.x[g.id],
-      y: map.y[g.id],
-    })),
-    tree: { merges },
-    documents: Array.from(result.inputOrder, (r) => ({
-      id: rows[r].id,
-      title: rows[r].title,
-      group: km.assignments[r],
-      fit: km.assignments[r] >= 0 ? km.fit[r] : Number.NaN,
-      duplicateSet: near.setOf[r],
-    })),
-    duplicates: {
-      threshold: near.options.threshold,
-      by: 'cosine of TF-IDF vectors',
-      sets: near.sets.map((set) => ({
-        id: set.id,
-        representative: rows[set.representative].id,
-        members: Array.from(set.members, (r, j) => ({
-          id: rows[r].id,
-          similarity: set.similarityToRepresentative[j],
-          ...(r === set.representative ? {} : { diff: pieceDiff(rows[set.representative].text, rows[r].text) }),
-        })),
-      })),
-    },
-  };
+    skipped: skipped.length,
+  });
 }
