@@ -5,6 +5,7 @@
  * @module
  */
 import type { Csr } from '../types.js';
+import { rowDot as rowDotOf } from '../vectorize/tfidf.js';
 
 /**
  * Throws a RangeError unless `matrix` is a well-formed CSR matrix: `indptr`
@@ -54,21 +55,5 @@ export function checkCsr(matrix: Csr, what: string, nonNegative: boolean): void 
  * cosine similarity.
  */
 export function rowDot(matrix: Csr, i: number, j: number): number {
-  const { indptr, indices, values } = matrix;
-  let p = indptr[i]!;
-  const pEnd = indptr[i + 1]!;
-  let q = indptr[j]!;
-  const qEnd = indptr[j + 1]!;
-  let s = 0;
-  while (p < pEnd && q < qEnd) {
-    const a = indices[p]!;
-    const b = indices[q]!;
-    if (a === b) {
-      s += values[p]! * values[q]!;
-      p++;
-      q++;
-    } else if (a < b) p++;
-    else q++;
-  }
-  return s;
+  return rowDotOf(matrix, i, matrix, j);
 }
