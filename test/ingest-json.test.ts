@@ -69,15 +69,20 @@ describe('JSON arrays', () => {
     expect(e.option).toBe('text');
   });
 
-  it('says what a JSON file holds when it is not an array, and where it is broken', async () => {
+  it('skips a JSON file that is not an array, or broken, saying what and where', async () => {
     const dir = tmp();
     writeFileSync(path.join(dir, 'obj.json'), '  "just a string"');
-    let e = await usage(ingest(['obj.json'], {}, { cwd: dir }));
-    expect(e.message).toBe('obj.json must hold a JSON array of objects; it holds a string');
     writeFileSync(path.join(dir, 'bad.json'), '[\n  {"text": "a"},\n  {"text": "b"}');
-    e = await usage(ingest(['bad.json'], {}, { cwd: dir }));
-    // The array is never closed: the parser stops just after the 15 characters of line 3.
-    expect(e.message).toBe('bad.json is not valid JSON (line 3, column 16)');
+    writeFileSync(path.join(dir, 'good.json'), '[{"text": "fine"}]');
+    const r = await ingest(['obj.json', 'bad.json', 'good.json'], {}, { cwd: dir });
+    expect(r.docs.map((d) => d.text)).toEqual(['fine']);
+    expect(r.skipped).toEqual([
+      { source: 'obj.json', reason: 'not a JSON array of objects: it holds a string' },
+      // The array is never closed: the parser stops just after the 15 characters of line 3.
+      { source: 'bad.json', reason: 'not valid JSON (line 3, column 16)' },
+    ]);
+    const e = await usage(ingest(['obj.json'], {}, { cwd: dir }));
+    expect(e.message).toBe('no readable documents in obj.json; skipped obj.json: not a JSON array of objects: it holds a string');
   });
 
   it('skips array elements that are not objects, keeping row numbers', async () => {

@@ -20,10 +20,13 @@ describe('resolveIngestOptions', () => {
       text: null,
       id: null,
       title: null,
-      include: ['**/*.{txt,md,markdown,html,htm}'],
+      include: ['**/*.{txt,md,markdown,html,htm,pdf,docx,eml}'],
       exclude: [],
       format: 'auto',
       delimiter: null,
+      encoding: null,
+      maxBytes: 5 * 1024 * 1024,
+      maxFiles: null,
     });
     expect(resolveIngestOptions({ text: undefined, format: undefined })).toEqual(DEFAULT_INGEST_OPTIONS);
   });
@@ -36,6 +39,13 @@ describe('resolveIngestOptions', () => {
     expect(o.include).toEqual(['docs/**/*.md']);
     expect(resolveIngestOptions({ delimiter: 'tab' }).delimiter).toBe('\t');
     expect(resolveIngestOptions({ delimiter: ';' }).delimiter).toBe(';');
+    // Encodings: canonical lower case; Latin-1 and ASCII labels mean Windows-1252 (WHATWG Encoding Standard).
+    expect(resolveIngestOptions({ encoding: ' ISO-8859-2 ' }).encoding).toBe('iso-8859-2');
+    expect(resolveIngestOptions({ encoding: 'latin1' }).encoding).toBe('windows-1252');
+    expect(resolveIngestOptions({ encoding: 'UTF8' }).encoding).toBe('utf-8');
+    expect(resolveIngestOptions({ encoding: 'utf-16' }).encoding).toBe('utf-16le');
+    expect(resolveIngestOptions({ encoding: 'Shift_JIS' }).encoding).toBe('shift_jis');
+    expect(resolveIngestOptions({ maxBytes: 1024, maxFiles: 3 })).toMatchObject({ maxBytes: 1024, maxFiles: 3 });
   });
 
   it('names the bad value and what is allowed', () => {
@@ -62,6 +72,19 @@ describe('resolveIngestOptions', () => {
         'delimiter',
       ],
     ];
+    const encodingMessage = (v: string): string =>
+      `encoding must be a character encoding iconv-lite knows (such as utf-8, windows-1252, iso-8859-2, utf-16le) or null to detect it; got ${v}`;
+    cases.push(
+      [{ encoding: 'klingon-8' }, encodingMessage('"klingon-8"'), 'encoding'],
+      [{ encoding: '' }, encodingMessage('""'), 'encoding'],
+      [{ encoding: 1252 }, encodingMessage('1252'), 'encoding'],
+      [{ maxBytes: 1023 }, 'maxBytes must be a whole number of bytes >= 1024; got 1023', 'maxBytes'],
+      [{ maxBytes: 2.5e6 + 0.5 }, 'maxBytes must be a whole number of bytes >= 1024; got 2500000.5', 'maxBytes'],
+      [{ maxBytes: '5MB' }, 'maxBytes must be a whole number of bytes >= 1024; got "5MB"', 'maxBytes'],
+      [{ maxBytes: null }, 'maxBytes must be a whole number of bytes >= 1024; got null', 'maxBytes'],
+      [{ maxFiles: 0 }, 'maxFiles must be a whole number >= 1, or null for no cap; got 0', 'maxFiles'],
+      [{ maxFiles: Number.NaN }, 'maxFiles must be a whole number >= 1, or null for no cap; got NaN', 'maxFiles'],
+    );
     for (const [partial, message, option] of cases) {
       const e = fails(partial);
       expect(e.message).toBe(message);
@@ -83,22 +106,30 @@ describe('decoding', () => {
   it('counts replaced sequences, not genuine U+FFFD, and hashes the bytes (FIPS 180-2 B.1 for "abc")', () => {
     const r = decodeBuffer(Buffer.from('abc'));
     expect(r.stats.sha256).toBe('ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
-    // C3 28: a lead byte without its continuation (one error); EF BF BD: a real U+FFFD.
-    const prose = 'plenty of ordinary text first. ';
+    // C3 28: a lead byte without its continuation (one error); EF BF BD: a real U+FFFD; FF: never UTF-8.
+    // The well-formed é, ï and — outnumber the two errors, so this is damaged UTF-8, not a legacy encoding.
+    const prose = 'plenty of ordinary text first — café, naïve. ';
     const bad = decodeBuffer(Buffer.concat([Buffer.from(prose), Buffer.from([0x61, 0xc3, 0x28, 0xef, 0xbf, 0xbd, 0xff])]));
     expect(bad.text).toBe(prose + 'a\ufffd(\ufffd\ufffd');
-    expect(bad.stats.invalid).toBe(2);
+    expect(bad.stats).toMatchObject({ invalid: 2, encoding: 'utf-8', basis: 'utf-8' });
   });
 
-  it('calls mostly-invalid or NUL-holding input binary, and empty input empty', () => {
+  it('calls NUL-holding, control-laden or mostly-invalid input binary, and empty input empty', () => {
     expect(() => decodeBuffer(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0x00]))).toThrow(
       new InputSkip('binary: NUL bytes in the first 8 KiB'),
     );
-    const noise = Buffer.alloc(1000, 0xfe);
-    expect(() => decodeBuffer(noise)).toThrow(new InputSkip('binary: 100% of the characters in the first 8 KiB are not valid UTF-8'));
+    // 3 control characters in 20: 15%.
+    expect(() => decodeBuffer(Buffer.from('ab\x01cdefg\x02hijklm\x7fnopq'))).toThrow(new InputSkip('binary: 15% control characters in the first 8 KiB'));
+    // UTF-8 by majority (6 good é against 2 bad bytes) yet 2 of 8 characters bad: 25% is still text, 3 of 9 is not.
+    expect(decodeBuffer(Buffer.from([0xc3, 0xa9, 0xc3, 0xa9, 0xc3, 0xa9, 0xc3, 0xa9, 0xc3, 0xa9, 0xc3, 0xa9, 0xff, 0xff])).stats.invalid).toBe(2);
+    expect(() => decodeBuffer(Buffer.from([0xc3, 0xa9, 0xc3, 0xa9, 0xc3, 0xa9, 0xc3, 0xa9, 0xc3, 0xa9, 0xc3, 0xa9, 0xff, 0xff, 0xff]))).toThrow(
+      new InputSkip('binary: 33% of the characters in the first 8 KiB are not valid UTF-8'),
+    );
     expect(() => decodeBuffer(Buffer.alloc(0))).toThrow(new InputSkip('empty (0 bytes)'));
-    // Latin-1 prose: a few invalid bytes is text with replacements, not binary.
-    expect(decodeBuffer(Buffer.from('Crème brûlée à la carte, servie chaude.', 'latin1')).stats.invalid).toBe(4);
+    // Latin-1 prose: not UTF-8 at all, so a legacy encoding, read without loss.
+    const latin = decodeBuffer(Buffer.from('Crème brûlée à la carte, servie chaude.', 'latin1'));
+    expect(latin.text).toBe('Crème brûlée à la carte, servie chaude.');
+    expect(latin.stats).toMatchObject({ invalid: 0, encoding: 'windows-1252', basis: 'detected' });
   });
 
   it('streams to the same text, count and digest however the bytes are split', () => {
@@ -107,9 +138,12 @@ describe('decoding', () => {
     );
     fc.assert(
       fc.property(fc.array(piece, { minLength: 20, maxLength: 80, size: 'max' }), fc.array(fc.nat(300), { maxLength: 12 }), (pieces, cuts) => {
-        // Prose first, past the 8 KiB the decoder holds back, so the cuts fall where chunks are decoded one by one.
-        const bytes = Buffer.concat([Buffer.from('x'.repeat(8180)), Buffer.from(pieces.flat())]);
-        const whole = decodeBuffer(bytes);
+        // ASCII prose first, filling the 8 KiB a stream is judged by (so it is UTF-8), then the pieces:
+        // the cuts fall where chunks are decoded one by one.
+        const bytes = Buffer.concat([Buffer.from('x'.repeat(8192)), Buffer.from(pieces.flat())]);
+        const one = new InputDecoder();
+        const whole = { text: one.push(bytes) + one.end(), stats: one.stats() };
+        expect(whole.stats.encoding).toBe('utf-8');
         const d = new InputDecoder();
         let text = '';
         let prev = 0;

@@ -8,15 +8,17 @@
  * unquoted field is kept as a character; rows with fewer fields than the
  * header read the missing ones as empty and rows with more drop the extra
  * ones (both reported with their line numbers); blank lines are ignored; a
- * UTF-8 byte order mark is dropped. A quoted field that is never closed is an
- * error naming the line where its record starts.
+ * UTF-8 byte order mark is dropped. A quoted field that is never closed
+ * makes the whole file a skip ({@link InputSkip}) naming the line where its
+ * record starts: the quote swallowed everything after it.
  *
  * @module
  */
 import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import { parse, type Options } from 'csv-parse';
-import { UsageError, show } from '../util/errors.js';
+import { show } from '../util/errors.js';
+import { InputSkip } from './decode.js';
 import { hasFirstLine, peekText } from './peek.js';
 import { chooseColumns, listNumbers, RowCollector, type DraftDoc } from './table.js';
 
@@ -104,6 +106,8 @@ interface ParsedItem {
  * chunks. `name` is how messages and sources name the input. The delimiter
  * is `options.delimiter`, else a tab for TSV, else a comma — or, when the
  * header has no comma, the one of `;`, tab, `|` it has most of (with a warning).
+ * Throws {@link InputSkip} for a quote never closed or another parse error,
+ * a `UsageError` for a named column the header lacks.
  */
 export async function readCsv(chunks: AsyncIterable<string>, name: string, kind: 'csv' | 'tsv', options: CsvReadOptions): Promise<ExportRead> {
   const warnings: string[] = [];
@@ -184,10 +188,10 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
   } catch (err) {
     const code = (err as { code?: unknown }).code;
     if (code === 'CSV_QUOTE_NOT_CLOSED') {
-      throw new UsageError(`${name}: the record starting on line ${lastEnd + 1} has a quote that is never closed`);
+      throw new InputSkip(`the record starting on line ${lastEnd + 1} has a quote that is never closed`);
     }
     if (typeof code === 'string' && /^(CSV_|INVALID_)/.test(code)) {
-      throw new UsageError(`${name}: cannot be read as CSV near line ${lastEnd + 1}: ${(err as Error).message}`);
+      throw new InputSkip(`cannot be read as CSV near line ${lastEnd + 1}: ${(err as Error).message.split('\n')[0]}`);
     }
     throw err;
   }

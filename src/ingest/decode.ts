@@ -1,20 +1,36 @@
 /**
- * Bytes to text: byte order marks, binary detection, UTF-8 with replacement
- * of invalid sequences (counted), and the SHA-256 digest of the bytes, all
- * in one pass so exports of any size stream through.
+ * Bytes to text: the encoding chosen ({@link chooseEncoding}: byte order
+ * marks, a forced or declared encoding, UTF-16 without a byte order mark,
+ * UTF-8, legacy encodings), binary detection, replacement characters
+ * counted, and the SHA-256 digest of the bytes, all in one pass so exports
+ * of any size stream through.
+ *
+ * A stream is judged by its first {@link SNIFF_BYTES} bytes; a whole buffer
+ * ({@link decodeBuffer}) by all of its bytes (binary detection always looks
+ * at the first {@link SNIFF_BYTES}).
  *
  * @module
  */
 import { createHash, type Hash } from 'node:crypto';
 import { TextDecoder } from 'node:util';
+import iconv from 'iconv-lite';
+import { chooseEncoding, utf8Census, type EncodingBasis, type EncodingChoice } from './charset.js';
 
-/** How many leading bytes are inspected for NUL bytes and invalid UTF-8. */
+/** How many leading bytes are inspected for NUL bytes, control characters and invalid UTF-8. */
 export const SNIFF_BYTES = 8192;
 
-/** Share of replaced characters in the first {@link SNIFF_BYTES} above which a file counts as binary. */
+/** Share of replaced characters in the first {@link SNIFF_BYTES} above which UTF-8 input counts as binary. */
 export const BINARY_INVALID_SHARE = 0.25;
 
-/** Thrown while reading an input that is skipped, not fatal: binary, empty, unreadable. */
+/**
+ * Share of control characters (U+0001–U+001F other than tab, line feed,
+ * vertical tab, form feed, carriage return, U+001A and escape; and U+007F)
+ * in the first {@link SNIFF_BYTES} above which input counts as binary.
+ * Random bytes hold about 10%; text practically none.
+ */
+export const BINARY_CONTROL_SHARE = 0.05;
+
+/** Thrown while reading an input that is skipped, not fatal: binary, empty, unreadable, broken. */
 export class InputSkip extends Error {
   override readonly name = 'InputSkip';
   /** One-line reason, as listed in `skipped`. */
@@ -29,16 +45,33 @@ export class InputSkip extends Error {
 export interface DecodeStats {
   /** Bytes read. */
   bytes: number;
-  /** Lower-case hex SHA-256 of the bytes read. */
+  /** Lower-case hex SHA-256 of the bytes read (`''` when hashing was off). */
   sha256: string;
-  /** Invalid byte sequences replaced by U+FFFD (genuine U+FFFD characters in the input are not counted). */
+  /**
+   * Characters replaced by U+FFFD: invalid UTF-8 or UTF-16 sequences, bytes
+   * the encoding leaves undefined. Genuine U+FFFD characters in UTF-8 or
+   * UTF-16 input are not counted.
+   */
   invalid: number;
-  /** The encoding used: `utf-8`, or `utf-16le` / `utf-16be` when the input starts with that byte order mark. */
-  encoding: 'utf-8' | 'utf-16le' | 'utf-16be';
+  /** The encoding used, lower case (`utf-8`, `utf-16le`, `windows-1252`, `iso-8859-2`, …). */
+  encoding: string;
+  /** Why that encoding. */
+  basis: EncodingBasis;
+  /** A declared encoding that was not used because the bytes are valid UTF-8. */
+  ignoredDeclaration?: string;
+}
+
+/** Options of {@link InputDecoder}. */
+export interface DecodeOptions {
+  /** `false` skips the SHA-256 (the caller hashes the bytes itself); `stats().sha256` is then `''`. */
+  readonly hash?: boolean;
+  /** A canonical encoding to use unless a byte order mark says otherwise. */
+  readonly forced?: string | null;
+  /** Finds the encoding the content declares (canonical) from its first bytes, e.g. an HTML `<meta charset>`. */
+  readonly declared?: ((head: Uint8Array) => string | null) | null;
 }
 
 const REPLACEMENT = '\uFFFD';
-const UTF8_REPLACEMENT = Buffer.from([0xef, 0xbf, 0xbd]);
 
 function countChar(s: string, ch: string): number {
   let n = 0;
@@ -46,10 +79,97 @@ function countChar(s: string, ch: string): number {
   return n;
 }
 
-function countBytes(buf: Buffer, pattern: Buffer): number {
-  let n = 0;
-  for (let i = buf.indexOf(pattern); i !== -1; i = buf.indexOf(pattern, i + pattern.length)) n++;
-  return n;
+/** The bytes a genuine U+FFFD has in an encoding, and whether it must sit at an even offset. */
+function genuinePattern(encoding: string): { bytes: Buffer; even: boolean } | null {
+  if (encoding === 'utf-8') return { bytes: Buffer.from([0xef, 0xbf, 0xbd]), even: false };
+  if (encoding === 'utf-16le') return { bytes: Buffer.from([0xfd, 0xff]), even: true };
+  if (encoding === 'utf-16be') return { bytes: Buffer.from([0xff, 0xfd]), even: true };
+  return null;
+}
+
+/** Decodes chunks in one encoding. */
+interface Inner {
+  write(buf: Buffer): string;
+  end(): string;
+}
+
+function innerDecoder(encoding: string): Inner {
+  if (encoding === 'utf-8' || encoding === 'utf-16le' || encoding === 'utf-16be') {
+    // TextDecoder drops a leading byte order mark by default.
+    const d = new TextDecoder(encoding);
+    return { write: (b) => d.decode(b, { stream: true }), end: () => d.decode() };
+  }
+  const d = iconv.getDecoder(encoding, { stripBOM: true });
+  return { write: (b) => d.write(b), end: () => d.end() ?? '' };
+}
+
+/** Counts a byte pattern across chunk seams, optionally only at even offsets of the whole input. */
+class PatternCounter {
+  count = 0;
+  private tail: Buffer = Buffer.alloc(0);
+  private offset = 0; // absolute offset of the chunk being fed
+
+  constructor(private readonly pattern: { bytes: Buffer; even: boolean }) {}
+
+  feed(buf: Buffer): void {
+    const p = this.pattern.bytes;
+    const len = p.length;
+    const ok = (abs: number): boolean => !this.pattern.even || abs % 2 === 0;
+    if (this.tail.length > 0) {
+      // Occurrences that start in the bytes before this chunk and end in it.
+      const seam = Buffer.concat([this.tail, buf.subarray(0, len - 1)]);
+      const tailStart = this.offset - this.tail.length;
+      for (let i = 0; i < this.tail.length && i + len <= seam.length; i++) {
+        if (seam.subarray(i, i + len).equals(p) && ok(tailStart + i)) this.count++;
+      }
+    }
+    for (let i = buf.indexOf(p); i !== -1; i = buf.indexOf(p, i + 1)) {
+      if (ok(this.offset + i)) this.count++;
+    }
+    const last = buf.length >= len - 1 ? buf.subarray(buf.length - (len - 1)) : Buffer.concat([this.tail, buf]).subarray(-(len - 1));
+    this.tail = Buffer.from(last);
+    this.offset += buf.length;
+  }
+}
+
+function isControl(c: number): boolean {
+  return (c >= 0x01 && c <= 0x08) || (c >= 0x0e && c <= 0x19) || (c >= 0x1c && c <= 0x1f) || c === 0x7f;
+}
+
+/**
+ * Why the first bytes of an input make it binary, or `null`. An input with
+ * a byte order mark is text by its own word.
+ */
+function binaryReason(sample: Buffer, choice: EncodingChoice, complete: boolean): string | null {
+  if (choice.basis === 'bom') return null;
+  const sixteen = choice.encoding.startsWith('utf-16') || choice.encoding.startsWith('utf-32') || choice.encoding.startsWith('ucs');
+  if (!sixteen && sample.includes(0)) return 'binary: NUL bytes in the first 8 KiB';
+  let probe: string;
+  try {
+    const inner = innerDecoder(choice.encoding);
+    probe = inner.write(sample) + (complete ? inner.end() : '');
+  } catch {
+    return null;
+  }
+  if (probe.length === 0) return null;
+  let controls = 0;
+  let nul = 0;
+  for (let i = 0; i < probe.length; i++) {
+    const c = probe.charCodeAt(i);
+    if (isControl(c)) controls++;
+    else if (c === 0) nul++;
+  }
+  if (sixteen && nul > 0) return 'binary: NUL characters in the first 8 KiB';
+  if ((controls + nul) / probe.length > BINARY_CONTROL_SHARE) {
+    return `binary: ${Math.round((100 * (controls + nul)) / probe.length)}% control characters in the first 8 KiB`;
+  }
+  if (choice.encoding === 'utf-8') {
+    const c = utf8Census(sample, complete);
+    if (c.chars > 0 && c.invalid / c.chars > BINARY_INVALID_SHARE) {
+      return `binary: ${Math.round((100 * c.invalid) / c.chars)}% of the characters in the first 8 KiB are not valid UTF-8`;
+    }
+  }
+  return null;
 }
 
 /**
@@ -60,18 +180,21 @@ function countBytes(buf: Buffer, pattern: Buffer): number {
  */
 export class InputDecoder {
   private readonly hash: Hash | null;
+  private readonly forced: string | null;
+  private readonly declared: ((head: Uint8Array) => string | null) | null;
   private head: Buffer[] = [];
   private headBytes = 0;
-  private decoder: TextDecoder | null = null;
-  private encoding: DecodeStats['encoding'] = 'utf-8';
+  private inner: Inner | null = null;
+  private choice: EncodingChoice = { encoding: 'utf-8', basis: 'utf-8' };
+  private genuine: PatternCounter | null = null;
   private bytes = 0;
   private replaced = 0;
-  private genuine = 0;
-  private tail: Buffer = Buffer.alloc(0);
 
-  /** `hash: false` skips the SHA-256 (the caller hashes the bytes itself); `stats().sha256` is then `''`. */
-  constructor(options: { readonly hash?: boolean } = {}) {
+  /** See {@link DecodeOptions}. */
+  constructor(options: DecodeOptions = {}) {
     this.hash = options.hash === false ? null : createHash('sha256');
+    this.forced = options.forced ?? null;
+    this.declared = options.declared ?? null;
   }
 
   /** Adds bytes; returns the text decoded so far (possibly empty). */
@@ -80,74 +203,84 @@ export class InputDecoder {
     if (buf.length === 0) return '';
     this.hash?.update(buf);
     this.bytes += buf.length;
-    if (this.decoder === null) {
+    if (this.inner === null) {
       this.head.push(buf);
       this.headBytes += buf.length;
       if (this.headBytes < SNIFF_BYTES) return '';
-      return this.start();
+      return this.start(false);
     }
     return this.decode(buf);
+  }
+
+  /**
+   * Takes a whole input at once (instead of {@link InputDecoder.push}): the
+   * encoding is chosen from all of its bytes. Returns the text; call
+   * {@link InputDecoder.end} after it.
+   */
+  pushWhole(buf: Uint8Array): string {
+    if (this.bytes > 0) throw new Error('pushWhole must be the only input');
+    const b = Buffer.from(buf.buffer, buf.byteOffset, buf.byteLength);
+    this.hash?.update(b);
+    this.bytes = b.length;
+    if (b.length === 0) return '';
+    this.head = [b];
+    this.headBytes = b.length;
+    return this.start(true);
   }
 
   /** Ends the input; returns the remaining text. Throws {@link InputSkip} for an empty or binary input. */
   end(): string {
     let text = '';
-    if (this.decoder === null) {
+    if (this.inner === null) {
       if (this.headBytes === 0) throw new InputSkip('empty (0 bytes)');
-      text = this.start();
+      text = this.start(true);
     }
-    const rest = (this.decoder as TextDecoder).decode();
+    const rest = (this.inner as Inner).end();
     this.replaced += countChar(rest, REPLACEMENT);
     return text + rest;
   }
 
-  /** Byte count, digest and replacement count; call after {@link InputDecoder.end}. */
+  /** Byte count, digest, encoding and replacement count; call after {@link InputDecoder.end}. */
   stats(): DecodeStats {
-    return { bytes: this.bytes, sha256: this.hash ? this.hash.digest('hex') : '', invalid: Math.max(0, this.replaced - this.genuine), encoding: this.encoding };
+    const s: DecodeStats = {
+      bytes: this.bytes,
+      sha256: this.hash ? this.hash.digest('hex') : '',
+      invalid: Math.max(0, this.replaced - (this.genuine?.count ?? 0)),
+      encoding: this.choice.encoding,
+      basis: this.choice.basis,
+    };
+    if (this.choice.ignoredDeclaration !== undefined) s.ignoredDeclaration = this.choice.ignoredDeclaration;
+    return s;
   }
 
-  private start(): string {
+  private start(complete: boolean): string {
     const head = Buffer.concat(this.head, this.headBytes);
     this.head = [];
-    if (head.length >= 2 && head[0] === 0xff && head[1] === 0xfe) this.encoding = 'utf-16le';
-    else if (head.length >= 2 && head[0] === 0xfe && head[1] === 0xff) this.encoding = 'utf-16be';
-    if (this.encoding === 'utf-8') {
-      const sample = head.subarray(0, SNIFF_BYTES);
-      if (sample.includes(0)) throw new InputSkip('binary: NUL bytes in the first 8 KiB');
-      const probe = new TextDecoder('utf-8').decode(sample, { stream: true });
-      const bad = countChar(probe, REPLACEMENT) - countBytes(sample, UTF8_REPLACEMENT);
-      const chars = probe.length;
-      if (chars > 0 && bad / chars > BINARY_INVALID_SHARE) {
-        throw new InputSkip(`binary: ${Math.round((100 * bad) / chars)}% of the characters in the first 8 KiB are not valid UTF-8`);
-      }
-    }
-    // TextDecoder drops a leading byte order mark by default.
-    this.decoder = new TextDecoder(this.encoding);
+    // A stream is judged by exactly its first SNIFF_BYTES, so the choice does not depend on how it is cut into chunks.
+    const sample = complete ? head : head.subarray(0, SNIFF_BYTES);
+    let declared: string | null = null;
+    if (this.declared) declared = this.declared(sample);
+    this.choice = chooseEncoding(sample, { forced: this.forced, declared, complete });
+    const why = binaryReason(head.subarray(0, SNIFF_BYTES), this.choice, complete && head.length <= SNIFF_BYTES);
+    if (why !== null) throw new InputSkip(why);
+    this.inner = innerDecoder(this.choice.encoding);
+    const pattern = genuinePattern(this.choice.encoding);
+    this.genuine = pattern ? new PatternCounter(pattern) : null;
     return this.decode(head);
   }
 
   private decode(buf: Buffer): string {
-    if (this.encoding === 'utf-8') {
-      this.genuine += countBytes(buf, UTF8_REPLACEMENT);
-      if (this.tail.length > 0) {
-        // A genuine EF BF BD split across two chunks.
-        const seam = Buffer.concat([this.tail, buf.subarray(0, 2)]);
-        for (let i = 0; i < this.tail.length; i++) {
-          if (seam[i] === 0xef && seam[i + 1] === 0xbf && seam[i + 2] === 0xbd) this.genuine++;
-        }
-      }
-      this.tail = Buffer.from(buf.length >= 2 ? buf.subarray(buf.length - 2) : Buffer.concat([this.tail, buf]).subarray(-2));
-    }
-    const text = (this.decoder as TextDecoder).decode(buf, { stream: true });
+    this.genuine?.feed(buf);
+    const text = (this.inner as Inner).write(buf);
     this.replaced += countChar(text, REPLACEMENT);
     return text;
   }
 }
 
-/** Decodes a whole buffer at once; see {@link InputDecoder}. */
-export function decodeBuffer(buf: Uint8Array, options: { readonly hash?: boolean } = {}): { text: string; stats: DecodeStats } {
+/** Decodes a whole buffer at once, choosing the encoding from all its bytes; see {@link InputDecoder}. */
+export function decodeBuffer(buf: Uint8Array, options: DecodeOptions = {}): { text: string; stats: DecodeStats } {
   const d = new InputDecoder(options);
-  const text = d.push(buf) + d.end();
+  const text = d.pushWhole(buf) + d.end();
   return { text, stats: d.stats() };
 }
 
@@ -159,8 +292,9 @@ export function decodeBuffer(buf: Uint8Array, options: { readonly hash?: boolean
 export async function* decodeStream(
   source: AsyncIterable<Uint8Array | string>,
   done: (stats: DecodeStats) => void,
+  options: DecodeOptions = {},
 ): AsyncGenerator<string, void, undefined> {
-  const d = new InputDecoder();
+  const d = new InputDecoder(options);
   for await (const chunk of source) {
     const text = d.push(chunk);
     if (text.length > 0) yield text;

@@ -7,18 +7,28 @@
  *
  * - A folder: every file matching `include` and not `exclude`, one document
  *   per file, id = path relative to the folder (forward slashes), documents
- *   sorted by id. HTML is reduced to text, Markdown keeps its text minus
- *   front matter and link targets, anything else is plain text.
+ *   sorted by id. Each file goes to a reader chosen by its content and its
+ *   extension (see `documents.ts`): PDF, Word (`.docx`), e-mail (`.eml`),
+ *   HTML (reduced to text), Markdown (minus front matter and link targets),
+ *   else plain text.
  * - A file: `.csv`, `.tsv`/`.tab`, `.jsonl`/`.ndjson`, `.json` are exports
- *   (one document per row); `.txt`, `.md`, `.html`... one document, id =
- *   the path as given (forward slashes). Another extension: a file starting
- *   with `[` is read as a JSON array, with `{` as JSON Lines, anything else
- *   as one text document (with a warning).
+ *   (one document per row); `.txt`, `.md`, `.html`, `.pdf`, `.docx`,
+ *   `.eml`… one document, id = the path as given (forward slashes). Another
+ *   extension: a PDF, Word file, e-mail or HTML page is recognised by its
+ *   content; a file starting with `[` is read as a JSON array, with `{` as
+ *   JSON Lines; anything else as one text document (with a warning).
  * - `-`: an export on standard input: `[` JSON array, `{` JSON Lines,
  *   otherwise CSV (or as `format` says; `text` makes one document, id `stdin`).
  *
  * Ids are made unique across all inputs in the order given (`id~2`,
  * `id~3`…, never a name another input already uses), with a warning.
+ *
+ * Text encodings are detected per file (see `charset.ts`) or forced with
+ * the `encoding` option; what was not clean UTF-8 is listed in
+ * `decoding`. A text longer than `maxBytes` is cut and listed in
+ * `truncated`. Broken files (a damaged or encrypted PDF, a `.docx` that is
+ * not a zip, a CSV with an unclosed quote, a JSON file that does not parse…)
+ * are skipped with a one-line reason, and the run goes on.
  *
  * @module
  */
@@ -34,13 +44,23 @@ import { readJsonArray, readJsonLines } from './json.js';
 import { htmlToText } from './html.js';
 import { readMarkdown, readPlainText } from './text.js';
 import { listFolder } from './folder.js';
-import { firstSignificant, peekText } from './peek.js';
+import { firstSignificant, peekBytes, peekText } from './peek.js';
 import { isFsError, unreadableReason } from './io-errors.js';
 import { listNames, type DraftDoc } from './table.js';
 import { resolveIngestOptions, type IngestFormat, type IngestOptions } from './options.js';
+import { DOCUMENT_EXTENSIONS, noteOf, readDocumentBytes, type DecodingNote, type DocumentKind } from './documents.js';
+import { looksLikePdf } from './pdf.js';
+import { looksLikeZip } from './zip.js';
+import { looksLikeOle } from './docx.js';
 
-export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, INGEST_FORMATS, resolveIngestOptions } from './options.js';
+export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, DEFAULT_MAX_BYTES, INGEST_FORMATS, resolveIngestOptions } from './options.js';
 export type { IngestFormat, IngestOptions } from './options.js';
+export { DOCUMENT_EXTENSIONS, readDocumentBytes, chooseReader, type DecodingNote, type DocumentKind, type DocumentRead } from './documents.js';
+export { canonicalEncoding, chooseEncoding, type EncodingBasis, type EncodingChoice } from './charset.js';
+export { decodeBuffer, InputSkip, type DecodeStats } from './decode.js';
+export { readMail, decodeEncodedWords, type MailText } from './mail.js';
+export { readPdf, type PdfText } from './pdf.js';
+export { readDocx } from './docx.js';
 export { htmlToText, type HtmlText } from './html.js';
 export { readMarkdown, readPlainText, capTitle, firstLine, TITLE_MAX } from './text.js';
 export { TEXT_COLUMN_GUESSES } from './table.js';
@@ -61,12 +81,44 @@ export interface InputDigest {
   files?: number;
 }
 
+/** A document whose text was cut to `maxBytes`. */
+export interface TruncatedDoc {
+  /** Its id (after ids were made unique). */
+  readonly id: string;
+  readonly source: string;
+  /** UTF-8 bytes of the full text. */
+  readonly bytes: number;
+  /** UTF-8 bytes kept (at most `maxBytes`, cut at a character boundary). */
+  readonly keptBytes: number;
+}
+
+/** An e-mail's parts that were not read. */
+export interface AttachmentNote {
+  readonly source: string;
+  /** File names, or `(unnamed type/subtype)`, `(attached message: subject)`. */
+  readonly names: string[];
+}
+
 /** Everything ingest produced. */
 export interface IngestResult {
   docs: Doc[];
+  /** Inputs, files and rows not used, each with a one-line reason. */
   skipped: Skipped[];
   inputs: InputDigest[];
+  /** One-line remarks for the terminal (each names its input). */
   warnings: string[];
+  /**
+   * Files (and streamed exports) whose text was not clean UTF-8: another
+   * encoding (detected, declared, forced, or by byte order mark), or
+   * replaced characters — one entry per file, in reading order.
+   */
+  decoding: DecodingNote[];
+  /** Documents cut to `maxBytes`, in document order. */
+  truncated: TruncatedDoc[];
+  /** E-mails with attachments that were not read. */
+  attachments: AttachmentNote[];
+  /** Files not read because `maxFiles` was reached (0 without a cap). */
+  filesNotRead: number;
 }
 
 /** Where ingest reads from. */
@@ -94,10 +146,11 @@ const EXPORT_EXTENSIONS: ReadonlyMap<string, ReadAs> = new Map<string, ReadAs>([
   ['.json', 'json'],
 ]);
 
-const DOCUMENT_EXTENSIONS = new Set(['.txt', '.text', '.md', '.markdown', '.mdown', '.mkd', '.html', '.htm', '.xhtml']);
-
 /** Folders read at most this many files at once. */
 const READ_CONCURRENCY = 16;
+
+/** Bytes looked at before deciding how a file with an unknown extension is read. */
+const SNIFF_HEAD = 65536;
 
 /** Reads one document's text by its extension: HTML reduced, Markdown cleaned, anything else plain. */
 function readDocument(text: string, ext: string): { text: string; title: string } {
@@ -111,8 +164,10 @@ function posixPath(p: string): string {
   return n.startsWith('./') ? n.slice(2) : n;
 }
 
-function invalidWarning(source: string, stats: DecodeStats): string[] {
-  return stats.invalid > 0 ? [`${source}: ${stats.invalid} invalid UTF-8 sequence(s) replaced with U+FFFD`] : [];
+function replacedWarning(source: string, stats: { encoding: string; replaced: number }): string[] {
+  if (stats.replaced === 0) return [];
+  if (stats.encoding === 'utf-8') return [`${source}: ${stats.replaced} invalid UTF-8 sequence(s) replaced with U+FFFD`];
+  return [`${source}: ${stats.replaced} character(s) not decodable as ${stats.encoding} replaced with U+FFFD`];
 }
 
 const NO_TEXT = 'no text: only markup or white space';
@@ -121,17 +176,21 @@ const EMPTY_FIELDS: ReadonlyMap<string, string> = new Map();
 /** What reading one input gave. */
 interface InputRead {
   readonly label: string;
-  readonly docs: DraftDoc[];
+  docs: DraftDoc[];
   readonly skipped: Skipped[];
   readonly warnings: string[];
   readonly digest: InputDigest | null;
   readonly isExport: boolean;
+  readonly decoding: DecodingNote[];
+  readonly attachments: AttachmentNote[];
 }
+
+type Listing = Awaited<ReturnType<typeof listFolder>>;
 
 type Planned =
   | { readonly kind: 'stdin' }
   | { readonly kind: 'file'; readonly given: string; readonly abs: string }
-  | { readonly kind: 'folder'; readonly given: string; readonly abs: string; readonly listing: Awaited<ReturnType<typeof listFolder>> }
+  | { readonly kind: 'folder'; readonly given: string; readonly abs: string; readonly listing: Listing }
   | { readonly kind: 'unreadable'; readonly given: string; readonly reason: string };
 
 async function* streamOf(source: NodeJS.ReadableStream | AsyncIterable<Uint8Array>): AsyncGenerator<Uint8Array | string, void, undefined> {
@@ -144,46 +203,47 @@ async function collect(chunks: AsyncIterable<string>): Promise<string> {
   return s;
 }
 
+async function collectBytes(chunks: AsyncIterable<Uint8Array | string>): Promise<Buffer> {
+  const parts: Buffer[] = [];
+  for await (const c of chunks) parts.push(typeof c === 'string' ? Buffer.from(c, 'utf8') : Buffer.from(c.buffer, c.byteOffset, c.byteLength));
+  return Buffer.concat(parts);
+}
+
 /**
- * Reads an export or document from a decoded stream. `name` names it in
- * messages and sources; `id` is the document id when it is one document.
+ * Reads an export (or, for standard input with `format: text`, one
+ * document) from a decoded stream. `name` names it in messages and
+ * sources; `id` is the document id when it is one document.
  */
 async function readStreamInput(
   chunks: AsyncIterable<string>,
   name: string,
   id: string,
   readAs: ReadAs | null,
-  ext: string,
   opts: IngestOptions,
-  sniffDefault: 'csv' | 'document',
 ): Promise<{ docs: DraftDoc[]; skipped: Skipped[]; warnings: string[]; isExport: boolean }> {
   let as = readAs;
   let all = chunks;
-  const warnings: string[] = [];
   if (as === null) {
     const peeked = await peekText(chunks, (h) => firstSignificant(h) !== '');
     all = peeked.all;
     const c = firstSignificant(peeked.head);
-    as = c === '[' ? 'json' : c === '{' ? 'jsonl' : sniffDefault;
-    if (as === 'document' && sniffDefault === 'document') {
-      warnings.push(`${name}: extension ${show(ext || '(none)')} is not one sheaf knows; read as one text document (set format to read it as an export)`);
-    }
+    as = c === '[' ? 'json' : c === '{' ? 'jsonl' : 'csv';
   }
   switch (as) {
     case 'csv':
     case 'tsv': {
       const r = await readCsv(all, name, as, opts);
-      return { docs: r.docs, skipped: [], warnings: [...warnings, ...r.warnings], isExport: true };
+      return { docs: r.docs, skipped: [], warnings: r.warnings, isExport: true };
     }
     case 'jsonl':
     case 'json': {
       const r = await (as === 'jsonl' ? readJsonLines : readJsonArray)(all, name, opts);
-      return { docs: r.docs, skipped: r.skipped, warnings: [...warnings, ...r.warnings], isExport: true };
+      return { docs: r.docs, skipped: r.skipped, warnings: r.warnings, isExport: true };
     }
     case 'document': {
-      const { text, title } = readDocument(await collect(all), ext);
-      if (text === '') return { docs: [], skipped: [{ source: name, reason: NO_TEXT }], warnings, isExport: false };
-      return { docs: [{ id, source: name, title: title || id, text, fields: EMPTY_FIELDS }], skipped: [], warnings, isExport: false };
+      const { text, title } = readDocument(await collect(all), '');
+      if (text === '') return { docs: [], skipped: [{ source: name, reason: NO_TEXT }], warnings: [], isExport: false };
+      return { docs: [{ id, source: name, title: title || id, text, fields: EMPTY_FIELDS }], skipped: [], warnings: [], isExport: false };
     }
   }
 }
@@ -197,20 +257,134 @@ function readAsFor(format: IngestFormat, ext: string): ReadAs | null {
   return null;
 }
 
+const KIND_NAMES: Readonly<Record<DocumentKind, string>> = {
+  pdf: 'a PDF',
+  docx: 'a Word document',
+  eml: 'an e-mail',
+  html: 'HTML',
+  markdown: 'Markdown',
+  text: 'plain text',
+};
+
+/** The reader an extension stands for, or `null` for an extension of no document format. */
+function kindOfExtension(ext: string): DocumentKind | null {
+  if (ext === '.pdf') return 'pdf';
+  if (ext === '.docx') return 'docx';
+  if (ext === '.eml') return 'eml';
+  if (ext === '.html' || ext === '.htm' || ext === '.xhtml') return 'html';
+  if (ext === '.md' || ext === '.markdown' || ext === '.mdown' || ext === '.mkd') return 'markdown';
+  if (ext === '.txt' || ext === '.text') return 'text';
+  return null;
+}
+
+/** One document file, read from its bytes: a document or a skip, and what to note about it. */
+interface OneFile {
+  readonly doc: DraftDoc | null;
+  readonly skip: Skipped | null;
+  readonly warnings: string[];
+  readonly decoding: DecodingNote | null;
+  readonly attachments: AttachmentNote | null;
+}
+
+/**
+ * Reads one document file's bytes (see `documents.ts`). `forText`: the
+ * extension is not one sheaf knows, and plain text was the last resort.
+ */
+async function readOneFile(buf: Buffer, source: string, id: string, ext: string, opts: IngestOptions): Promise<OneFile> {
+  try {
+    const r = await readDocumentBytes(buf, ext, opts.encoding);
+    const warnings: string[] = [];
+    const natural = kindOfExtension(ext);
+    if (natural === null && !EXPORT_EXTENSIONS.has(ext)) {
+      warnings.push(
+        r.kind === 'text'
+          ? `${source}: extension ${show(ext || '(none)')} is not one sheaf knows; read as one text document (set format to read it as an export)`
+          : `${source}: extension ${show(ext || '(none)')} is not one sheaf knows; read as ${KIND_NAMES[r.kind]} by its content`,
+      );
+    } else if (natural !== r.kind && !(natural === 'text' && (r.kind === 'markdown' || r.kind === 'html'))) {
+      warnings.push(`${source}: read as ${KIND_NAMES[r.kind]} by its content, not as its extension ${show(ext)} suggests`);
+    }
+    const decoding = r.decoding ? { source, ...r.decoding } : null;
+    if (decoding) warnings.push(...replacedWarning(source, decoding));
+    warnings.push(...r.warnings.map((w) => `${source}: ${w}`));
+    return {
+      doc: { id, source, title: r.title || id, text: r.text, fields: EMPTY_FIELDS },
+      skip: null,
+      warnings,
+      decoding,
+      attachments: r.attachments.length > 0 ? { source, names: r.attachments } : null,
+    };
+  } catch (err) {
+    if (err instanceof InputSkip) return { doc: null, skip: { source, reason: err.reason }, warnings: [], decoding: null, attachments: null };
+    throw err;
+  }
+}
+
+function fileRead(label: string, one: OneFile, digest: InputDigest | null): InputRead {
+  return {
+    label,
+    docs: one.doc ? [one.doc] : [],
+    skipped: one.skip ? [one.skip] : [],
+    warnings: one.warnings,
+    digest,
+    isExport: false,
+    decoding: one.decoding ? [one.decoding] : [],
+    attachments: one.attachments ? [one.attachments] : [],
+  };
+}
+
+/** True when the first bytes look like the start of a JSON export (`[` or `{` after white space), read in their own encoding. */
+function startsLikeJson(head: Buffer, opts: IngestOptions): 'json' | 'jsonl' | null {
+  if (looksLikePdf(head) || looksLikeZip(head) || looksLikeOle(head)) return null;
+  let text: string;
+  try {
+    text = decodeBuffer(head.subarray(0, 4096), { hash: false, forced: opts.encoding }).text;
+  } catch {
+    return null;
+  }
+  const c = firstSignificant(text);
+  return c === '[' ? 'json' : c === '{' ? 'jsonl' : null;
+}
+
+async function readStreamedExport(
+  given: string,
+  bytes: AsyncIterable<Uint8Array | string>,
+  readAs: Exclude<ReadAs, 'document'>,
+  opts: IngestOptions,
+): Promise<InputRead> {
+  let stats: DecodeStats | null = null;
+  const chunks = decodeStream(bytes, (s) => (stats = s), { forced: opts.encoding });
+  const r = await readStreamInput(chunks, given, posixPath(given), readAs, opts);
+  const s = stats as DecodeStats | null;
+  const note = s ? noteOf(s) : null;
+  const decoding = note ? [{ source: given, ...note }] : [];
+  return {
+    label: given,
+    ...r,
+    warnings: [...(note ? replacedWarning(given, note) : []), ...r.warnings],
+    digest: s ? { path: given, kind: 'file', bytes: s.bytes, sha256: s.sha256 } : null,
+    decoding,
+    attachments: [],
+  };
+}
+
 async function readFileInput(given: string, abs: string, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
   const ext = path.extname(abs).toLowerCase();
-  let stats: DecodeStats | null = null;
-  const bytes = io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 });
-  const chunks = decodeStream(streamOf(bytes), (s) => (stats = s));
+  const readAs = readAsFor(opts.format, ext);
+  const source = streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 }));
   try {
-    const r = await readStreamInput(chunks, given, posixPath(given), readAsFor(opts.format, ext), ext, opts, 'document');
-    const s = stats as DecodeStats | null;
-    return {
-      label: given,
-      ...r,
-      warnings: [...(s ? invalidWarning(given, s) : []), ...r.warnings],
-      digest: s ? { path: given, kind: 'file', bytes: s.bytes, sha256: s.sha256 } : null,
-    };
+    if (readAs !== null && readAs !== 'document') return await readStreamedExport(given, source, readAs, opts);
+    let all: AsyncIterable<Uint8Array | string> = source;
+    if (readAs === null) {
+      const peeked = await peekBytes(source, SNIFF_HEAD);
+      const json = startsLikeJson(peeked.head, opts);
+      if (json !== null) return await readStreamedExport(given, peeked.all, json, opts);
+      all = peeked.all;
+    }
+    const buf = await collectBytes(all);
+    const digest: InputDigest = { path: given, kind: 'file', bytes: buf.length, sha256: createHash('sha256').update(buf).digest('hex') };
+    const one = await readOneFile(buf, given, posixPath(given), ext, opts);
+    return fileRead(given, one, digest);
   } catch (err) {
     if (err instanceof InputSkip) return skippedInput(given, err.reason);
     if (isFsError(err)) return skippedInput(given, unreadableReason(err));
@@ -219,21 +393,24 @@ async function readFileInput(given: string, abs: string, opts: IngestOptions, io
 }
 
 function skippedInput(source: string, reason: string): InputRead {
-  return { label: source, docs: [], skipped: [{ source, reason }], warnings: [], digest: null, isExport: false };
+  return { label: source, docs: [], skipped: [{ source, reason }], warnings: [], digest: null, isExport: false, decoding: [], attachments: [] };
 }
 
 async function readStdinInput(opts: IngestOptions, stdin: NodeJS.ReadableStream): Promise<InputRead> {
   let stats: DecodeStats | null = null;
-  const chunks = decodeStream(streamOf(stdin), (s) => (stats = s));
+  const chunks = decodeStream(streamOf(stdin), (s) => (stats = s), { forced: opts.encoding });
   const readAs: ReadAs | null = opts.format === 'auto' ? null : opts.format === 'text' ? 'document' : opts.format;
   try {
-    const r = await readStreamInput(chunks, 'stdin', 'stdin', readAs, '', opts, 'csv');
+    const r = await readStreamInput(chunks, 'stdin', 'stdin', readAs, opts);
     const s = stats as DecodeStats | null;
+    const note = s ? noteOf(s) : null;
     return {
       label: 'stdin',
       ...r,
-      warnings: [...(s ? invalidWarning('stdin', s) : []), ...r.warnings],
+      warnings: [...(note ? replacedWarning('stdin', note) : []), ...r.warnings],
       digest: s ? { path: '-', kind: 'stdin', bytes: s.bytes, sha256: s.sha256 } : null,
+      decoding: note ? [{ source: 'stdin', ...note }] : [],
+      attachments: [],
     };
   } catch (err) {
     if (err instanceof InputSkip) return skippedInput('stdin', err.reason);
@@ -243,9 +420,7 @@ async function readStdinInput(opts: IngestOptions, stdin: NodeJS.ReadableStream)
 
 async function readAllBytes(abs: string, io: IngestIo): Promise<Buffer> {
   if (!io.open) return readFile(abs);
-  const parts: Buffer[] = [];
-  for await (const c of io.open(abs)) parts.push(Buffer.from(c));
-  return Buffer.concat(parts);
+  return collectBytes(io.open(abs));
 }
 
 async function mapPool<T, R>(items: readonly T[], limit: number, fn: (item: T) => Promise<R>): Promise<R[]> {
@@ -261,14 +436,9 @@ async function mapPool<T, R>(items: readonly T[], limit: number, fn: (item: T) =
   return out;
 }
 
-async function readFolderInput(
-  given: string,
-  abs: string,
-  listing: Awaited<ReturnType<typeof listFolder>>,
-  io: IngestIo,
-): Promise<InputRead> {
+async function readFolderInput(given: string, abs: string, listing: Listing, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
   const shown = (rel: string): string => path.posix.join(given.replace(/\\/g, '/'), rel);
-  type One = { doc: DraftDoc | null; skip: Skipped | null; warn: string[]; sha: string | null; bytes: number };
+  type One = OneFile & { sha: string | null; bytes: number };
   const results = await mapPool(listing.files, READ_CONCURRENCY, async (rel): Promise<One> => {
     const source = shown(rel);
     let buf: Buffer;
@@ -276,30 +446,26 @@ async function readFolderInput(
       buf = await readAllBytes(path.join(abs, rel), io);
     } catch (err) {
       if (!isFsError(err)) throw err;
-      return { doc: null, skip: { source, reason: unreadableReason(err) }, warn: [], sha: null, bytes: 0 };
+      return { doc: null, skip: { source, reason: unreadableReason(err) }, warnings: [], decoding: null, attachments: null, sha: null, bytes: 0 };
     }
     const sha = createHash('sha256').update(buf).digest('hex');
-    try {
-      const { text: raw, stats } = decodeBuffer(buf, { hash: false });
-      const { text, title } = readDocument(raw, path.extname(rel).toLowerCase());
-      const warn = invalidWarning(source, stats);
-      if (text === '') return { doc: null, skip: { source, reason: NO_TEXT }, warn, sha, bytes: buf.length };
-      return { doc: { id: rel, source, title: title || rel, text, fields: EMPTY_FIELDS }, skip: null, warn, sha, bytes: buf.length };
-    } catch (err) {
-      if (err instanceof InputSkip) return { doc: null, skip: { source, reason: err.reason }, warn: [], sha, bytes: buf.length };
-      throw err;
-    }
+    const one = await readOneFile(buf, source, rel, path.extname(rel).toLowerCase(), opts);
+    return { ...one, sha, bytes: buf.length };
   });
   const docs: DraftDoc[] = [];
   const skipped: Skipped[] = [...listing.skipped];
   const warnings: string[] = listing.linkedFolders.map((f) => `${f}: a link to a folder; not followed`);
+  const decoding: DecodingNote[] = [];
+  const attachments: AttachmentNote[] = [];
   const digestLines: string[] = [];
   let bytes = 0;
   listing.files.forEach((rel, i) => {
     const r = results[i] as One;
     if (r.doc) docs.push(r.doc);
     if (r.skip) skipped.push(r.skip);
-    warnings.push(...r.warn);
+    warnings.push(...r.warnings);
+    if (r.decoding) decoding.push(r.decoding);
+    if (r.attachments) attachments.push(r.attachments);
     if (r.sha !== null) {
       digestLines.push(`${r.sha}  ${rel}\n`);
       bytes += r.bytes;
@@ -314,7 +480,65 @@ async function readFolderInput(
     warnings,
     digest: { path: given, kind: 'folder', bytes, sha256, files: digestLines.length },
     isExport: false,
+    decoding,
+    attachments,
   };
+}
+
+/** `text` cut to at most `maxBytes` UTF-8 bytes at a character boundary, or `null` when it fits. */
+export function truncateUtf8(text: string, maxBytes: number): { text: string; bytes: number; keptBytes: number } | null {
+  if (text.length * 3 <= maxBytes) return null; // a UTF-16 code unit is at most 3 UTF-8 bytes
+  const bytes = Buffer.byteLength(text, 'utf8');
+  if (bytes <= maxBytes) return null;
+  const b = Buffer.from(text, 'utf8');
+  let end = maxBytes;
+  while (end > 0 && ((b[end] as number) & 0xc0) === 0x80) end--; // do not split a character
+  return { text: b.toString('utf8', 0, end), bytes, keptBytes: end };
+}
+
+/** Cuts texts longer than `maxBytes`; one warning per input that had any. */
+function truncateLong(reads: readonly InputRead[], maxBytes: number): { truncated: TruncatedDoc[]; warnings: string[] } {
+  const truncated: TruncatedDoc[] = [];
+  const warnings: string[] = [];
+  for (const r of reads) {
+    const named: string[] = [];
+    let count = 0;
+    r.docs = r.docs.map((d) => {
+      const t = truncateUtf8(d.text, maxBytes);
+      if (t === null) return d;
+      count++;
+      if (named.length < 5) named.push(`${d.source} (${t.bytes} bytes)`);
+      truncated.push({ id: d.id, source: d.source, bytes: t.bytes, keptBytes: t.keptBytes });
+      return { ...d, text: t.text };
+    });
+    if (count > 0) {
+      const more = count > named.length ? `, … (${count} in all)` : '';
+      warnings.push(`${r.label}: ${count} text(s) longer than maxBytes (${maxBytes} bytes) cut to that length: ${named.join(', ')}${more}`);
+    }
+  }
+  return { truncated, warnings };
+}
+
+/** Applies `maxFiles` to the plan: files past the cap are dropped (folders keep their first files in id order). */
+function capFiles(planned: Planned[], maxFiles: number | null): { planned: Planned[]; notRead: number } {
+  if (maxFiles === null) return { planned, notRead: 0 };
+  let budget = maxFiles;
+  let notRead = 0;
+  const out: Planned[] = [];
+  for (const p of planned) {
+    if (p.kind === 'file') {
+      if (budget > 0) {
+        budget--;
+        out.push(p);
+      } else notRead++;
+    } else if (p.kind === 'folder') {
+      const keep = Math.min(budget, p.listing.files.length);
+      notRead += p.listing.files.length - keep;
+      budget -= keep;
+      out.push(keep === p.listing.files.length ? p : { ...p, listing: { ...p.listing, files: p.listing.files.slice(0, keep) } });
+    } else out.push(p);
+  }
+  return { planned: out, notRead };
 }
 
 /**
@@ -367,9 +591,10 @@ function describeLooked(opts: IngestOptions): string {
  * Throws {@link UsageError} (one line) when there is no input, a path does
  * not exist (`no such file or folder: x`), a folder has no matching file
  * (`no documents in folder x (looked for …)`), an export lacks a named or
- * guessable column, a CSV has an unclosed quote, a JSON file is not a JSON
- * array, or nothing readable was found at all. Binary, empty and
- * unreadable files are listed in `skipped` and the run goes on.
+ * guessable column, or nothing readable was found at all (the message then
+ * names the first skips). Binary, empty, unreadable, broken and encrypted
+ * files, CSVs with an unclosed quote and JSON that does not parse are listed
+ * in `skipped` and the run goes on. Any other error is a bug.
  */
 export async function ingest(paths: readonly string[], options: Partial<IngestOptions>, io: IngestIo): Promise<IngestResult> {
   const opts = resolveIngestOptions(options);
@@ -412,12 +637,15 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     }
   }
 
+  const capped = capFiles(planned, opts.maxFiles);
+  if (capped.notRead > 0) warnings.push(`maxFiles ${opts.maxFiles}: ${capped.notRead} more file(s) were not read`);
+
   // 2. Read, in the order given.
   const reads: InputRead[] = [];
-  for (const p of planned) {
+  for (const p of capped.planned) {
     if (p.kind === 'stdin') reads.push(await readStdinInput(opts, io.stdin as NodeJS.ReadableStream));
     else if (p.kind === 'file') reads.push(await readFileInput(p.given, p.abs, opts, io));
-    else if (p.kind === 'folder') reads.push(await readFolderInput(p.given, p.abs, p.listing, io));
+    else if (p.kind === 'folder') reads.push(await readFolderInput(p.given, p.abs, p.listing, opts, io));
     else reads.push(skippedInput(p.given, p.reason));
   }
 
@@ -426,6 +654,8 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
   }
   for (const r of reads) warnings.push(...r.warnings);
   warnings.push(...uniqueIds(reads));
+  const cut = truncateLong(reads, opts.maxBytes);
+  warnings.push(...cut.warnings);
 
   const skipped = reads.flatMap((r) => r.skipped);
   const docs: Doc[] = reads.flatMap((r) => r.docs.map((d) => ({ id: d.id, source: d.source, title: d.title, text: d.text, fields: d.fields })));
@@ -441,6 +671,15 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     throw new UsageError(`no readable documents in ${where}${why}`);
   }
   const inputs = reads.flatMap((r) => (r.digest ? [r.digest] : []));
-  return { docs, skipped, inputs, warnings };
+  return {
+    docs,
+    skipped,
+    inputs,
+    warnings,
+    decoding: reads.flatMap((r) => r.decoding),
+    truncated: cut.truncated,
+    attachments: reads.flatMap((r) => r.attachments),
+    filesNotRead: capped.notRead,
+  };
 }
 

@@ -8,7 +8,7 @@
  * @module
  */
 import type { Skipped } from '../types.js';
-import { UsageError } from '../util/errors.js';
+import { InputSkip } from './decode.js';
 import { chooseColumns, RowCollector, type ExportColumns } from './table.js';
 import type { CsvReadOptions, ExportRead } from './csv.js';
 
@@ -185,7 +185,9 @@ async function* once(s: string): AsyncGenerator<string, void, undefined> {
 /**
  * Reads a JSON array of objects (rows numbered from 1; an element that is
  * not an object is skipped as `name#row`). A file that starts with `{` and
- * is not one JSON value is read as JSON Lines, with a warning.
+ * is not one JSON value is read as JSON Lines, with a warning. Throws
+ * {@link InputSkip} when the text is not JSON, not an array, or too large
+ * for one string.
  */
 export async function readJsonArray(chunks: AsyncIterable<string>, name: string, options: JsonReadOptions): Promise<JsonRead> {
   let text = '';
@@ -193,7 +195,7 @@ export async function readJsonArray(chunks: AsyncIterable<string>, name: string,
     for await (const chunk of chunks) text += chunk;
   } catch (err) {
     if (err instanceof RangeError) {
-      throw new UsageError(`${name} is too large to read as one JSON array; write it as JSON Lines (one object per line)`);
+      throw new InputSkip('too large to read as one JSON array; write it as JSON Lines (one object per line)');
     }
     throw err;
   }
@@ -212,10 +214,10 @@ export async function readJsonArray(chunks: AsyncIterable<string>, name: string,
       const lineStart = before.lastIndexOf('\n') + 1;
       where = ` (line ${before.split('\n').length}, column ${before.length - lineStart + 1})`;
     }
-    throw new UsageError(`${name} is not valid JSON${where}`);
+    throw new InputSkip(`not valid JSON${where}`);
   }
   if (!Array.isArray(value)) {
-    throw new UsageError(`${name} must hold a JSON array of objects; it holds ${describe(value)}`);
+    throw new InputSkip(`not a JSON array of objects: it holds ${describe(value)}`);
   }
   const rows: JsonRow[] = [];
   const skipped: Skipped[] = [];

@@ -1,11 +1,13 @@
 /**
  * Options of the ingest stage: which columns make the text, the id and the
- * title of an export's rows, which files of a folder are read, and how
- * standard input or a file with an unusual extension is read.
+ * title of an export's rows, which files of a folder are read, how
+ * standard input or a file with an unusual extension is read, which
+ * character encoding is forced, and the size limits.
  *
  * @module
  */
 import { UsageError, show } from '../util/errors.js';
+import { canonicalEncoding } from './charset.js';
 
 /** How an input is read when its extension does not say (standard input, `.log`...). */
 export type IngestFormat = 'auto' | 'csv' | 'tsv' | 'jsonl' | 'json' | 'text';
@@ -39,10 +41,32 @@ export interface IngestOptions {
   readonly format: IngestFormat;
   /** CSV field delimiter; `null`: comma for CSV (or the header's only delimiter), tab for TSV. */
   readonly delimiter: string | null;
+  /**
+   * A character encoding every text input is read in (any name iconv-lite
+   * knows: `windows-1252`, `iso-8859-2`, `utf-16le`, `shift_jis`…), stored
+   * in canonical lower case; `null` detects it per file. A byte order mark
+   * still wins. E-mail parts use it only when they declare no charset;
+   * PDF and Word files carry their own.
+   */
+  readonly encoding: string | null;
+  /**
+   * Longest text kept per document, in UTF-8 bytes; longer texts are cut
+   * (at a character boundary) and listed in `IngestResult.truncated`.
+   */
+  readonly maxBytes: number;
+  /**
+   * Most files read in all (files named one by one and folder contents, in
+   * the order given, each folder's files in id order); `null` reads every
+   * file. Files past the cap are counted in `IngestResult.filesNotRead`.
+   */
+  readonly maxFiles: number | null;
 }
 
 /** Default folder pattern: the document extensions read one file per document (matched case-insensitively). */
-export const DEFAULT_INCLUDE = '**/*.{txt,md,markdown,html,htm}';
+export const DEFAULT_INCLUDE = '**/*.{txt,md,markdown,html,htm,pdf,docx,eml}';
+
+/** Default {@link IngestOptions.maxBytes}: 5 MiB of text per document (a long book is about 1–2 MiB). */
+export const DEFAULT_MAX_BYTES = 5 * 1024 * 1024;
 
 /** Defaults of {@link IngestOptions}: guess the text column, number the rows, read the usual document files. */
 export const DEFAULT_INGEST_OPTIONS: IngestOptions = Object.freeze({
@@ -53,6 +77,9 @@ export const DEFAULT_INGEST_OPTIONS: IngestOptions = Object.freeze({
   exclude: Object.freeze([]),
   format: 'auto',
   delimiter: null,
+  encoding: null,
+  maxBytes: DEFAULT_MAX_BYTES,
+  maxFiles: null,
 });
 
 function columnName(value: unknown, option: 'id' | 'title'): string | null {
@@ -93,6 +120,11 @@ function patterns(value: unknown, option: 'include' | 'exclude'): readonly strin
  * - `format`: one of {@link INGEST_FORMATS}.
  * - `delimiter`: `null`, or one character that is not a quote or a line break;
  *   the two characters `\t` and the word `tab` mean a tab.
+ * - `encoding`: `null`, or an encoding name iconv-lite knows (case and
+ *   surrounding spaces ignored); ISO-8859-1/Latin-1/ASCII are read as
+ *   Windows-1252 (WHATWG Encoding Standard).
+ * - `maxBytes`: a whole number >= 1024.
+ * - `maxFiles`: `null`, or a whole number >= 1.
  */
 export function resolveIngestOptions(partial: Partial<IngestOptions> = {}): IngestOptions {
   const d = DEFAULT_INGEST_OPTIONS;
@@ -131,6 +163,27 @@ export function resolveIngestOptions(partial: Partial<IngestOptions> = {}): Inge
     delimiter = v;
   }
 
+  const encRaw = pick('encoding');
+  let encoding: string | null = null;
+  if (encRaw !== null) {
+    encoding = typeof encRaw === 'string' ? canonicalEncoding(encRaw) : null;
+    if (encoding === null) {
+      throw new UsageError(
+        `encoding must be a character encoding iconv-lite knows (such as utf-8, windows-1252, iso-8859-2, utf-16le) or null to detect it; got ${show(encRaw)}`,
+        'encoding',
+      );
+    }
+  }
+
+  const maxBytes = pick('maxBytes');
+  if (typeof maxBytes !== 'number' || !Number.isSafeInteger(maxBytes) || maxBytes < 1024) {
+    throw new UsageError(`maxBytes must be a whole number of bytes >= 1024; got ${show(maxBytes)}`, 'maxBytes');
+  }
+  const maxFiles = pick('maxFiles');
+  if (maxFiles !== null && (typeof maxFiles !== 'number' || !Number.isSafeInteger(maxFiles) || maxFiles < 1)) {
+    throw new UsageError(`maxFiles must be a whole number >= 1, or null for no cap; got ${show(maxFiles)}`, 'maxFiles');
+  }
+
   return Object.freeze({
     text,
     id: columnName(pick('id'), 'id'),
@@ -139,5 +192,8 @@ export function resolveIngestOptions(partial: Partial<IngestOptions> = {}): Inge
     exclude: patterns(pick('exclude'), 'exclude'),
     format: format as IngestFormat,
     delimiter,
+    encoding,
+    maxBytes,
+    maxFiles: maxFiles as number | null,
   });
 }

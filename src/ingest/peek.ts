@@ -56,3 +56,47 @@ export function firstSignificant(head: string): string {
   const m = /[^\s\uFEFF]/.exec(head);
   return m ? m[0] : '';
 }
+
+/** The first bytes of a stream and the whole stream again (those bytes included). */
+export interface PeekedBytes {
+  /** At least `n` bytes, or the whole input when shorter. */
+  readonly head: Buffer;
+  /** True when `head` is the whole input. */
+  readonly complete: boolean;
+  /** Every chunk: `head` first, then the rest of the source. */
+  readonly all: AsyncIterable<Uint8Array | string>;
+}
+
+/** Reads chunks until at least `n` bytes are in hand or the source ends. The source's own errors surface here. */
+export async function peekBytes(source: AsyncIterable<Uint8Array | string>, n: number): Promise<PeekedBytes> {
+  const it = source[Symbol.asyncIterator]();
+  const parts: Buffer[] = [];
+  let size = 0;
+  let ended = false;
+  while (size < n) {
+    const r = await it.next();
+    if (r.done) {
+      ended = true;
+      break;
+    }
+    const c = r.value;
+    const b = typeof c === 'string' ? Buffer.from(c, 'utf8') : Buffer.from(c.buffer, c.byteOffset, c.byteLength);
+    parts.push(b);
+    size += b.length;
+  }
+  const head = Buffer.concat(parts, size);
+  async function* all(): AsyncGenerator<Uint8Array | string, void, undefined> {
+    if (head.length > 0) yield head;
+    if (ended) return;
+    try {
+      for (;;) {
+        const r = await it.next();
+        if (r.done) return;
+        yield r.value;
+      }
+    } finally {
+      await it.return?.();
+    }
+  }
+  return { head, complete: ended, all: all() };
+}
