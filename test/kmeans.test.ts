@@ -249,14 +249,27 @@ function checkInvariants(matrix: Csr, res: KMeansResult, k: number): void {
 
 describe('resolveKMeansOptions', () => {
   it('merges the documented defaults', () => {
-    expect(DEFAULT_KMEANS_OPTIONS).toEqual({ restarts: 4, maxIterations: 100, seed: 1 });
-    expect(resolveKMeansOptions({ groups: 3 }, 10)).toEqual({ groups: 3, restarts: 4, maxIterations: 100, seed: 1 });
-    expect(resolveKMeansOptions({ groups: 10, restarts: 1, maxIterations: 5, seed: 4294967295 }, 10)).toEqual({
+    const speed = { prune: true, miniBatch: 'auto', batchSize: 4096, batchIterations: 100, batchTolerance: 0.01 };
+    expect(DEFAULT_KMEANS_OPTIONS).toEqual({ restarts: 4, maxIterations: 100, seed: 1, ...speed });
+    expect(resolveKMeansOptions({ groups: 3 }, 10)).toEqual({ groups: 3, restarts: 4, maxIterations: 100, seed: 1, ...speed });
+    expect(
+      resolveKMeansOptions(
+        { groups: 10, restarts: 1, maxIterations: 5, seed: 4294967295, prune: false, miniBatch: true, batchSize: 1, batchIterations: 1, batchTolerance: 0 },
+        10,
+      ),
+    ).toEqual({
       groups: 10,
       restarts: 1,
       maxIterations: 5,
       seed: 4294967295,
+      prune: false,
+      miniBatch: true,
+      batchSize: 1,
+      batchIterations: 1,
+      batchTolerance: 0,
     });
+    const start = Int32Array.from([0, 1, 1]);
+    expect(resolveKMeansOptions({ groups: 2, initialAssignments: start }, 3).initialAssignments).toBe(start);
     expect(resolveKMeansOptions({ groups: 3, seed: undefined }, 10).seed).toBe(1);
   });
 
@@ -276,6 +289,15 @@ describe('resolveKMeansOptions', () => {
     ['NaN iterations', { groups: 2, maxIterations: NaN }, 9, 'maxIterations must be a whole number >= 1; got NaN', 'maxIterations'],
     ['negative seed', { groups: 2, seed: -1 }, 9, 'seed must be a whole number from 0 to 4294967295; got -1', 'seed'],
     ['seed too large', { groups: 2, seed: 2 ** 32 }, 9, 'seed must be a whole number from 0 to 4294967295; got 4294967296', 'seed'],
+    ['string prune', { groups: 2, prune: 'yes' }, 9, 'prune must be true or false; got "yes"', 'prune'],
+    ['other miniBatch', { groups: 2, miniBatch: 'always' }, 9, 'miniBatch must be "auto", true or false; got "always"', 'miniBatch'],
+    ['zero batchSize', { groups: 2, batchSize: 0 }, 9, 'batchSize must be a whole number >= 1; got 0', 'batchSize'],
+    ['fractional batchIterations', { groups: 2, batchIterations: 2.5 }, 9, 'batchIterations must be a whole number >= 1; got 2.5', 'batchIterations'],
+    ['negative batchTolerance', { groups: 2, batchTolerance: -0.1 }, 9, 'batchTolerance must be a number >= 0; got -0.1', 'batchTolerance'],
+    ['infinite batchTolerance', { groups: 2, batchTolerance: Infinity }, 9, 'batchTolerance must be a number >= 0; got Infinity', 'batchTolerance'],
+    ['object initialAssignments', { groups: 2, initialAssignments: { 0: 1 } }, 9, 'initialAssignments must be an Int32Array or an array of group numbers; got {"0":1}', 'initialAssignments'],
+    ['string array initialAssignments', { groups: 2, initialAssignments: ['0', '1'] }, 9, 'initialAssignments must be an Int32Array or an array of group numbers; got an array holding a non-number', 'initialAssignments'],
+    ['miniBatch with initialAssignments', { groups: 2, miniBatch: true, initialAssignments: [0, 1] }, 9, 'miniBatch must be false or "auto" when initialAssignments is given (a given partition is refined by full passes); got true', 'miniBatch'],
   ];
   for (const [name, partial, bound, message, option] of cases) {
     it(`rejects ${name}`, () => {

@@ -13,18 +13,27 @@
  * - Batch (Lloyd-style) iterations: assign every row to its most similar
  *   centroid (ties to the lowest group index), then recompute the mean
  *   directions. Stops when no assignment changes, or after `maxIterations`.
+ *   With `prune` (the default) a per-row bound skips the full scoring of rows
+ *   that cannot change group; the result is bit-identical to the plain loop
+ *   (see `kmeans-kernel.ts` for the bound and why it is exact).
  * - A group left empty is re-seeded with the row farthest from its centroid
  *   (lowest cosine at the last assignment, ties to the lowest row index) among
  *   groups that keep at least one member; each move counts in `reseeded`.
  * - Several restarts, each seeded by `createRng(deriveSeed(seed, restart))`;
  *   the best objective is kept, ties to the lowest restart.
+ * - `initialAssignments`: one run that starts from the means of a given
+ *   partition instead of seeding (for refining a cut of a tree).
+ * - Mini-batch (Sculley 2010), on by default from {@link MINI_BATCH_AUTO_ROWS}
+ *   non-empty rows: seeded batch steps with 1/count learning rates, then one
+ *   full assignment pass (see `kmeans-engine.ts`).
  * - Output groups are renumbered canonically: by size descending, ties by the
  *   smallest member row index.
  *
  * Rows with no non-zero value take no part: assignment −1, fit 0.
  *
  * Every buffer is allocated once per call; the iteration loop allocates
- * nothing. Same input and seed give bit-identical output.
+ * nothing. Same input and seed give bit-identical output. The same run on
+ * several threads: `sphericalKMeansParallel` in `src/parallel/`.
  *
  * @module
  */
@@ -32,30 +41,83 @@
 import type { Csr } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { stripUndefined } from '../util/options.js';
-import { createRng, deriveSeed, type Rng } from '../util/random.js';
+import { runBlock } from './kmeans-kernel.js';
+import {
+  LOCAL_ALLOCATOR,
+  MINI_BATCH_AUTO_ROWS,
+  createWorkspace,
+  finishResult,
+  kmeansSteps,
+  rowIsNonEmpty,
+  validateInitialAssignments,
+  type KMeansPlan,
+} from './kmeans-engine.js';
 
 /** Settings of one k-means run. */
 export interface KMeansOptions {
   /** Number of groups k; a whole number from 2 to the number of non-empty rows. */
   groups: number;
-  /** Independent seeded starts; the one with the best objective is kept. Whole number >= 1. */
+  /** Independent seeded starts; the one with the best objective is kept. Whole number >= 1. Ignored (one run) with `initialAssignments`. */
   restarts: number;
   /** Upper bound on assignment passes per restart. Whole number >= 1. */
   maxIterations: number;
   /** Base seed (whole number 0 .. 2^32 − 1); restart r uses `deriveSeed(seed, r)`. */
   seed: number;
+  /**
+   * Skip the full scoring of rows that a bound shows cannot change group.
+   * Same result either way (bit for bit); `false` runs the plain loop, for
+   * comparison and benchmarks.
+   */
+  prune: boolean;
+  /**
+   * Mini-batch steps instead of full Lloyd passes: `true`, `false`, or
+   * `'auto'` (on from {@link MINI_BATCH_AUTO_ROWS} non-empty rows, and never
+   * with `initialAssignments`).
+   */
+  miniBatch: 'auto' | boolean;
+  /** Mini-batch: rows drawn per step. Whole number >= 1. */
+  batchSize: number;
+  /** Mini-batch: most steps per restart. Whole number >= 1. */
+  batchIterations: number;
+  /**
+   * Mini-batch: stop once no centroid moves more than this in a step
+   * (Euclidean distance between unit vectors, 0 .. 2). A number >= 0; 0 runs
+   * every step.
+   */
+  batchTolerance: number;
+  /**
+   * Start from this partition instead of k-means++ seeding: one group
+   * number from 0 to k − 1 per row (empty rows: −1 or any group, ignored),
+   * every group used. One run, full passes.
+   */
+  initialAssignments?: ArrayLike<number> | undefined;
 }
 
 /**
  * Defaults for everything but `groups`: 4 restarts (enough to step past a poor
  * seeding on typical text without a large cost; common practice is a handful),
- * at most 100 passes each (text data usually settles in 10–30), seed 1.
+ * at most 100 passes each (text data usually settles in 10–30), seed 1,
+ * pruning on. Mini-batch from {@link MINI_BATCH_AUTO_ROWS} rows, with steps of
+ * 4096 rows, at most 100 steps, stopping early once no centroid moves more
+ * than 0.01 in a step. Measured on generated text-like data (100k rows,
+ * 20k terms, k = 100, one restart): 100 steps of 4096 rows reach 99.2% of
+ * the full run's objective in a third of its time; 1024-row steps 98.9%. With
+ * 1/count rates the largest movement decays roughly as 1/step (about 0.013
+ * after 100 steps there), so the tolerance mostly ends runs on data that
+ * settles sooner.
  */
-export const DEFAULT_KMEANS_OPTIONS: Readonly<Omit<KMeansOptions, 'groups'>> = Object.freeze({
+export const DEFAULT_KMEANS_OPTIONS: Readonly<Omit<KMeansOptions, 'groups' | 'initialAssignments'>> = Object.freeze({
   restarts: 4,
   maxIterations: 100,
   seed: 1,
+  prune: true,
+  miniBatch: 'auto',
+  batchSize: 4096,
+  batchIterations: 100,
+  batchTolerance: 0.01,
 });
+
+export { MINI_BATCH_AUTO_ROWS };
 
 const MAX_SEED = 4294967295;
 
@@ -63,12 +125,14 @@ const MAX_SEED = 4294967295;
  * Merges `partial` over {@link DEFAULT_KMEANS_OPTIONS} and validates once.
  * `nonEmptyRows` is the number of rows that take part (see
  * {@link countNonEmptyRows}); pass `Infinity` when it is not known yet, to
- * check everything except the upper bound on `groups`. Throws
- * {@link UsageError} naming the option.
+ * check everything except the upper bound on `groups`. The contents of
+ * `initialAssignments` are checked against the data by {@link sphericalKMeans}
+ * (see {@link planKMeans}). Throws {@link UsageError} naming the option.
  */
 export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRows: number): KMeansOptions {
   const merged = { ...DEFAULT_KMEANS_OPTIONS, ...stripUndefined(partial) } as Partial<KMeansOptions>;
-  const { groups, restarts, maxIterations, seed } = merged;
+  const { groups, restarts, maxIterations, seed, prune, miniBatch, batchSize, batchIterations, batchTolerance } = merged;
+  const { initialAssignments } = merged;
   const bounded = Number.isFinite(nonEmptyRows) && nonEmptyRows < Number.MAX_SAFE_INTEGER;
   if (bounded && nonEmptyRows < 2) {
     throw new UsageError(
@@ -91,7 +155,59 @@ export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRo
   if (!isWhole(seed) || seed < 0 || seed > MAX_SEED) {
     throw new UsageError(`seed must be a whole number from 0 to ${MAX_SEED}; got ${show(seed)}`, 'seed');
   }
-  return { groups, restarts, maxIterations, seed };
+  if (typeof prune !== 'boolean') {
+    throw new UsageError(`prune must be true or false; got ${show(prune)}`, 'prune');
+  }
+  if (miniBatch !== 'auto' && typeof miniBatch !== 'boolean') {
+    throw new UsageError(`miniBatch must be "auto", true or false; got ${show(miniBatch)}`, 'miniBatch');
+  }
+  if (!isWhole(batchSize) || batchSize < 1) {
+    throw new UsageError(`batchSize must be a whole number >= 1; got ${show(batchSize)}`, 'batchSize');
+  }
+  if (!isWhole(batchIterations) || batchIterations < 1) {
+    throw new UsageError(`batchIterations must be a whole number >= 1; got ${show(batchIterations)}`, 'batchIterations');
+  }
+  if (typeof batchTolerance !== 'number' || !(batchTolerance >= 0) || !Number.isFinite(batchTolerance)) {
+    throw new UsageError(`batchTolerance must be a number >= 0; got ${show(batchTolerance)}`, 'batchTolerance');
+  }
+  const resolved: KMeansOptions = {
+    groups,
+    restarts,
+    maxIterations,
+    seed,
+    prune,
+    miniBatch,
+    batchSize,
+    batchIterations,
+    batchTolerance,
+  };
+  if (initialAssignments !== undefined) {
+    if (!isArrayLikeOfNumbers(initialAssignments)) {
+      throw new UsageError(
+        `initialAssignments must be an Int32Array or an array of group numbers; got ${describe(initialAssignments)}`,
+        'initialAssignments',
+      );
+    }
+    if (miniBatch === true) {
+      throw new UsageError(
+        'miniBatch must be false or "auto" when initialAssignments is given (a given partition is refined by full passes); got true',
+        'miniBatch',
+      );
+    }
+    resolved.initialAssignments = initialAssignments;
+  }
+  return resolved;
+}
+
+function isArrayLikeOfNumbers(value: unknown): value is ArrayLike<number> {
+  if (ArrayBuffer.isView(value)) return !(value instanceof DataView) && !(value instanceof BigInt64Array) && !(value instanceof BigUint64Array);
+  return Array.isArray(value) && value.every((v) => typeof v === 'number');
+}
+
+function describe(value: unknown): string {
+  if (Array.isArray(value)) return 'an array holding a non-number';
+  if (ArrayBuffer.isView(value)) return `a ${value.constructor.name}`;
+  return show(value);
 }
 
 function isWhole(value: unknown): value is number {
@@ -110,14 +226,30 @@ export interface KMeansResult {
   readonly fit: Float32Array;
   /** Sum over rows that take part of the cosine to their centroid (computed in double precision). */
   readonly objective: number;
-  /** Assignment passes in the kept restart (including the pass that found nothing to change). */
+  /** Full assignment passes in the kept restart (including the pass that found nothing to change). */
   readonly iterations: number;
-  /** Whether the kept restart stopped because no assignment changed (rather than at `maxIterations`). */
+  /**
+   * Whether the kept restart stopped because no assignment changed (rather
+   * than at `maxIterations`); mini-batch: whether the steps stopped on
+   * `batchTolerance` (rather than at `batchIterations`).
+   */
   readonly converged: boolean;
   /** Objective reached by each restart, in restart order. */
   readonly restartObjectives: Float64Array;
   /** Rows moved into empty groups during the kept restart. */
   readonly reseeded: number;
+  /** Mini-batch steps in the kept restart (0 without mini-batch). */
+  readonly batches: number;
+  /** Rows scored against all k centroids, over every pass (and mini-batch step) of every restart. */
+  readonly scored: number;
+  /** Rows the bound settled with only their own centroid scored, over every pass of every restart. */
+  readonly skipped: number;
+  /** Row–centroid dot products computed over every pass of every restart; a plain pass computes rows × k. */
+  readonly dotProducts: number;
+  /** Rows skipped in each full assignment pass of the kept restart (length `iterations`). */
+  readonly skippedByPass: Int32Array;
+  /** Row–centroid dot products in each full assignment pass of the kept restart (length `iterations`). */
+  readonly dotsByPass: Float64Array;
 }
 
 /**
@@ -130,386 +262,41 @@ export function countNonEmptyRows(matrix: Csr): number {
   return m;
 }
 
-function rowIsNonEmpty(matrix: Csr, r: number): boolean {
-  const { indptr, values } = matrix;
-  for (let j = indptr[r]!; j < indptr[r + 1]!; j++) if (values[j] !== 0) return true;
-  return false;
-}
-
-/** All buffers of one call, allocated once and reused by every restart and pass. */
-interface Workspace {
-  readonly k: number;
-  readonly matrix: Csr;
-  /** Row indices that take part, increasing. */
-  readonly active: Int32Array;
-  /** Working and best copies; swapped (not copied) when a restart becomes the best. */
-  assign: Int32Array;
-  fit: Float64Array;
-  centroids: Float32Array;
-  bestAssign: Int32Array;
-  bestFit: Float64Array;
-  bestCentroids: Float32Array;
-  /** Float64 sums of member rows, term-major like the centroids. */
-  readonly sums: Float64Array;
-  readonly counts: Int32Array;
-  readonly norms: Float64Array;
-  /** Scores of one row against every group. */
-  readonly scores: Float64Array;
-  /** Seeding: cosine to the nearest seed so far, per row. */
-  readonly closest: Float64Array;
-  /** Seeding: 1 where a row is already a seed. */
-  readonly chosen: Uint8Array;
-}
-
-interface RestartOutcome {
-  objective: number;
-  iterations: number;
-  converged: boolean;
-  reseeded: number;
+/** Whether a run on `nonEmptyRows` rows with these options uses mini-batch steps. */
+export function usesMiniBatch(options: KMeansOptions, nonEmptyRows: number): boolean {
+  if (options.initialAssignments !== undefined) return false;
+  return options.miniBatch === 'auto' ? nonEmptyRows >= MINI_BATCH_AUTO_ROWS : options.miniBatch;
 }
 
 /**
- * Runs spherical k-means on the rows of `matrix` (L2-normalised, or all-zero).
- * Options are merged with {@link DEFAULT_KMEANS_OPTIONS} and validated against
- * the number of non-empty rows; a bad value throws {@link UsageError}.
+ * Resolves and validates options against `matrix` (the bound on `groups`,
+ * the contents of `initialAssignments`) and decides on mini-batch. The
+ * first step of {@link sphericalKMeans} and of the parallel runner.
+ */
+export function planKMeans(matrix: Csr, options: Partial<KMeansOptions> & { groups: number }): KMeansPlan {
+  const nonEmpty = countNonEmptyRows(matrix);
+  const resolved = resolveKMeansOptions(options, nonEmpty);
+  const initial = resolved.initialAssignments ?? null;
+  if (initial) validateInitialAssignments(matrix, initial, resolved.groups);
+  return { matrix, options: resolved, nonEmpty, miniBatch: usesMiniBatch(resolved, nonEmpty), initial };
+}
+
+/**
+ * Runs spherical k-means on the rows of `matrix` (L2-normalised, or all-zero)
+ * on the calling thread. Options are merged with
+ * {@link DEFAULT_KMEANS_OPTIONS} and validated against the data; a bad value
+ * throws {@link UsageError}.
  */
 export function sphericalKMeans(matrix: Csr, options: Partial<KMeansOptions> & { groups: number }): KMeansResult {
-  const n = matrix.rows;
-  const d = matrix.cols;
-  let m = 0;
-  for (let r = 0; r < n; r++) if (rowIsNonEmpty(matrix, r)) m++;
-  const opts = resolveKMeansOptions(options, m);
-  const k = opts.groups;
-  const active = new Int32Array(m);
-  for (let r = 0, a = 0; r < n; r++) if (rowIsNonEmpty(matrix, r)) active[a++] = r;
-
-  const ws: Workspace = {
-    k,
-    matrix,
-    active,
-    assign: new Int32Array(n),
-    fit: new Float64Array(n),
-    centroids: new Float32Array(d * k),
-    bestAssign: new Int32Array(n),
-    bestFit: new Float64Array(n),
-    bestCentroids: new Float32Array(d * k),
-    sums: new Float64Array(d * k),
-    counts: new Int32Array(k),
-    norms: new Float64Array(k),
-    scores: new Float64Array(k),
-    closest: new Float64Array(n),
-    chosen: new Uint8Array(n),
-  };
-
-  const restartObjectives = new Float64Array(opts.restarts);
-  let best: RestartOutcome | undefined;
-  for (let r = 0; r < opts.restarts; r++) {
-    const outcome = runRestart(ws, opts.maxIterations, createRng(deriveSeed(opts.seed, r)));
-    restartObjectives[r] = outcome.objective;
-    if (best === undefined || outcome.objective > best.objective) {
-      best = outcome;
-      swapBest(ws);
-    }
+  const plan = planKMeans(matrix, options);
+  const ws = createWorkspace(plan, LOCAL_ALLOCATOR);
+  const steps = kmeansSteps(ws, plan);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return finishResult(ws, step.value);
+    const { work, list, count } = ws.request;
+    runBlock(ws, work, list, 0, count, ws.passStats, 0);
   }
-  const kept = best!;
-  const { assignments, centroids } = canonicalise(ws.bestAssign, ws.bestCentroids, k, d, active);
-  const fit = new Float32Array(n);
-  for (let a = 0; a < m; a++) {
-    const i = active[a]!;
-    fit[i] = ws.bestFit[i]!;
-  }
-  return {
-    groups: k,
-    assignments,
-    centroids,
-    fit,
-    objective: kept.objective,
-    iterations: kept.iterations,
-    converged: kept.converged,
-    restartObjectives,
-    reseeded: kept.reseeded,
-  };
-}
-
-function swapBest(ws: Workspace): void {
-  [ws.assign, ws.bestAssign] = [ws.bestAssign, ws.assign];
-  [ws.fit, ws.bestFit] = [ws.bestFit, ws.fit];
-  [ws.centroids, ws.bestCentroids] = [ws.bestCentroids, ws.centroids];
-}
-
-/** One seeded start: k-means++ seeding, then batch passes until stable or `maxIterations`. */
-function runRestart(ws: Workspace, maxIterations: number, rng: Rng): RestartOutcome {
-  ws.assign.fill(-1);
-  ws.fit.fill(0);
-  seedCentroids(ws, rng);
-  let iterations = 0;
-  let converged = false;
-  let reseeded = 0;
-  while (iterations < maxIterations) {
-    iterations++;
-    const changed = assignRange(ws, 0, ws.active.length);
-    if (changed === 0) {
-      converged = true;
-      break;
-    }
-    reseeded += updateCentroids(ws);
-  }
-  // Stopped at the limit: the centroids are the means of the current
-  // assignment, so measure each row against them.
-  if (!converged) refreshFit(ws);
-  let objective = 0;
-  const { active, fit } = ws;
-  for (let a = 0; a < active.length; a++) objective += fit[active[a]!]!;
-  return { objective, iterations, converged, reseeded };
-}
-
-/** Cosine of row `i` with centroid `g` (sparse walk over the row, stride k in the centroids). */
-function dotRowCentroid(matrix: Csr, i: number, centroids: Float32Array, k: number, g: number): number {
-  const { indptr, indices, values } = matrix;
-  let s = 0;
-  for (let j = indptr[i]!; j < indptr[i + 1]!; j++) s += values[j]! * centroids[indices[j]! * k + g]!;
-  return s;
-}
-
-/** Writes row `i` as centroid `g` (the column must be zero beforehand). */
-function placeRow(matrix: Csr, i: number, centroids: Float32Array, k: number, g: number): void {
-  const { indptr, indices, values } = matrix;
-  for (let j = indptr[i]!; j < indptr[i + 1]!; j++) centroids[indices[j]! * k + g] = values[j]!;
-}
-
-/**
- * k-means++ seeding with weights `max(0, 1 − cos(x, nearest seed))` (0 for
- * rows already chosen). Draws one
- * `rng.next()` per seed after the first (`rng.int(m)`); if every remaining
- * weight is 0 (all rows coincide with a seed) it draws `rng.int` among the
- * rows not yet chosen instead.
- */
-function seedCentroids(ws: Workspace, rng: Rng): void {
-  const { matrix, active, k, centroids, closest, chosen } = ws;
-  const m = active.length;
-  centroids.fill(0);
-  chosen.fill(0);
-  let row = active[rng.int(m)]!;
-  chosen[row] = 1;
-  placeRow(matrix, row, centroids, k, 0);
-  for (let a = 0; a < m; a++) {
-    const i = active[a]!;
-    closest[i] = dotRowCentroid(matrix, i, centroids, k, 0);
-  }
-  for (let g = 1; g < k; g++) {
-    let total = 0;
-    for (let a = 0; a < m; a++) {
-      const i = active[a]!;
-      if (chosen[i]) continue; // a seed's own weight is rounding noise
-      const w = 1 - closest[i]!;
-      if (w > 0) total += w;
-    }
-    row = -1;
-    if (total > 0) {
-      const target = rng.next() * total;
-      let acc = 0;
-      let lastPositive = -1;
-      for (let a = 0; a < m; a++) {
-        const i = active[a]!;
-        if (chosen[i]) continue;
-        const w = 1 - closest[i]!;
-        if (w <= 0) continue;
-        lastPositive = i;
-        acc += w;
-        if (acc > target) {
-          row = i;
-          break;
-        }
-      }
-      if (row < 0) row = lastPositive; // rounding left the target just past the end
-    } else {
-      let skip = rng.int(m - g);
-      for (let a = 0; a < m; a++) {
-        const i = active[a]!;
-        if (chosen[i]) continue;
-        if (skip === 0) {
-          row = i;
-          break;
-        }
-        skip--;
-      }
-    }
-    chosen[row] = 1;
-    placeRow(matrix, row, centroids, k, g);
-    for (let a = 0; a < m; a++) {
-      const i = active[a]!;
-      const c = dotRowCentroid(matrix, i, centroids, k, g);
-      if (c > closest[i]!) closest[i] = c;
-    }
-  }
-}
-
-/**
- * Assignment pass over `active[from .. to)`: scores each row against every
- * centroid by walking its non-zeros and the contiguous term-major slice
- * `centroids[t*k .. t*k+k)`, keeps the best (ties to the lowest group) and
- * records its cosine in `fit`. Returns how many assignments changed.
- *
- * Seams for later speed-ups, deliberately not built yet:
- * - Bounds (Elkan 2003 / Hamerly 2010, adapted to cosine): for unit x and
- *   centroids c, c', |cos(x, c') − cos(x, c)| ≤ ‖c' − c‖. Keeping per row a
- *   lower bound on the similarity to its own centroid and an upper bound on
- *   the best other similarity, and shifting them by each centroid's movement
- *   after `updateCentroids`, lets a row skip scoring when lower ≥ upper.
- *   The bounds would live in the workspace and be consulted here.
- * - Two cores: the pass touches only rows in `[from, to)` and writes only
- *   their `assign`/`fit` entries, so the range can be split across two
- *   workers sharing the centroids (read-only during the pass); the changed
- *   counts add up. `updateCentroids` would sum per worker and add the sums.
- */
-function assignRange(ws: Workspace, from: number, to: number): number {
-  const { matrix, active, k, centroids, scores, assign, fit } = ws;
-  const { indptr, indices, values } = matrix;
-  let changed = 0;
-  for (let a = from; a < to; a++) {
-    const i = active[a]!;
-    scores.fill(0);
-    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) {
-      const v = values[j]!;
-      const base = indices[j]! * k;
-      for (let g = 0; g < k; g++) scores[g]! += v * centroids[base + g]!;
-    }
-    let bestG = 0;
-    let bestS = scores[0]!;
-    for (let g = 1; g < k; g++) {
-      const s = scores[g]!;
-      if (s > bestS) {
-        bestS = s;
-        bestG = g;
-      }
-    }
-    if (assign[i] !== bestG) {
-      assign[i] = bestG;
-      changed++;
-    }
-    fit[i] = bestS;
-  }
-  return changed;
-}
-
-/** Adds (sign +1) or removes (sign −1) row `i` from the sums of group `g`. */
-function addRow(matrix: Csr, i: number, sums: Float64Array, k: number, g: number, sign: number): void {
-  const { indptr, indices, values } = matrix;
-  for (let j = indptr[i]!; j < indptr[i + 1]!; j++) sums[indices[j]! * k + g]! += sign * values[j]!;
-}
-
-/**
- * Recomputes the mean directions from the current assignment, re-seeding
- * empty groups first. Returns the number of rows moved into empty groups.
- */
-function updateCentroids(ws: Workspace): number {
-  const { matrix, active, k, sums, counts, norms, centroids, assign, fit } = ws;
-  const m = active.length;
-  sums.fill(0);
-  counts.fill(0);
-  for (let a = 0; a < m; a++) {
-    const i = active[a]!;
-    const g = assign[i]!;
-    counts[g]!++;
-    addRow(matrix, i, sums, k, g, 1);
-  }
-
-  let reseeded = 0;
-  for (let g = 0; g < k; g++) {
-    if (counts[g] !== 0) continue;
-    // Farthest row whose group keeps a member after the move. One exists:
-    // m >= k rows sit in fewer than k groups, so some group has two.
-    let far = -1;
-    let farFit = Infinity;
-    for (let a = 0; a < m; a++) {
-      const i = active[a]!;
-      if (counts[assign[i]!]! > 1 && fit[i]! < farFit) {
-        farFit = fit[i]!;
-        far = i;
-      }
-    }
-    const from = assign[far]!;
-    addRow(matrix, far, sums, k, from, -1);
-    counts[from]!--;
-    addRow(matrix, far, sums, k, g, 1);
-    counts[g] = 1;
-    assign[far] = g;
-    reseeded++;
-  }
-
-  norms.fill(0);
-  const d = matrix.cols;
-  for (let t = 0; t < d; t++) {
-    const base = t * k;
-    for (let g = 0; g < k; g++) {
-      const s = sums[base + g]!;
-      norms[g]! += s * s;
-    }
-  }
-  for (let g = 0; g < k; g++) norms[g] = norms[g]! > 0 ? 1 / Math.sqrt(norms[g]!) : 0;
-  for (let t = 0; t < d; t++) {
-    const base = t * k;
-    for (let g = 0; g < k; g++) centroids[base + g] = sums[base + g]! * norms[g]!;
-  }
-  // Members that cancel out exactly (possible only with negative values):
-  // use the group's first member as its direction so every centroid is unit.
-  for (let g = 0; g < k; g++) {
-    if (norms[g] !== 0) continue;
-    for (let a = 0; a < m; a++) {
-      const i = active[a]!;
-      if (assign[i] === g) {
-        placeRow(matrix, i, centroids, k, g);
-        break;
-      }
-    }
-  }
-  return reseeded;
-}
-
-/** Sets `fit` to each row's cosine with its assigned centroid. */
-function refreshFit(ws: Workspace): void {
-  const { matrix, active, k, centroids, assign, fit } = ws;
-  for (let a = 0; a < active.length; a++) {
-    const i = active[a]!;
-    fit[i] = dotRowCentroid(matrix, i, centroids, k, assign[i]!);
-  }
-}
-
-/**
- * Renumbers groups by size descending, ties by smallest member row index.
- * Rewrites `assign` in place and returns it with permuted centroids.
- */
-function canonicalise(
-  assign: Int32Array,
-  centroids: Float32Array,
-  k: number,
-  d: number,
-  active: Int32Array,
-): { assignments: Int32Array; centroids: Float32Array } {
-  const size = new Int32Array(k);
-  const first = new Int32Array(k).fill(-1);
-  for (let a = 0; a < active.length; a++) {
-    const i = active[a]!;
-    const g = assign[i]!;
-    size[g]!++;
-    if (first[g] === -1) first[g] = i;
-  }
-  const order = Array.from({ length: k }, (_, g) => g);
-  // an empty group (not expected: updates always refill) sorts last
-  const key = (g: number): number => (first[g] === -1 ? Number.MAX_SAFE_INTEGER : first[g]!);
-  order.sort((x, y) => size[y]! - size[x]! || key(x) - key(y) || x - y);
-  const newOf = new Int32Array(k);
-  for (let g = 0; g < k; g++) newOf[order[g]!] = g;
-  for (let a = 0; a < active.length; a++) {
-    const i = active[a]!;
-    assign[i] = newOf[assign[i]!]!;
-  }
-  const out = new Float32Array(d * k);
-  for (let t = 0; t < d; t++) {
-    const base = t * k;
-    for (let g = 0; g < k; g++) out[base + newOf[g]!] = centroids[base + g]!;
-  }
-  return { assignments: assign, centroids: out };
 }
 
 /**
