@@ -118,6 +118,11 @@ function harness(fn) {
 }
 
 const stages = [];
+const settings = { k, threshold, minDf, srcTree: process.env.SHEAF_SRC_TREE ?? 'worktree' };
+/** Progress so far, so a run that is stopped (time limit, out of memory) still tells what it reached. */
+function writePartial(running) {
+  writeFileSync(outJson, JSON.stringify({ input: path.basename(input), settings, partial: true, running, stages, windows: typeof windows === 'undefined' ? [] : windows }, null, 2) + '\n');
+}
 const cpuMs = () => {
   const u = process.cpuUsage();
   return (u.user + u.system) / 1000;
@@ -126,6 +131,7 @@ const cpuMs = () => {
 async function stage(name, items, fn) {
   const startRss = harness(() => {
     process.stderr.write(`[one] ${name} start\n`);
+    writePartial(name);
     resetPeak();
     return rssBytes();
   });
@@ -136,6 +142,7 @@ async function stage(name, items, fn) {
   const cpu = cpuMs() - c0;
   const peak = harness(() => peakBytes());
   stages.push({ stage: name, ms, cpuMs: cpu, items, peakRss: peak, startRss });
+  harness(() => writePartial(null));
   return value;
 }
 
@@ -166,7 +173,7 @@ await stage('analyze', n, () => {
 
 // groupDocuments, with its stage boundaries read through the `now` hook: each
 // call closes one window (time and peak) and opens the next.
-const windows = [];
+var windows = [];
 let windowStart = null;
 const hookNow = () => {
   const t = clock();
@@ -174,6 +181,7 @@ const hookNow = () => {
   harness(() => {
     if (windowStart !== null) windows.push({ ms: t - windowStart.t, cpuMs: c - windowStart.c, peakRss: peakBytes(), startRss: windowStart.rss });
     process.stderr.write(`[one] groupDocuments-window-${windows.length} start\n`);
+    writePartial(`groupDocuments stage window ${windows.length} (0 = analyze+vectorize, 1 = gap, 2 = k-means, ...)`);
     resetPeak();
     windowStart = { t, rss: rssBytes(), c: cpuMs() };
   });
@@ -303,6 +311,7 @@ overallPeak = Math.max(overallPeak, pipelinePeak);
 const km = result.kmeans;
 const report = {
   input: path.basename(input),
+  settings,
   docs: n,
   analyzedTerms,
   k,

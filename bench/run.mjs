@@ -15,6 +15,9 @@
 //   --ref REF            measure a commit instead of the work tree: its src/ is exported
 //                        (git archive) to bench/out/build-<sha>/ and built there
 //   --results FILE       where the report goes (default bench/results.md)
+//   --timeout-min N      stop any one run after N minutes and report how far it got
+//   --reuse              reuse bench/out/<input>.ours.json / .peer.json from an earlier run
+//                        with the same settings and the same src/ tree (needs --ref)
 //
 // Every input runs in a child process (`node --expose-gc bench/one.mjs`) so its
 // peak RSS is its own. Writes the report to bench/results.md and prints it.
@@ -53,6 +56,8 @@ const PEER_THREADS = Number(opt('--peer-threads', '0'));
 const SPAM = !has('--no-spam');
 const KERNEL = !has('--no-kernel');
 const resultsFile = path.resolve(opt('--results', path.join(here, 'results.md')));
+const TIMEOUT_MS = Number(opt('--timeout-min', '0')) * 60_000;
+const REUSE = has('--reuse');
 
 const log = (line) => process.stderr.write(line + '\n');
 
@@ -68,6 +73,7 @@ if (PEER) {
 
 const REF = opt('--ref', null);
 let refSha = null;
+let srcTree = null;
 const childEnv = { ...process.env };
 if (REF) {
   const rev = spawnSync('git', ['-C', root, 'rev-parse', REF], { encoding: 'utf8' });
@@ -76,7 +82,9 @@ if (REF) {
     process.exit(2);
   }
   refSha = rev.stdout.trim();
-  const dir = path.join(outDir, `build-${refSha.slice(0, 12)}`);
+  srcTree = spawnSync('git', ['-C', root, 'rev-parse', `${refSha}:src`], { encoding: 'utf8' }).stdout.trim();
+  childEnv.SHEAF_SRC_TREE = srcTree;
+  const dir = path.join(outDir, `build-${srcTree.slice(0, 12)}`);
   if (!existsSync(path.join(dir, 'dist', 'index.js'))) {
     log(`bench: building ${REF} (${refSha.slice(0, 12)}) in ${path.relative(root, dir)}`);
     rmSync(dir, { recursive: true, force: true });
@@ -156,8 +164,14 @@ function runChild(cmd, args, env, label) {
       partial = parts.pop();
       for (const line of parts) if (line.trim()) process.stderr.write(`  ${label}: ${line}\n`);
     });
+    let timedOut = false;
+    const timer = TIMEOUT_MS > 0 ? setTimeout(() => {
+      timedOut = true;
+      child.kill('SIGTERM');
+    }, TIMEOUT_MS) : null;
     child.on('close', (code, signal) => {
-      resolve({ code, signal, stdout, stderrTail, wallMs: performance.now() - t0, load: [load0, os.loadavg()[0]] });
+      if (timer) clearTimeout(timer);
+      resolve({ code, signal, timedOut, stdout, stderrTail, wallMs: performance.now() - t0, load: [load0, os.loadavg()[0]] });
     });
   });
 }
@@ -167,25 +181,41 @@ const peers = new Map();
 const kernels = new Map();
 const failures = [];
 
+const sameSettings = (j) => REUSE && srcTree && j?.settings && j.settings.srcTree === srcTree && j.settings.k === K && j.settings.threshold === T && j.settings.minDf === MIN_DF && !j.partial;
+const reused = [];
 for (const inp of inputs) {
   const json = path.join(outDir, `${inp.name}.ours.json`);
   const dump = path.join(outDir, `${inp.name}.kernel.bin`);
+  if (existsSync(json)) {
+    const old = JSON.parse(readFileSync(json, 'utf8'));
+    if (sameSettings(old) && (!KERNEL || old.kernelBaseline)) {
+      log(`bench: ours on ${inp.name}: reusing ${path.relative(root, json)} from ${old.startedAt}`);
+      reused.push(`ours ${inp.name} (${old.startedAt})`);
+      ours.set(inp.name, old);
+      if (old.kernelBaseline) kernels.set(inp.name, old.kernelBaseline);
+      continue;
+    }
+  }
   rmSync(json, { force: true });
   const args = ['--expose-gc', path.join(here, 'one.mjs'), '--input', inp.file, '--out-json', json, '--k', String(K), '--threshold', String(T), '--min-df', String(MIN_DF)];
   if (inp.pairs) args.push('--pairs', inp.pairs);
   if (KERNEL) args.push('--kernel-dump', dump);
   log(`bench: ours on ${inp.name}`);
   const r = await runChild(process.execPath, args, childEnv, `ours ${inp.name}`);
-  if (r.code !== 0 || !existsSync(json)) {
-    failures.push({ who: 'ours', input: inp.name, code: r.code, signal: r.signal, tail: lastStage(r.stderrTail), wallMs: r.wallMs });
-    log(`bench: ours on ${inp.name} FAILED (exit ${r.code}, signal ${r.signal}) ${lastStage(r.stderrTail)}`);
+  const res = existsSync(json) ? JSON.parse(readFileSync(json, 'utf8')) : null;
+  if (r.code !== 0 || !res || res.partial) {
+    failures.push({ who: 'ours', input: inp.name, code: r.code, signal: r.signal, timedOut: r.timedOut, tail: lastStage(r.stderrTail), wallMs: r.wallMs, partial: res?.partial ? res : null });
+    log(`bench: ours on ${inp.name} FAILED (exit ${r.code}, signal ${r.signal}${r.timedOut ? ', time limit' : ''}) ${lastStage(r.stderrTail)}`);
+    rmSync(dump, { force: true });
     continue;
   }
-  const res = JSON.parse(readFileSync(json, 'utf8'));
   res.load = r.load;
   ours.set(inp.name, res);
   if (KERNEL && existsSync(dump)) {
-    kernels.set(inp.name, runKernels(dump, res));
+    const kr = runKernels(dump, res);
+    kernels.set(inp.name, kr);
+    res.kernelBaseline = kr;
+    writeFileSync(json, JSON.stringify(res, null, 2) + '\n');
     rmSync(dump, { force: true });
   }
 }
@@ -201,6 +231,15 @@ if (PEER) {
       continue;
     }
     const json = path.join(outDir, `${inp.name}.peer.json`);
+    if (existsSync(json)) {
+      const old = JSON.parse(readFileSync(json, 'utf8'));
+      if (REUSE && old.k === K && old.threshold === T && old.minDf === MIN_DF && (old.threadLimit ?? 0) === PEER_THREADS && old.generatorBytes === inp.bytes) {
+        log(`bench: peer on ${inp.name}: reusing ${path.relative(root, json)}`);
+        reused.push(`peer ${inp.name}`);
+        peers.set(inp.name, old);
+        continue;
+      }
+    }
     rmSync(json, { force: true });
     const args = [path.join(here, 'peer.py'), '--input', inp.file, '--k', String(K), '--threshold', String(T), '--min-df', String(MIN_DF), '--out-json', json];
     if (inp.pairs) args.push('--pairs', inp.pairs);
@@ -208,12 +247,14 @@ if (PEER) {
     log(`bench: peer on ${inp.name}`);
     const r = await runChild(PYTHON, args, env, `peer ${inp.name}`);
     if (r.code !== 0 || !existsSync(json)) {
-      failures.push({ who: 'peer', input: inp.name, code: r.code, signal: r.signal, tail: r.stderrTail.slice(-300), wallMs: r.wallMs });
+      failures.push({ who: 'peer', input: inp.name, code: r.code, signal: r.signal, timedOut: r.timedOut, tail: r.stderrTail.slice(-300), wallMs: r.wallMs });
       log(`bench: peer on ${inp.name} FAILED (exit ${r.code})`);
       continue;
     }
     const res = JSON.parse(readFileSync(json, 'utf8'));
     res.load = r.load;
+    res.generatorBytes = inp.bytes;
+    writeFileSync(json, JSON.stringify(res, null, 2) + '\n');
     peers.set(inp.name, res);
   }
 }
@@ -517,7 +558,23 @@ if (peers.size) {
 if (failures.length) {
   say('## Runs that did not finish');
   say();
-  for (const f of failures) say(`- ${f.who} on ${f.input}: exit ${f.code}${f.signal ? `, signal ${f.signal}` : ''} after ${sec(f.wallMs)} — ${f.tail.replace(/\|/g, '/')}`);
+  for (const f of failures) {
+    say(`- ${f.who} on ${f.input}: ${f.timedOut ? `stopped at the time limit (--timeout-min ${TIMEOUT_MS / 60000})` : `exit ${f.code}${f.signal ? `, signal ${f.signal}` : ''}`} after ${sec(f.wallMs)} — ${f.tail.replace(/\|/g, '/')}`);
+    const p = f.partial;
+    if (p) {
+      say(`  - still running when stopped: **${p.running ?? 'unknown'}**`);
+      say();
+      say(table(['finished stage', 'wall', 'CPU', 'peak RSS MB'], [
+        ...p.stages.map((s) => [s.stage, sec(s.ms), sec(s.cpuMs), mb(s.peakRss)]),
+        ...p.windows.map((w, i) => [`groupDocuments window ${i}${i === 0 ? ' (analyze+vectorize)' : ''}`, sec(w.ms), sec(w.cpuMs), mb(w.peakRss)]),
+      ]));
+    }
+  }
+  say();
+}
+
+if (reused.length) {
+  say(`Reused from earlier runs of the same src/ tree and settings (--reuse): ${reused.join(', ')}.`);
   say();
 }
 
