@@ -27,7 +27,7 @@ import { looksLikeDocx, looksLikeOle, readDocx } from './docx.js';
 import { htmlToText } from './html.js';
 import { looksLikeMail, readMail } from './mail.js';
 import { looksLikePdf, readPdf } from './pdf.js';
-import { readMarkdown, readPlainText } from './text.js';
+import { firstLine, readMarkdown, readPlainText } from './text.js';
 import { looksLikeZip } from './zip.js';
 
 /** The readers a document file can go through. */
@@ -142,13 +142,14 @@ export async function readDocumentBytes(buf: Buffer, ext: string, encoding: stri
         throw new InputSkip(`broken e-mail: ${err instanceof Error ? err.message.split('\n')[0] : String(err)}`);
       }
       const warnings = [...m.warnings];
+      if (m.headerFields === 0) warnings.push('no e-mail header block; read as the body of a message');
       if (m.attachments.length > 0) warnings.push(`${m.attachments.length} attachment(s) not read: ${m.attachments.join(', ')}`);
       if (m.text === '') {
         throw new InputSkip(m.attachments.length > 0 ? `no text: the e-mail has only attachments (${m.attachments.length})` : 'no text: the e-mail has an empty body');
       }
       const plainUtf8 = m.encodings.every((e) => e === 'utf-8') && m.replaced === 0;
       const decoding = plainUtf8 ? null : { encoding: m.encodings.join(', ') || 'utf-8', basis: 'mime' as const, replaced: m.replaced };
-      return { kind, text: m.text, title: m.subject, decoding, warnings, attachments: m.attachments, pages: 0 };
+      return { kind, text: m.text, title: m.subject || firstLine(m.text), decoding, warnings, attachments: m.attachments, pages: 0 };
     }
     default: {
       const declared = kind === 'html' ? declaredHtmlCharset : null;

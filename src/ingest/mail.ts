@@ -39,6 +39,8 @@ export interface MailText {
   readonly replaced: number;
   /** Problems met (an unknown charset, a multipart without boundary…), one line each. */
   readonly warnings: string[];
+  /** Header fields of the message (0: no header block, all body). */
+  readonly headerFields: number;
 }
 
 /** A header field: its name as written and its raw (unfolded) value. */
@@ -542,5 +544,14 @@ export function readMail(buf: Buffer, options: { readonly forced?: string | null
   const subjectRaw = headers.get('subject');
   const subject = subjectRaw === undefined ? '' : capTitle(collapse(decodeEncodedWords(subjectRaw)));
   const source: MailText['source'] = text === '' ? 'none' : pieces.every((p) => p.kind === 'html') ? 'html' : 'plain';
-  return { subject, text, source, attachments: w.attachments, encodings: w.encodings, replaced: w.replaced, warnings: w.warnings };
+  return {
+    subject,
+    text,
+    source,
+    attachments: w.attachments,
+    encodings: w.encodings,
+    replaced: w.replaced,
+    warnings: w.warnings,
+    headerFields: fields.length,
+  };
 }

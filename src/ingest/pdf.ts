@@ -122,7 +122,7 @@ export function itemsToLines(items: readonly unknown[]): Line[] {
 export function headingOf(lines: readonly Line[]): string {
   if (lines.length === 0) return '';
   const heights = lines.map((l) => l.height).sort((a, b) => a - b);
-  const median = heights[heights.length >> 1] as number;
+  const median = heights[(heights.length - 1) >> 1] as number; // the lower median: headings are the few tall lines
   const head = lines.slice(0, 20);
   let best = -1;
   for (let i = 0; i < head.length; i++) if (best === -1 || (head[i] as Line).height > (head[best] as Line).height + 1e-6) best = i;
