@@ -4,6 +4,7 @@ import type { Doc } from '../src/types.js';
 import { UsageError } from '../src/util/errors.js';
 import { createRng } from '../src/util/random.js';
 import { createAnalyzer } from '../src/analyze/index.js';
+import { lineKeyReference } from '../src/clean/boilerplate.js';
 import {
   cleanDocuments,
   DEFAULT_CLEAN_OPTIONS,
@@ -141,14 +142,14 @@ describe('placeholders', () => {
     const out = foldIdentifiers(
       'See https://help.example.com/a/b?x=1&y=2. Or www.example.org, mail me at maria.lopez+desk@example.co.uk or mailto:a@b.io; ' +
         'ticket INC0012345, order ORD-48213 and TCK-2024-0042, case #4411, trace 3f2c9a7e-1b4d-4e8f-9a6b-2c7d8e9f0a1b, ' +
-        'hash 9f86d081884c7d659a2feaa0c55ad015, call 4402079460000; keep mp3, x86, 2024, 3.14159, &#8364; and 1,234.',
+        'hash 9f86d081884c7d659a2feaa0c55ad015, key a1b2c3d4e5f6a7b8, call 4402079460000; keep mp3, x86, 2024, 3.14159, &#8364; and 1,234.',
       counts,
     );
     expect(out).toBe(
       'See xurlx. Or xurlx, mail me at xmailx or xmailx; ticket xidx, order xidx and xidx, case xidx, trace xidx, ' +
-        'hash xidx, call xnumx; keep mp3, x86, 2024, 3.14159, &#8364; and 1,234.',
+        'hash xidx, key xidx, call xnumx; keep mp3, x86, 2024, 3.14159, &#8364; and 1,234.',
     );
-    expect(counts).toEqual({ url: 2, email: 2, id: 6, number: 1 });
+    expect(counts).toEqual({ url: 2, email: 2, id: 7, number: 1 });
   });
 
   it('are single terms the analyzer keeps as they are, in its main languages', () => {
@@ -197,6 +198,17 @@ describe('boilerplate', () => {
       const kept = (docs[i] as Doc).text.split('\n').filter((l) => !l.startsWith('Ticket #'));
       expect((out[i] as Doc).text).toBe(kept.join('\n'));
     }
+  });
+
+  it('keys lines in one pass exactly as the regular-expression reference does (fast-check)', () => {
+    const text = fc.string({ unit: fc.constantFrom('a', 'Z', 'é', 'Ä', '7', '٣', '²', ' ', '-', '#', '\u0301', '😀', '\ud800', 'ß', 'İ', '.', '\t'), maxLength: 40 });
+    fc.assert(
+      fc.property(fc.oneof(text, fc.string({ unit: 'binary', maxLength: 40 })), (s) => {
+        expect(lineKey(s)).toBe(lineKeyReference(s));
+      }),
+      { numRuns: 2000, seed: 12 },
+    );
+    expect(lineKey('  Ticket #4411 – reply ABOVE this line!! ')).toBe('ticket 0 reply above this line');
   });
 
   it('finds exactly the lines a naive count finds (fast-check), in bounded memory', () => {
@@ -316,6 +328,15 @@ describe('cleanDocuments', () => {
     }
     expect(resolveCleanOptions({ mode: undefined })).toEqual(DEFAULT_CLEAN_OPTIONS);
     expect(() => cleanDocuments([], { mode: 'x' as never })).toThrow(UsageError);
+  });
+
+  it('removes a footer under a signature as boilerplate, then the signature', () => {
+    const parts = ['gate', 'pump', 'hatch', 'tiller', 'winch', 'cleat'];
+    const t = parts.map((p, i) => doc(String(i), `The ${p} sticks.\n\nThanks,\nAnn\nReply above this line to reach Lanternfen support (ticket ${i}).`));
+    const { docs, report } = cleanDocuments(t);
+    expect(docs.map((d) => d.text)).toEqual(parts.map((p) => `The ${p} sticks.`));
+    expect(report.linesRemoved).toEqual({ quoted: 0, history: 0, signature: 12, greeting: 0, boilerplate: 6 });
+    expect(report.boilerplate.lines).toEqual([{ line: 'Reply above this line to reach Lanternfen support (ticket 0).', docs: 6 }]);
   });
 
   it('gives the same output for the same input, whatever the line endings', () => {

@@ -14,14 +14,14 @@
  * @module
  */
 import type { Doc } from '../types.js';
-import { dropLines, findBoilerplate, type BoilerplateLine } from './boilerplate.js';
+import { dropLines, findBoilerplate, keySet, type BoilerplateLine } from './boilerplate.js';
 import { resolveCleanOptions, type CleanMode, type CleanOptions } from './options.js';
 import { foldIdentifiers, type PlaceholderCounts } from './placeholders.js';
-import { stripReplies, type ReplyCounts } from './replies.js';
+import { joinLines, stripEnds, stripHistory, type ReplyCounts } from './replies.js';
 
 export { CLEAN_MODES, DEFAULT_CLEAN_OPTIONS, resolveCleanOptions, type CleanMode, type CleanOptions } from './options.js';
 export { PLACEHOLDERS, foldIdentifiers, type PlaceholderCounts } from './placeholders.js';
-export { stripReplies, isGreeting, isSignOff, SIGN_OFFS, type ReplyCounts, type ReplyRules } from './replies.js';
+export { stripReplies, stripHistory, stripEnds, stripSignature, isGreeting, isSignOff, SIGN_OFFS, type ReplyCounts, type ReplyRules } from './replies.js';
 export { findBoilerplate, lineKey, BOILERPLATE_MIN_KEY, type BoilerplateLine } from './boilerplate.js';
 
 /** Most boilerplate lines listed in a {@link CleanReport} (the count of all is in `boilerplate.found`). */
@@ -69,11 +69,12 @@ export function boilerplateThreshold(n: number, share: number, minDocs: number):
 
 /**
  * Cleans the texts of `docs` ({@link CleanOptions}; resolved and validated
- * once with {@link resolveCleanOptions}). In `tickets` mode, per document:
- * reply headers with the history under them, `>` lines, the signature and
- * the opening greeting go (see {@link stripReplies}); then, across all
- * documents, boilerplate lines go (see {@link findBoilerplate}); then
- * identifiers are folded into placeholder words ({@link foldIdentifiers}).
+ * once with {@link resolveCleanOptions}). In `tickets` mode: per document,
+ * reply headers with the history under them and `>` lines go
+ * ({@link stripHistory}); across all documents, boilerplate lines go
+ * ({@link findBoilerplate}); per document, the signature and the opening
+ * greeting go ({@link stripEnds}); then identifiers are folded into
+ * placeholder words ({@link foldIdentifiers}).
  * A document that would be left empty keeps its original text. In `none`
  * mode the documents are returned as they are. Same input, same output;
  * the input is not modified.
@@ -105,7 +106,7 @@ export function cleanDocuments(docs: readonly Doc[], options: Partial<CleanOptio
     };
   }
 
-  // 1. Per document: history, quotes, signature, greeting. Counts per document, so an emptied one can be undone.
+  // 1. Per document: reply history and quotes. Counts per document, so an emptied one can be undone.
   const rules = { quotes: opts.quotes, signatures: opts.signatures, greetings: opts.greetings };
   const perDoc = {
     quoted: new Int32Array(n),
@@ -121,28 +122,28 @@ export function cleanDocuments(docs: readonly Doc[], options: Partial<CleanOptio
   const texts: string[] = new Array<string>(n);
   const rc = zeroReplies();
   for (let i = 0; i < n; i++) {
-    rc.quoted = rc.history = rc.signature = rc.greeting = 0;
+    rc.quoted = rc.history = 0;
     const t = (docs[i] as Doc).text;
-    texts[i] = stripReplies(t.indexOf('\r') === -1 ? t : t.replace(/\r\n?/g, '\n'), rules, rc);
+    const lines = (t.indexOf('\r') === -1 ? t : t.replace(/\r\n?/g, '\n')).split('\n');
+    texts[i] = joinLines(opts.quotes ? stripHistory(lines, rc) : lines);
     perDoc.quoted[i] = rc.quoted;
     perDoc.history[i] = rc.history;
-    perDoc.signature[i] = rc.signature;
-    perDoc.greeting[i] = rc.greeting;
   }
 
-  // 2. Across documents: boilerplate lines.
-  let found: BoilerplateLine[] = [];
-  if (opts.boilerplate) {
-    found = findBoilerplate(texts, threshold);
-    const keys = new Set(found.map((b) => b.key));
-    const removed = { count: 0 };
-    for (let i = 0; i < n; i++) {
-      removed.count = 0;
-      texts[i] = dropLines(texts[i] as string, keys, removed)
-        .replace(/\n{3,}/g, '\n\n')
-        .trim();
-      perDoc.boilerplate[i] = removed.count;
-    }
+  // 2. Across documents: boilerplate lines (before signatures, as footers often sit under them).
+  const found: BoilerplateLine[] = opts.boilerplate ? findBoilerplate(texts, threshold) : [];
+  const keys = keySet(found.map((b) => b.key));
+  const removed = { count: 0 };
+  for (let i = 0; i < n; i++) {
+    removed.count = 0;
+    let lines = (texts[i] as string).split('\n');
+    if (keys.keys.size > 0) lines = dropLines(lines, keys, removed);
+    perDoc.boilerplate[i] = removed.count;
+    // Then the signature and the greeting.
+    rc.signature = rc.greeting = 0;
+    texts[i] = joinLines(stripEnds(lines, rules, rc));
+    perDoc.signature[i] = rc.signature;
+    perDoc.greeting[i] = rc.greeting;
   }
 
   // 3. Identifiers to placeholders.

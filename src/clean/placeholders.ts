@@ -32,16 +32,28 @@ const URL_RE = /(?<![\p{L}\p{N}@._/-])(?:https?:\/\/|ftp:\/\/|www\.)[^\s<>"'`]+/
 const URL_TAIL = /[.,;:!?)\]}»"']+$/u;
 /** An e-mail address (optionally `mailto:`): local part, `@`, a dotted domain. */
 const EMAIL_RE = /(?:mailto:)?(?<![\p{L}\p{N}._%+-])[\p{L}\p{N}._%+-]+@[\p{L}\p{N}-]+(?:\.[\p{L}\p{N}-]+)+/gu;
-/** A UUID (RFC 9562 layout: 8-4-4-4-12 hexadecimal digits). */
-const UUID_RE = /(?<![\p{L}\p{N}])[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}(?![\p{L}\p{N}])/giu;
-/** A hexadecimal hash or key: 16 or more hex digits, with both digits and letters. */
-const HEX_RE = /(?<![\p{L}\p{N}])(?=[0-9a-f]*[0-9])(?=[0-9a-f]*[a-f])[0-9a-f]{16,}(?![\p{L}\p{N}])/giu;
-/** A ticket or order id: 1–10 letters, an optional `-` `_` `#` `:`, 3 or more digits, optional `-digits` groups (INC0012345, ORD-48213, TCK-2024-0042). */
-const CODE_RE = /(?<![\p{L}\p{N}_-])\p{L}{1,10}[-_#:]?\p{N}{3,}(?:[-_/]\p{N}+)*(?![\p{L}\p{N}_])/gu;
-/** A number written after `#` (`#48213`), not an HTML character reference. */
-const HASH_NUMBER_RE = /(?<![\p{L}\p{N}&#])#\p{N}{3,}(?![\p{L}\p{N}])/gu;
-/** A run of 5 or more digits standing alone (not part of a decimal or a word). */
-const LONG_NUMBER_RE = /(?<![\p{L}\p{N}.,])\p{N}{5,}(?![\p{L}\p{N}])/gu;
+/**
+ * The identifier family in one pass, alternatives tried in this order at each position:
+ * - `uuid`: a UUID (8-4-4-4-12 hexadecimal digits, the RFC 9562 layout);
+ * - `hex`: a hexadecimal hash or key: 16 or more hex digits, with both digits and letters;
+ * - `code`: a ticket or order id: 1–10 letters, an optional `-` `_` `#` `:`, 3 or more digits,
+ *   optional `-digits` groups (INC0012345, ORD-48213, TCK-2024-0042);
+ * - `hash`: a number written after `#` (`#48213`), not an HTML character reference;
+ * - `num`: a run of 5 or more digits standing alone (not part of a decimal or a word).
+ */
+const ID_FAMILY = new RegExp(
+  [
+    '(?<uuid>(?<![\\p{L}\\p{N}])[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}(?![\\p{L}\\p{N}]))',
+    '(?<hex>(?<![\\p{L}\\p{N}])(?=[0-9a-f]*[0-9])(?=[0-9a-f]*[a-f])[0-9a-f]{16,}(?![\\p{L}\\p{N}]))',
+    '(?<code>(?<![\\p{L}\\p{N}_-])\\p{L}{1,10}[-_#:]?\\p{N}{3,}(?:[-_/]\\p{N}+)*(?![\\p{L}\\p{N}_]))',
+    '(?<hash>(?<![\\p{L}\\p{N}&#])#\\p{N}{3,}(?![\\p{L}\\p{N}]))',
+    '(?<num>(?<![\\p{L}\\p{N}.,])\\p{N}{5,}(?![\\p{L}\\p{N}]))',
+  ].join('|'),
+  'giu',
+);
+
+/** A digit: without one no identifier of the family can match. */
+const ANY_DIGIT = /\p{N}/u;
 
 /**
  * Replaces URLs, e-mail addresses, UUIDs and hex keys, ticket/order ids and
@@ -63,15 +75,15 @@ export function foldIdentifiers(text: string, counts: PlaceholderCounts): string
       return PLACEHOLDERS.email;
     });
   }
-  const id = (): string => {
-    counts.id++;
-    return PLACEHOLDERS.id;
-  };
-  if (/\p{N}/u.test(t)) {
-    t = t.replace(UUID_RE, id).replace(HEX_RE, id).replace(CODE_RE, id).replace(HASH_NUMBER_RE, id);
-    t = t.replace(LONG_NUMBER_RE, () => {
-      counts.number++;
-      return PLACEHOLDERS.number;
+  if (ANY_DIGIT.test(t)) {
+    t = t.replace(ID_FAMILY, (...args: unknown[]) => {
+      const groups = args[args.length - 1] as Record<string, string | undefined>;
+      if (groups['num'] !== undefined) {
+        counts.number++;
+        return PLACEHOLDERS.number;
+      }
+      counts.id++;
+      return PLACEHOLDERS.id;
     });
   }
   return t;

@@ -185,50 +185,61 @@ function countContent(lines: readonly string[], from: number, to: number): numbe
 }
 
 /**
- * Removes reply history, quoted lines, the signature and the opening
- * greeting from one text (line endings `\n`). Order: reply headers and
- * the history under them; then `>` lines; then the signature; then the
- * greeting. Adds what it removed to `counts`. Blank lines left in a run
- * are collapsed to one; the result is trimmed.
+ * Removes reply headers with the history under them, then quoted (`>`)
+ * lines. An attribution followed by quoted lines ("On … wrote:" then `>`
+ * lines, as in bottom-posted and interleaved replies) goes alone, so text
+ * written between or after the quotes stays; any other reply header cuts
+ * everything under it. Adds what it removed to `counts`; returns the lines left.
  */
-export function stripReplies(text: string, rules: ReplyRules, counts: ReplyCounts): string {
-  let lines = text.split('\n');
-  if (rules.quotes) {
-    const kept: string[] = [];
-    for (let i = 0; i < lines.length; i++) {
-      const line = lines[i] as string;
-      if (ORIGINAL_MESSAGE.test(line) || headerBlockAt(lines, i) || (RULE_LINE.test(line) && headerBlockAt(lines, nextContent(lines, i + 1)))) {
-        counts.history += countContent(lines, i, lines.length);
-        break;
-      }
-      const n = attributionAt(lines, i);
-      if (n > 0) {
-        const after = nextContent(lines, i + n);
-        counts.history += n;
-        if (after < lines.length && /^\s*>/.test(lines[after] as string)) {
-          // Interleaved or bottom-posted: the quoted lines go by the next rule; text after them stays.
-          i += n - 1;
-          continue;
-        }
-        counts.history += countContent(lines, i + n, lines.length); // top-posted: all below is history
-        break;
-      }
-      kept.push(line);
+export function stripHistory(lines: readonly string[], counts: ReplyCounts): string[] {
+  const kept: string[] = [];
+  for (let i = 0; i < lines.length; i++) {
+    const line = lines[i] as string;
+    if (ORIGINAL_MESSAGE.test(line) || headerBlockAt(lines, i) || (RULE_LINE.test(line) && headerBlockAt(lines, nextContent(lines, i + 1)))) {
+      counts.history += countContent(lines, i, lines.length);
+      break;
     }
-    lines = [];
-    for (const line of kept) {
-      if (/^\s*>/.test(line)) counts.quoted++;
-      else lines.push(line);
+    const n = attributionAt(lines, i);
+    if (n > 0) {
+      const after = nextContent(lines, i + n);
+      counts.history += n;
+      if (after < lines.length && /^\s*>/.test(lines[after] as string)) {
+        i += n - 1; // the quoted lines go below; text after them stays
+        continue;
+      }
+      counts.history += countContent(lines, i + n, lines.length); // top-posted: all below is history
+      break;
     }
+    kept.push(line);
   }
-  if (rules.signatures) lines = stripSignature(lines, counts);
+  const out: string[] = [];
+  for (const line of kept) {
+    if (/^\s*>/.test(line)) counts.quoted++;
+    else out.push(line);
+  }
+  return out;
+}
+
+/**
+ * Removes the signature (see {@link stripSignature}) and then an opening
+ * greeting line, as the rules say. Adds what it removed to `counts`.
+ */
+export function stripEnds(lines: string[], rules: ReplyRules, counts: ReplyCounts): string[] {
+  let out = lines;
+  if (rules.signatures) out = stripSignature(out, counts);
   if (rules.greetings) {
-    const first = nextContent(lines, 0);
-    if (first < lines.length && isGreeting(lines[first] as string)) {
+    const first = nextContent(out, 0);
+    if (first < out.length && isGreeting(out[first] as string)) {
       counts.greeting++;
-      lines.splice(first, 1);
+      out = out.slice();
+      out.splice(first, 1);
     }
   }
+  return out;
+}
+
+/** Lines joined with `\n`, trailing spaces dropped, runs of blank lines collapsed to one, trimmed. */
+export function joinLines(lines: readonly string[]): string {
   return lines
     .join('\n')
     .replace(/[ \t]+$/gm, '')
@@ -236,7 +247,25 @@ export function stripReplies(text: string, rules: ReplyRules, counts: ReplyCount
     .trim();
 }
 
-function stripSignature(lines: string[], counts: ReplyCounts): string[] {
+/**
+ * Removes reply history and quoted lines ({@link stripHistory}), then the
+ * signature and the greeting ({@link stripEnds}) from one text (line
+ * endings `\n`), as the rules say. Adds what it removed to `counts`.
+ */
+export function stripReplies(text: string, rules: ReplyRules, counts: ReplyCounts): string {
+  let lines = text.split('\n');
+  if (rules.quotes) lines = stripHistory(lines, counts);
+  return joinLines(stripEnds(lines, rules, counts));
+}
+
+/**
+ * The signature: from a `-- ` line to the end (RFC 3676 §4.3; `--` too,
+ * as many systems strip the space); "sent from my phone" lines among the
+ * last three; and a sign-off among the last lines with only short lines
+ * (a name block of at most {@link NAME_BLOCK_MAX} lines of at most
+ * {@link NAME_LINE_MAX} characters) under it, from the sign-off on.
+ */
+export function stripSignature(lines: string[], counts: ReplyCounts): string[] {
   let out = lines;
   // RFC 3676 §4.3: "-- " alone on a line starts the signature ("--" too: many systems strip the space).
   const dash = out.findIndex((l) => l === '-- ' || l.trimEnd() === '--');
