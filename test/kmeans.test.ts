@@ -249,7 +249,7 @@ function checkInvariants(matrix: Csr, res: KMeansResult, k: number): void {
 
 describe('resolveKMeansOptions', () => {
   it('merges the documented defaults', () => {
-    const speed = { prune: true, miniBatch: 'auto', batchSize: 4096, batchIterations: 100, batchTolerance: 0.01 };
+    const speed = { prune: true, miniBatch: 'auto', batchSize: 4096, batchIterations: 200, batchTolerance: 0.001 };
     expect(DEFAULT_KMEANS_OPTIONS).toEqual({ restarts: 4, maxIterations: 100, seed: 1, ...speed });
     expect(resolveKMeansOptions({ groups: 3 }, 10)).toEqual({ groups: 3, restarts: 4, maxIterations: 100, seed: 1, ...speed });
     expect(

@@ -605,7 +605,7 @@ function sortMoves(ws: Workspace): void {
  *    1/count: applied one member x at a time, `c ← (1 − 1/v) c + (1/v) x`
  *    with v the centroid's running count, which telescopes to
  *    `c ← (v₀ c + Σ x) / (v₀ + b_c)`; the sum is then projected back onto
- *    the unit sphere. Stops early when no centroid moved more than
+ *    the unit sphere. Stops early once every centroid moved less than
  *    `batchTolerance` (Euclidean, between unit vectors) in a step.
  * 3. One full assignment pass, so every row gets its nearest centroid.
  *    If a centroid then has no member, it is replaced by the row that fits
@@ -639,7 +639,7 @@ function* miniBatchRestart(ws: Workspace, rng: Rng): Generator<void, RestartOutc
     yield;
     tally(ws, -1);
     batches++;
-    if (miniBatchStep(ws) <= options.batchTolerance) {
+    if (miniBatchStep(ws) < options.batchTolerance) {
       converged = true;
       break;
     }
