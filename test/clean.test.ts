@@ -294,6 +294,15 @@ describe('cleanDocuments', () => {
     expect(report).toMatchObject({ mode: 'none', changed: 0, charsAfter: report.charsBefore, linesRemoved: { quoted: 0, boilerplate: 0 } });
   });
 
+  it('cleans only the documents selected, passing the others through', () => {
+    const { docs, report } = cleanDocuments(tickets, {}, Uint8Array.from([1, 0, 1, 0]));
+    expect(docs[0]?.text).toBe('The fridge is warm. Order xidx.');
+    expect(docs[1]).toBe(tickets[1]);
+    expect(docs[3]).toBe(tickets[3]);
+    expect(report).toMatchObject({ documents: 2, changed: 1, keptWhole: 1 });
+    expect(() => cleanDocuments(tickets, {}, [1, 0])).toThrow(new RangeError('cleanDocuments: only has 2 entries for 4 documents'));
+  });
+
   it('turns rules off one by one', () => {
     const t = [doc('1', 'Hi,\nSee www.example.com\n> quoted\n-- \nsig')];
     expect(cleanDocuments(t, { quotes: false }).docs[0]?.text).toBe('See xurlx\n> quoted');

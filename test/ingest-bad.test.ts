@@ -114,6 +114,7 @@ describe('the bad-input battery: every bad file is a skip or a warning naming it
       { source: 'pile/latin.txt', encoding: 'windows-1252', basis: 'detected', replaced: 0 },
       { source: 'pile/wide.txt', encoding: 'utf-16le', basis: 'bom', replaced: 0 },
     ]);
+    expect(Array.from(r.exportRows)).toEqual([0, 0, 0, 0, 0, 1, 1, 1, 1, 1]);
     // The loop link was never entered: the folder's files are read once.
     expect(r.inputs[0]).toMatchObject({ path: 'pile', kind: 'folder', files: 10 });
   });

@@ -94,6 +94,38 @@ describe('PDF (pdf-lib fixtures, read by pdf.js)', () => {
   });
 });
 
+/** A PDF written by hand from its objects (numbered from 1; object 1 is the catalog), with a correct xref table. */
+function pdfOf(objects: string[]): Buffer {
+  let out = '%PDF-1.4\n';
+  const offsets: number[] = [];
+  objects.forEach((o, i) => {
+    offsets.push(Buffer.byteLength(out, 'latin1'));
+    out += `${i + 1} 0 obj\n${o}\nendobj\n`;
+  });
+  const xref = Buffer.byteLength(out, 'latin1');
+  out += `xref\n0 ${objects.length + 1}\n0000000000 65535 f \n` + offsets.map((o) => `${String(o).padStart(10, '0')} 00000 n \n`).join('');
+  out += `trailer\n<< /Size ${objects.length + 1} /Root 1 0 R >>\nstartxref\n${xref}\n%%EOF\n`;
+  return Buffer.from(out, 'latin1');
+}
+
+describe('PDF with a non-embedded CJK font', () => {
+  it('maps the codes to text through the packed character maps shipped with pdfjs-dist', async () => {
+    // A Type0 font with the predefined CMap UniJIS-UCS2-H (codes are UCS-2) and no ToUnicode: pdf.js must
+    // load UniJIS-UCS2-H and Adobe-Japan1-UCS2 from cmaps/ to know the text (without them it reads nothing).
+    const content = 'BT /F1 12 Tf 50 700 Td <67714EAC> Tj ET'; // U+6771 U+4EAC
+    const pdf = pdfOf([
+      '<< /Type /Catalog /Pages 2 0 R >>',
+      '<< /Type /Pages /Kids [3 0 R] /Count 1 >>',
+      '<< /Type /Page /Parent 2 0 R /MediaBox [0 0 600 800] /Contents 4 0 R /Resources << /Font << /F1 5 0 R >> >> >>',
+      `<< /Length ${content.length} >>\nstream\n${content}\nendstream`,
+      '<< /Type /Font /Subtype /Type0 /BaseFont /KozMinPro-Regular /Encoding /UniJIS-UCS2-H /DescendantFonts [6 0 R] >>',
+      '<< /Type /Font /Subtype /CIDFontType0 /BaseFont /KozMinPro-Regular /CIDSystemInfo << /Registry (Adobe) /Ordering (Japan1) /Supplement 4 >> /FontDescriptor 7 0 R >>',
+      '<< /Type /FontDescriptor /FontName /KozMinPro-Regular /Flags 4 /FontBBox [0 0 1000 1000] /ItalicAngle 0 /Ascent 880 /Descent -120 /CapHeight 700 /StemV 80 >>',
+    ]);
+    expect((await readPdf(pdf)).text).toBe('\u6771\u4eac');
+  });
+});
+
 // --- Encryption: the standard security handler, revision 2 (40-bit RC4), as ISO 32000-1:2008 §7.6.3
 // describes it (Algorithms 1, 2, 3 and 4; from memory). pdf-lib cannot encrypt, so the file is written by hand.
 const PAD = Buffer.from('28BF4E5E4E758A4164004E56FFFA01082E2E00B6D0683E802F0CA9FE6453697A', 'hex');

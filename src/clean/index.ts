@@ -78,9 +78,30 @@ export function boilerplateThreshold(n: number, share: number, minDocs: number):
  * A document that would be left empty keeps its original text. In `none`
  * mode the documents are returned as they are. Same input, same output;
  * the input is not modified.
+ *
+ * `only`, when given, holds one entry per document: documents with 0 pass
+ * through untouched and take no part (in the boilerplate counts or the
+ * report) — e.g. `IngestResult.exportRows`, to clean the rows of ticket
+ * exports and leave document files alone.
  */
-export function cleanDocuments(docs: readonly Doc[], options: Partial<CleanOptions> = {}): { docs: Doc[]; report: CleanReport } {
+export function cleanDocuments(
+  docs: readonly Doc[],
+  options: Partial<CleanOptions> = {},
+  only?: ArrayLike<number>,
+): { docs: Doc[]; report: CleanReport } {
   const opts = resolveCleanOptions(options);
+  if (only !== undefined) {
+    if (only.length !== docs.length) {
+      throw new RangeError(`cleanDocuments: only has ${only.length} entries for ${docs.length} documents`);
+    }
+    const picked: Doc[] = [];
+    for (let i = 0; i < docs.length; i++) if (only[i]) picked.push(docs[i] as Doc);
+    const inner = cleanDocuments(picked, opts);
+    const out = docs.slice();
+    let j = 0;
+    for (let i = 0; i < docs.length; i++) if (only[i]) out[i] = inner.docs[j++] as Doc;
+    return { docs: out, report: inner.report };
+  }
   const n = docs.length;
   let charsBefore = 0;
   for (const d of docs) charsBefore += d.text.length;

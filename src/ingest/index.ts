@@ -119,6 +119,12 @@ export interface IngestResult {
   attachments: AttachmentNote[];
   /** Files not read because `maxFiles` was reached (0 without a cap). */
   filesNotRead: number;
+  /**
+   * One entry per document, in `docs` order: 1 when it is a row of an
+   * export (CSV, TSV, JSON Lines, JSON, or such on standard input), 0 when
+   * it is a document file (text, Markdown, HTML, PDF, Word, e-mail).
+   */
+  exportRows: Uint8Array;
 }
 
 /** Where ingest reads from. */
@@ -671,6 +677,12 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     throw new UsageError(`no readable documents in ${where}${why}`);
   }
   const inputs = reads.flatMap((r) => (r.digest ? [r.digest] : []));
+  const exportRows = new Uint8Array(docs.length);
+  let at = 0;
+  for (const r of reads) {
+    if (r.isExport) exportRows.fill(1, at, at + r.docs.length);
+    at += r.docs.length;
+  }
   return {
     docs,
     skipped,
@@ -680,6 +692,7 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     truncated: cut.truncated,
     attachments: reads.flatMap((r) => r.attachments),
     filesNotRead: capped.notRead,
+    exportRows,
   };
 }
 
