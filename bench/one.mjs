@@ -232,12 +232,14 @@ const dups = await stage('near-duplicates', n, () => sheaf.findNearDuplicates(ma
 const tmp = mkdtempSync(path.join(os.tmpdir(), 'sheaf-bench-'));
 const outDir = path.join(tmp, 'out');
 let writtenBytes = 0;
+let documentsCsvChars = 0;
 await stage('write', n, async () => {
   const files = new Map();
   files.set('documents.csv', sheaf.documentsCsv(result, { duplicateSet: dups.setOf }));
   files.set('groups.json', JSON.stringify(sheaf.groupsJson(result), null, 2) + '\n');
   await sheaf.writeOutputFolder(outDir, files);
   for (const v of files.values()) writtenBytes += Buffer.byteLength(v);
+  documentsCsvChars = files.get('documents.csv').length;
 });
 rmSync(tmp, { recursive: true, force: true });
 
@@ -295,6 +297,12 @@ if (kernelDump) {
   };
 }
 
+/** The number and boolean fields of an object (whatever the k-means result reports). */
+function scalars(o) {
+  const out = {};
+  for (const [key, v] of Object.entries(o)) if (typeof v === 'number' || typeof v === 'boolean') out[key] = v;
+  return out;
+}
 function digest(a) {
   let h = 0x811c9dc5;
   for (let i = 0; i < a.length; i++) h = Math.imul(h ^ (a[i] + 1), 0x01000193);
@@ -322,13 +330,15 @@ const report = {
   terms: matrix.cols,
   nnz: matrix.indptr[matrix.rows],
   emptyRows: result.emptyRows.length,
-  kmeans: km ? { iterations: km.iterations, converged: km.converged, restarts: km.restartObjectives.length, objective: km.objective, reseeded: km.reseeded } : null,
+  kmeans: km ? { ...scalars(km), restarts: km.restartObjectives.length, miniBatch: km.batches > 0 } : null,
   duplicates: { pairs: dups.pairs.a.length, sets: dups.sets.length, rowsInSets: dups.setOf.reduce((s, v) => s + (v >= 0 ? 1 : 0), 0) },
   planted,
   nmi: scores.nmi,
   ari: scores.ari,
   purity: scores.purity,
   writtenBytes,
+  documentsCsvChars,
+  maxStringLength: (await import('node:buffer')).constants.MAX_STRING_LENGTH,
   groupDocumentsMs: gMs,
   groupDocumentsPeakRss: pipelinePeak,
   stages,

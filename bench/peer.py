@@ -9,7 +9,8 @@ Stages (names matched to ours where they do the same job):
   k-means            KMeans(n_clusters=K, n_init=4, max_iter=100,
                      random_state=0, algorithm='lloyd') on the L2 rows
   near-duplicates    pairs with cosine >= T from blocked X[i:j] @ X[i:].T
-                     (BLOCK rows at a time, upper triangle only), then
+                     (BLOCK rows at a time, fewer above 100k documents so a
+                     block's product stays bounded; upper triangle only), then
                      connected components (scipy.sparse.csgraph)
   write              documents CSV (id, group, duplicate set) and a JSON of the
                      groups (size, top 10 centroid terms)
@@ -93,7 +94,14 @@ def main():
     reset = can_reset()
     stages = []
 
+    def partial(running):
+        # Progress so far, so a run that is stopped still tells how far it got.
+        if a.out_json:
+            with open(a.out_json, 'w') as f:
+                json.dump({'input': os.path.basename(a.input), 'partial': True, 'running': running, 'stages': stages}, f, indent=2)
+
     def stage(name, fn):
+        partial(name)
         if reset:
             with open('/proc/self/clear_refs', 'w') as f:
                 f.write('5')
@@ -106,6 +114,7 @@ def main():
         cpu = (time.process_time() - c0) * 1e3
         peak = status_kb('VmHWM') if reset else resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
         stages.append({'stage': name, 'ms': ms, 'cpuMs': cpu, 'peakRss': peak * KB, 'startRss': start_rss * KB})
+        partial(None)
         return value
 
     def read():
@@ -131,11 +140,15 @@ def main():
     km = KMeans(n_clusters=a.k, n_init=4, max_iter=100, random_state=0, algorithm='lloyd')
     labels = stage('k-means', lambda: km.fit_predict(X))
 
+    # One block's product has up to block x n entries: above 100k documents the
+    # blocks get smaller so that it stays at the size it has at 100k (2000 x 100k).
+    block = max(1, min(a.block, (a.block * 100_000) // max(1, n)))
+
     def pairs():
         t = a.threshold
         rows, cols, sims = [], [], []
-        for i0 in range(0, n, a.block):
-            i1 = min(n, i0 + a.block)
+        for i0 in range(0, n, block):
+            i1 = min(n, i0 + block)
             P = (X[i0:i1] @ X[i0:].T).tocoo()
             r = P.row + i0
             c = P.col + i0
@@ -198,7 +211,7 @@ def main():
         'k': a.k,
         'threshold': a.threshold,
         'minDf': a.min_df,
-        'block': a.block,
+        'block': block,
         'terms': int(X.shape[1]),
         'nnz': int(X.nnz),
         'kmeans': {'iterations': int(km.n_iter_), 'inertia': float(km.inertia_), 'nInit': 4},

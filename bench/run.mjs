@@ -246,8 +246,9 @@ if (PEER) {
     if (PEER_THREADS > 0) args.push('--threads', String(PEER_THREADS));
     log(`bench: peer on ${inp.name}`);
     const r = await runChild(PYTHON, args, env, `peer ${inp.name}`);
-    if (r.code !== 0 || !existsSync(json)) {
-      failures.push({ who: 'peer', input: inp.name, code: r.code, signal: r.signal, timedOut: r.timedOut, tail: r.stderrTail.slice(-300), wallMs: r.wallMs });
+    if (r.code !== 0 || !existsSync(json) || JSON.parse(readFileSync(json, 'utf8')).partial) {
+      const part = existsSync(json) ? JSON.parse(readFileSync(json, 'utf8')) : null;
+      failures.push({ who: 'peer', input: inp.name, code: r.code, signal: r.signal, timedOut: r.timedOut, tail: r.stderrTail.trim().split('\n').slice(-2).join(' / '), wallMs: r.wallMs, partial: part?.partial ? part : null });
       log(`bench: peer on ${inp.name} FAILED (exit ${r.code})`);
       continue;
     }
@@ -332,6 +333,12 @@ function endToEnd(res) {
     cpu += s.cpuMs ?? 0;
   }
   return { ms, cpuMs: cpu };
+}
+
+function kmText(km) {
+  const how = km.miniBatch ? `mini-batch (${km.batches} steps in the kept restart${km.iterations ? `, then ${km.iterations} full passes` : ''})` : `${km.iterations} full passes in the kept restart`;
+  const skip = km.skipped != null && km.scored != null && km.scored + km.skipped > 0 ? `; the bounds settled ${f1((100 * km.skipped) / (km.scored + km.skipped))}% of row scorings without scoring all k` : '';
+  return `${km.restarts} restarts, ${how} (${km.converged ? 'converged' : 'hit the cap'})${skip}`;
 }
 
 /** Least-squares slope of log(y) on log(x). */
@@ -427,7 +434,7 @@ for (const inp of inputs) {
   say(table(['stage', 'wall', 'CPU', 'docs/s', 'peak RSS MB', 'start RSS MB'], rows));
   say();
   const km = r.kmeans;
-  say(`k-means: ${km ? `${km.restarts} restarts, kept restart ${km.iterations} passes (${km.converged ? 'converged' : 'hit the cap'})` : '–'}; NMI vs planted ${inp.synthetic ? 'topics' : 'classes'} **${f3(r.nmi)}** (ARI ${f3(r.ari)}, purity ${f3(r.purity)}); near-duplicates: ${f0(r.duplicates.pairs)} pairs in ${f0(r.duplicates.sets)} sets${r.planted ? `; planted near-copy pairs found in one set: ${f0(r.planted.foundInSameSet)} of ${f0(r.planted.pairs)} (${f1(100 * r.planted.recall)}%)` : ''}; ${r.emptyRows} documents without terms.`);
+  say(`k-means: ${km ? kmText(km) : '–'}; NMI vs planted ${inp.synthetic ? 'topics' : 'classes'} **${f3(r.nmi)}** (ARI ${f3(r.ari)}, purity ${f3(r.purity)}); near-duplicates: ${f0(r.duplicates.pairs)} pairs in ${f0(r.duplicates.sets)} sets${r.planted ? `; planted near-copy pairs found in one set: ${f0(r.planted.foundInSameSet)} of ${f0(r.planted.pairs)} (${f1(100 * r.planted.recall)}%)` : ''}; ${r.emptyRows} documents without terms.`);
   say();
 }
 
@@ -436,7 +443,8 @@ if (synthNames.length >= 1) {
   say();
   const stageNames = [];
   for (const nm of synthNames) for (const s of ourRows(ours.get(nm))) if (!stageNames.includes(s.stage)) stageNames.push(s.stage);
-  const head = ['stage', ...synthNames.map((nm) => `${nm.replace('synth-', '')} wall`), ...synthNames.map((nm) => `${nm.replace('synth-', '')} docs/s`), ...synthNames.map((nm) => `${nm.replace('synth-', '')} peak MB`), 'time exponent', 'CPU exponent'];
+  const head = ['stage', ...synthNames.map((nm) => `${nm.replace('synth-', '')} wall`), ...synthNames.map((nm) => `${nm.replace('synth-', '')} docs/s`), ...synthNames.map((nm) => `${nm.replace('synth-', '')} peak MB`), 'time exponent', 'CPU exponent', ...(synthNames.length >= 3 ? synthNames.slice(1).map((nm, i) => `b ${synthNames[i].replace('synth-', '')}→${nm.replace('synth-', '')}`) : [])];
+  const local = (vals) => (synthNames.length >= 3 ? vals.slice(1).map((v, i) => f2(slope([synthN[i], synthN[i + 1]], [vals[i], v]))) : []);
   const rows = [];
   const exps = {};
   for (const st of stageNames) {
@@ -445,16 +453,23 @@ if (synthNames.length >= 1) {
     const b = slope(synthN, ms);
     exps[st] = b;
     const bc = slope(synthN, per.map((s) => s?.cpuMs));
-    rows.push([st, ...ms.map(sec), ...per.map((s, i) => (s ? rate(synthN[i], s.ms) : '–')), ...per.map((s) => mb(s?.peakRss)), f2(b), f2(bc)]);
+    rows.push([st, ...ms.map(sec), ...per.map((s, i) => (s ? rate(synthN[i], s.ms) : '–')), ...per.map((s) => mb(s?.peakRss)), f2(b), f2(bc), ...local(ms)]);
   }
   const e2e = synthNames.map((nm) => endToEnd(ours.get(nm)).ms);
   const be = slope(synthN, e2e);
   const bec = slope(synthN, synthNames.map((nm) => endToEnd(ours.get(nm)).cpuMs));
-  rows.push(['**end to end**', ...e2e.map(sec), ...e2e.map((ms, i) => rate(synthN[i], ms)), ...synthNames.map((nm) => mb(ours.get(nm).peakRss)), f2(be), f2(bec)]);
+  rows.push(['**end to end**', ...e2e.map(sec), ...e2e.map((ms, i) => rate(synthN[i], ms)), ...synthNames.map((nm) => mb(ours.get(nm).peakRss)), f2(be), f2(bec), ...local(e2e)]);
   say(table(head, rows));
   say();
+  const mbSizes = synthNames.filter((nm) => ours.get(nm).kmeans?.miniBatch);
+  if (mbSizes.length) {
+    const full = synthNames.filter((nm) => !ours.get(nm).kmeans?.miniBatch);
+    const msFull = full.map((nm) => ours.get(nm).stages.find((x) => x.stage === 'k-means')?.ms);
+    say(`Note: k-means ran mini-batch by default on ${mbSizes.join(', ')} (the library switches from full passes to mini-batch steps at a row count), so its exponent above mixes two methods${full.length >= 2 ? `; over the full-pass sizes (${full.join(', ')}) alone it is ${f2(slope(full.map((nm) => ours.get(nm).docs), msFull))}` : ''}.`);
+    say();
+  }
   if (synthNames.length >= 2) {
-    say(`Time exponent b: least-squares slope of log(time) on log(n) over ${synthNames.join(', ')} (time ∝ n^b; 1 = linear, 2 = quadratic). ${synthNames.length === 2 ? 'With two sizes this is the slope between them.' : ''} Stages well under a second carry timer and JIT noise in their exponent.`);
+    say(`Time exponent b: least-squares slope of log(time) on log(n) over ${synthNames.join(', ')} (time ∝ n^b; 1 = linear, 2 = quadratic). ${synthNames.length === 2 ? 'With two sizes this is the slope between them.' : 'The last columns are the slopes between neighbouring sizes, which show a stage whose growth changes.'} Stages well under a second carry timer and JIT noise in their exponent.`);
   } else say('One size only: no exponent.');
   say();
 
@@ -482,6 +497,25 @@ if (synthNames.length >= 1) {
   say(`- Peak RSS per input: ${synthNames.map((nm, i) => `${nm} ${mb(peaksN[i])} MB (set by ${worst(nm)?.stage})`).join('; ')}.`);
   say(`- **Budget: ${per1m == null ? '–' : (per1m / 2 ** 30).toFixed(2) + ' GiB'} peak RSS per million ticket-sized documents** (~59 words each, k = ${K}, minDf ${MIN_DF}) — ${how}.`);
   if (!have1m) say('- Run `npm run bench -- --full` to measure it at 1M instead.');
+  const big = ours.get(synthNames[synthNames.length - 1]);
+  const csvChars = big.documentsCsvChars || big.writtenBytes;
+  const maxStr = big.maxStringLength ?? 536870888;
+  say(`- documents.csv is built as one string: ${f0(csvChars)} characters at ${sizeName(big.docs)} documents, ${f1((100 * csvChars) / maxStr)}% of the longest string V8 allows (${f0(maxStr)}); at this text length it would fail near ${sizeName(Math.round((big.docs * maxStr) / csvChars / 1e4) * 1e4)} documents.`);
+  say();
+
+  say('## Where the time goes');
+  say();
+  const last = synthNames[synthNames.length - 1];
+  const prev = synthNames.length >= 2 ? synthNames[synthNames.length - 2] : null;
+  const e2eLast = endToEnd(big).ms;
+  const shares = ourRows(big).filter((s) => !HARNESS_ONLY.has(s.stage)).sort((a, b) => b.ms - a.ms);
+  say(`At ${last} (end to end ${sec(e2eLast)}):`);
+  say();
+  for (const s of shares.slice(0, 5)) {
+    const p = prev ? ourRows(ours.get(prev)).find((x) => x.stage === s.stage) : null;
+    const b = p ? slope([ours.get(prev).docs, big.docs], [p.ms, s.ms]) : null;
+    say(`- ${s.stage}: ${sec(s.ms)} (${f0((100 * s.ms) / e2eLast)}%)${b != null ? `, growing as n^${f2(b)} from ${prev}` : ''}${b != null && b > 1.3 ? ' — **super-linear**' : ''}`);
+  }
   say();
 
   // Assignment kernel vs C.
@@ -566,7 +600,7 @@ if (failures.length) {
       say();
       say(table(['finished stage', 'wall', 'CPU', 'peak RSS MB'], [
         ...p.stages.map((s) => [s.stage, sec(s.ms), sec(s.cpuMs), mb(s.peakRss)]),
-        ...p.windows.map((w, i) => [`groupDocuments window ${i}${i === 0 ? ' (analyze+vectorize)' : ''}`, sec(w.ms), sec(w.cpuMs), mb(w.peakRss)]),
+        ...(p.windows ?? []).map((w, i) => [`groupDocuments window ${i}${i === 0 ? ' (analyze+vectorize)' : ''}`, sec(w.ms), sec(w.cpuMs), mb(w.peakRss)]),
       ]));
     }
   }
