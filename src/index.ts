@@ -55,7 +55,13 @@ export {
   type StageTiming,
 } from './pipeline.js';
 export { ingest, resolveIngestOptions, DEFAULT_INGEST_OPTIONS, type IngestOptions, type IngestResult, type IngestIo, type InputDigest } from './ingest/index.js';
-export { documentsCsv, groupsJson } from './report/outputs.js';
+export { cleanDocuments, resolveCleanOptions, DEFAULT_CLEAN_OPTIONS, PLACEHOLDERS, type CleanOptions, type CleanReport, type CleanMode } from './clean/index.js';
+export { findDuplicates, nearCopiesOfVectors, resolveFindDuplicatesOptions, type FindDuplicatesOptions, type DuplicateRun, type CompareBy } from './near-copies.js';
+export { documentsCsv, groupsJson, treeNewick, evaluateLabels, type Evaluation } from './report/outputs.js';
+export { duplicatesCsv, duplicatesJson } from './report/duplicates.js';
+export { renderReport } from './report/html.js';
+export { reportFromRun } from './report/report-from-run.js';
+export type { ReportData } from './report/report-data.js';
 export { csvText, guardCell } from './report/csv.js';
 export { writeOutputFolder } from './report/folder.js';
 export { runCli } from './cli/program.js';

@@ -27,6 +27,7 @@ import {
 import { groupCohesion, groupSeparation, sampledSilhouette, silhouetteForCuts, type SilhouetteResult } from './cluster/quality.js';
 import { canonicalGroups, partitionFromAssignments, type Partition } from './cluster/partition.js';
 import { stripUndefined } from './util/options.js';
+import { PLACEHOLDERS } from './clean/index.js';
 import {
   labelGroups,
   resolveLabelOptions,
@@ -436,7 +437,10 @@ function readableLabels(
   analyzer: ReturnType<typeof createAnalyzer>,
   options: LabelOptions,
 ): GroupLabel[] {
-  if (!analyzer.settings.stem) return labels;
+  // Placeholder words stand for links, addresses and numbers: they may link documents, but they name nothing.
+  const hidden = new Set<string>(Object.values(PLACEHOLDERS));
+  labels = labels.map((g) => ({ ...g, terms: g.terms.filter((t) => !hidden.has(t.term)) }));
+  if (!analyzer.settings.stem) return withDisplayForms(labels, new Map(), options);
   const wanted = new Set<string>();
   for (const g of labels) for (const t of g.terms) wanted.add(t.term);
   const stride = Math.max(1, Math.ceil(docs.length / SURFACE_SAMPLE));

@@ -26,14 +26,14 @@ describe('sheaf group on the demo tickets', () => {
   });
 
   it('exits 0 and prints a table of 8 groups and the files written', () => {
-    expect(run.stderr).toBe('');
+    expect(run.stderr).toMatch(/^sheaf: note: cleaning removed \d+% of the text \(quoted replies, signatures, greetings, \d+ boilerplate line\(s\)\) from \d+ document\(s\); --clean none keeps it\n$/);
     expect(run.code).toBe(0);
     const lines = run.stdout.split('\n');
     expect(lines[0]).toMatch(/^group\s+size\s+name\s+cohesion\s+for example$/);
     const rows = lines.slice(2).filter((l) => /^\s+\d+\s+\d+\s/.test(l));
     expect(rows).toHaveLength(8);
     expect(run.stdout).toContain(
-      `Wrote:\n  ${path.join(out, 'documents.csv')}\n  ${path.join(out, 'groups.json')}\n  ${path.join(out, 'tree.nwk')}\n  ${path.join(out, 'run.json')}\n`,
+      `Wrote:\n${['documents.csv', 'groups.json', 'duplicates.csv', 'duplicates.json', 'model.json', 'report.html', 'tree.nwk', 'run.json'].map((f) => `  ${path.join(out, f)}\n`).join('')}`,
     );
     // The tree outline reaches every group when there are few.
     const outline = run.stdout.slice(run.stdout.indexOf('Tree of themes'));
@@ -87,7 +87,11 @@ describe('sheaf group on the demo tickets', () => {
     expect(r.inputs[0].bytes).toBe(readFileSync(demoCsv).length);
     expect(r.settings.grouping.groups).toBe(8);
     expect(r.counts.documents).toBe(457);
-    expect(r.timings.map((t: { stage: string }) => t.stage)).toEqual(['read', 'analyze+vectorize', 'k-means', 'tree', 'quality', 'label', 'write']);
+    expect(r.timings.map((t: { stage: string }) => t.stage)).toEqual(['read', 'analyze+vectorize', 'k-means', 'tree', 'quality', 'label', 'near-duplicates', 'write']);
+    // Export rows are cleaned by default; what cleaning did is recorded.
+    expect(r.cleaning.mode).toBe('tickets');
+    expect(r.cleaning.documents).toBe(457);
+    expect(r.cleaning.charsAfter).toBeLessThan(r.cleaning.charsBefore);
     expect(r.quality.silhouette).toBeGreaterThan(0);
     expect(r.choice).toBeNull();
     expect(r.versions.dependencies.commander).toBe('14.0.3');
@@ -356,5 +360,57 @@ describe('the tree, the number of groups, and known labels', () => {
     expect(t.tree.leaves).toBeGreaterThanOrEqual(3);
     expect(t.tree.leaves).toBeLessThanOrEqual(6);
     expect(run.stdout).toContain('Tree of themes');
+  });
+});
+
+describe('real-world inputs through the CLI', () => {
+  it('cleans ticket clutter from export rows unless --clean none', async () => {
+    const dir = tempDir();
+    const body = (s: string) => `"${s}\n\nOn Mon, 3 Jun 2029 at 10:02, Support <help@example.com> wrote:\n> Thanks for your message about the pump.\n> Kind regards\n\n--\nRiver Desk"`;
+    writeFileSync(
+      path.join(dir, 't.csv'),
+      'id,body\n' +
+        ['pump water leak in the galley', 'water pump broken again', 'refund for the cancelled booking', 'booking refund still missing'].map((t, i) => `${i + 1},${body(t)}`).join('\n') +
+        '\n',
+    );
+    const cleaned = await sheaf(['group', 't.csv', '--groups', '2', '--out', 'c', '--no-stem', '--json', '--quiet'], { cwd: dir });
+    const raw = await sheaf(['group', 't.csv', '--groups', '2', '--out', 'r', '--no-stem', '--clean', 'none', '--json', '--quiet'], { cwd: dir });
+    expect(cleaned.code).toBe(0);
+    expect(raw.code).toBe(0);
+    const terms = (out: string) => JSON.parse(out).groups.flatMap((g: { terms: { term: string }[] }) => g.terms.map((t) => t.term));
+    // The quoted reply and the signature are gone from what was grouped, not from the user's rows.
+    expect(terms(cleaned.stdout)).not.toContain('desk');
+    expect(terms(raw.stdout)).toContain('desk');
+    const run = JSON.parse(readFileSync(path.join(dir, 'c', 'run.json'), 'utf8'));
+    expect(run.cleaning.linesRemoved.quoted + run.cleaning.linesRemoved.history).toBeGreaterThan(0);
+    expect(readCsv(path.join(dir, 'c', 'documents.csv'))[0].body).toContain('wrote:');
+  });
+
+  it('rejects an unknown --clean mode and an unknown --encoding before reading', async () => {
+    const a = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--clean', 'all', '--out', path.join(tempDir(), 'o')]);
+    expect(a.stderr).toBe('sheaf: --clean must be one of tickets, none; got "all"\n');
+    expect(a.code).toBe(2);
+    const b = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--encoding', 'klingon', '--out', path.join(tempDir(), 'o')]);
+    expect(b.stderr).toBe('sheaf: --encoding must be a character encoding iconv-lite knows (such as utf-8, windows-1252, iso-8859-2, utf-16le) or null to detect it; got "klingon"\n');
+    expect(b.code).toBe(2);
+  });
+
+  it('decodes a Windows-1252 file and says so', async () => {
+    const dir = tempDir();
+    const folder = path.join(dir, 'in');
+    mkdirSync(folder);
+    // "Café crème – déjà vu" in Windows-1252: é = 0xE9, è = 0xE8, à = 0xE0, en dash = 0x96.
+    writeFileSync(path.join(folder, 'a.txt'), Buffer.from([0x43, 0x61, 0x66, 0xe9, 0x20, 0x63, 0x72, 0xe8, 0x6d, 0x65, 0x20, 0x96, 0x20, 0x64, 0xe9, 0x6a, 0xe0, 0x20, 0x76, 0x75]));
+    writeFileSync(path.join(folder, 'b.txt'), 'Café crème again, déjà vu');
+    writeFileSync(path.join(folder, 'c.txt'), 'pump water leak');
+    writeFileSync(path.join(folder, 'd.txt'), 'water pump leak');
+    const run = await sheaf(['group', 'in', '--groups', '2', '--no-stem', '--out', 'o'], { cwd: dir });
+    expect(run.code).toBe(0);
+    expect(run.stderr).toContain('sheaf: note: 1 file(s) not in plain UTF-8 were decoded; see decoding in run.json');
+    const r = JSON.parse(readFileSync(path.join(dir, 'o', 'run.json'), 'utf8'));
+    expect(r.decoding).toHaveLength(1);
+    expect(r.decoding[0].source).toBe('in/a.txt');
+    const g = JSON.parse(readFileSync(path.join(dir, 'o', 'groups.json'), 'utf8'));
+    expect(g.groups.flatMap((x: { terms: { term: string }[] }) => x.terms.map((t) => t.term))).toContain('crème');
   });
 });

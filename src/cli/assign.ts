@@ -11,8 +11,7 @@ import type { CliIo } from './io.js';
 import { decimal } from './parse.js';
 import { versions } from './versions.js';
 import { renderTable } from './table.js';
-import { addInputFlags, ingestOptionsFromFlags, reportSkips, type GroupFlags } from './group.js';
-import { ingest } from '../ingest/index.js';
+import { addInputFlags, ingestOptionsFromFlags, readInputs, readingRecord, type GroupFlags } from './group.js';
 import { modelFromJson, type Model } from '../model/index.js';
 import { applyModel, type ModelApplication } from '../model/apply.js';
 import { csvText, fixed } from '../report/csv.js';
@@ -87,9 +86,9 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(line + '\n');
   };
-  const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
-  reportSkips(read.skipped, read.warnings, note);
-  const a = applyModel(model, read.docs, minFit);
+  const { read, docs, clean, notes } = await readInputs(inputs, flags, io, note);
+  const a = applyModel(model, docs, minFit);
+  for (const line of notes) note(line);
   const unmatched = a.unmatched.reduce((x, v) => x + v, 0);
   const counts = {
     documents: a.docs.length,
@@ -115,6 +114,7 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
           counts,
           skipped: read.skipped,
           warnings: read.warnings,
+          ...readingRecord(read, clean),
         }),
       ],
     ]),

@@ -9,9 +9,8 @@ import type { Command } from 'commander';
 import type { CliIo } from './io.js';
 import { decimal, wholeNumber } from './parse.js';
 import { versions } from './versions.js';
-import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, reportSkips, type GroupFlags } from './group.js';
+import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, readInputs, readingRecord, type GroupFlags } from './group.js';
 import { renderTable, clip } from './table.js';
-import { ingest } from '../ingest/index.js';
 import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
 import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
 import { jsonText, round } from '../report/outputs.js';
@@ -76,10 +75,10 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     if (!flags.quiet) io.stderr.write(line + '\n');
   };
   const t0 = now();
-  const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
+  const { read, docs, clean, notes } = await readInputs(inputs, flags, io, note);
   const readMs = now() - t0;
-  reportSkips(read.skipped, read.warnings, note);
-  const run = findDuplicates(read.docs, options, { now });
+  const run = findDuplicates(docs, options, { now });
+  for (const line of notes) note(line);
   const o = run.options;
   const src = { docs: run.docs, by: o.by, threshold: o.threshold, sets: run.sets, pairs: run.pairs, setOf: run.setOf };
   const dupJson = duplicatesJson(src);
@@ -108,6 +107,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
         chained: run.sets.filter((s) => s.chained).map((s) => ({ set: s.id, weakest: round(s.weakest, 6) })),
         skipped: read.skipped,
         warnings: read.warnings,
+        ...readingRecord(read, clean),
         timings: [{ stage: 'read', ms: readMs, items: read.docs.length }, ...run.timings].map((t) => ({
           stage: t.stage,
           ms: round(t.ms, 1),

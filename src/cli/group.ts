@@ -34,6 +34,7 @@ import { modelToJson } from '../model/index.js';
 import { renderReport } from '../report/html.js';
 import { reportFromRun } from '../report/report-from-run.js';
 import { UsageError } from '../util/errors.js';
+import { CLEAN_MODES, cleanDocuments, resolveCleanOptions, type CleanMode, type CleanReport } from '../clean/index.js';
 import type { Doc } from '../types.js';
 
 /** Raw flag values as commander hands them over. */
@@ -45,6 +46,10 @@ export interface GroupFlags {
   delimiter?: string;
   include?: string[];
   exclude?: string[];
+  clean?: string;
+  encoding?: string;
+  maxBytes?: string;
+  maxFiles?: string;
   lang?: string;
   stopwords?: string;
   stem: boolean;
@@ -81,7 +86,56 @@ export function addInputFlags(cmd: Command): Command {
     .option('--format <kind>', 'read inputs as auto, csv, tsv, jsonl, json or text', 'auto')
     .option('--delimiter <char>', 'field separator for delimited exports')
     .option('--include <glob>', 'only files in folders matching this pattern (repeatable)', collect)
-    .option('--exclude <glob>', 'skip files in folders matching this pattern (repeatable)', collect);
+    .option('--exclude <glob>', 'skip files in folders matching this pattern (repeatable)', collect)
+    .option('--clean <mode>', 'tickets (drop quoted replies, signatures, greetings, repeated boilerplate; fold links, addresses, numbers) or none; default: tickets for export rows, none for document files')
+    .option('--encoding <name>', 'read every file in this character encoding (default: detect)')
+    .option('--max-bytes <n>', 'longest document text kept, in bytes (longer ones are cut, and listed in run.json)')
+    .option('--max-files <n>', 'read at most this many files from folders');
+}
+
+/** Documents as read and then cleaned, with what both steps report. */
+export interface ReadInputs {
+  /** Summary notes (decoding, truncation, cleaning) for the caller to show once the run has succeeded. */
+  readonly notes: readonly string[];
+  readonly read: IngestResult;
+  readonly docs: Doc[];
+  readonly clean: CleanReport;
+  readonly ingestOptions: IngestOptions;
+}
+
+/** The cleaning mode from `--clean` (validated), or null for the default. */
+function cleanModeFromFlags(flags: GroupFlags): CleanMode | null {
+  if (flags.clean === undefined) return null;
+  if (!(CLEAN_MODES as readonly string[]).includes(flags.clean)) {
+    throw new UsageError(`clean must be one of ${CLEAN_MODES.join(', ')}; got ${JSON.stringify(flags.clean)}`, 'clean');
+  }
+  return resolveCleanOptions({ mode: flags.clean as CleanMode }).mode;
+}
+
+/**
+ * Reads the inputs and cleans them: with no `--clean`, export rows get ticket
+ * cleaning and document files none. Skips and warnings go to `note`.
+ */
+export async function readInputs(inputs: string[], flags: GroupFlags, io: CliIo, note: (line: string) => void): Promise<ReadInputs> {
+  const ingestOptions = ingestOptionsFromFlags(flags);
+  const mode = cleanModeFromFlags(flags);
+  const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
+  reportSkips(read.skipped, read.warnings, note);
+  const notes: string[] = [];
+  if (read.decoding.length > 0) {
+    const replaced = read.decoding.filter((d) => d.replaced > 0).length;
+    notes.push(`sheaf: note: ${read.decoding.length} file(s) not in plain UTF-8 were decoded${replaced ? ` (${replaced} with damaged characters replaced)` : ''}; see decoding in run.json`);
+  }
+  if (read.truncated.length > 0) notes.push(`sheaf: note: ${read.truncated.length} document(s) longer than --max-bytes were cut; see truncated in run.json`);
+  const cleaned = mode === null ? cleanDocuments(read.docs, { mode: 'tickets' }, read.exportRows) : cleanDocuments(read.docs, { mode });
+  const r = cleaned.report;
+  if (r.changed > 0 && r.charsBefore > 0) {
+    notes.push(
+      `sheaf: note: cleaning removed ${Math.round((100 * (r.charsBefore - r.charsAfter)) / r.charsBefore)}% of the text ` +
+        `(quoted replies, signatures, greetings, ${r.boilerplate.found} boilerplate line(s)) from ${r.changed} document(s); --clean none keeps it`,
+    );
+  }
+  return { notes, read, docs: cleaned.docs, clean: r, ingestOptions };
 }
 
 /** Adds the flags that set up the analyzer and the vocabulary. */
@@ -178,7 +232,11 @@ function parseRange(value: string | undefined): [number, number] | undefined {
 
 /** The ingest options from the input flags (validated). */
 export function ingestOptionsFromFlags(flags: GroupFlags): IngestOptions {
+  cleanModeFromFlags(flags);
   return resolveIngestOptions({
+    encoding: flags.encoding ?? null,
+    ...(flags.maxBytes !== undefined ? { maxBytes: wholeNumber(flags.maxBytes, 'maxBytes') } : {}),
+    ...(flags.maxFiles !== undefined ? { maxFiles: wholeNumber(flags.maxFiles, 'maxFiles') } : {}),
     text: list(flags.text) ?? null,
     id: flags.id ?? null,
     title: flags.title ?? null,
@@ -278,15 +336,14 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     if (!flags.quiet) io.stderr.write(line + '\n');
   };
   const t0 = now();
-  const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
+  const { read, docs, clean, notes } = await readInputs(inputs, flags, io, note);
   const readMs = now() - t0;
-  reportSkips(read.skipped, read.warnings, note);
-  if (flags.truth) assertTruthColumn(read.docs, flags.truth);
+  if (flags.truth) assertTruthColumn(docs, flags.truth);
 
   const progress = progressReporter(io, flags.quiet ?? false);
   let result: GroupResult;
   try {
-    result = groupDocuments(read.docs, group, { now, progress: (s, d, t) => progress.update(s, d, t) });
+    result = groupDocuments(docs, group, { now, progress: (s, d, t) => progress.update(s, d, t) });
   } finally {
     progress.done();
   }
@@ -297,6 +354,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
         Array.from(result.partition.assignments, (g) => (g >= 0 ? String(g) : '')),
       )
     : null;
+  for (const line of notes) note(line);
   if (result.emptyRows.length > 0) {
     note(
       `sheaf: note: ${result.emptyRows.length} document(s) have no terms after analysis; they are in no group ` +
@@ -358,7 +416,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     ...(near ? [{ stage: 'near-duplicates', ms: dupMs, items: read.docs.length }] : []),
     { stage: 'write', ms: now() - tw, items: read.docs.length },
   ];
-  files.set('run.json', jsonText(runJson({ command, cwd: io.cwd, flags, ingestOptions, result, read, evaluation, timings, startedAt, finishedAt: new Date() })));
+  files.set('run.json', jsonText(runJson({ command, cwd: io.cwd, flags, ingestOptions, result, read, clean, evaluation, timings, startedAt, finishedAt: new Date() })));
   const written = await writeOutputFolder(outDir, files);
   const shownWritten = written.map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
@@ -396,6 +454,26 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   return 0;
 }
 
+/** The documents that are files of their own (not export rows), in the given order. */
+function fileDocuments(docs: readonly Doc[], read: IngestResult): Doc[] {
+  const files = new Set<string>();
+  read.docs.forEach((d, i) => {
+    if (!read.exportRows[i]) files.add(d.id);
+  });
+  return docs.filter((d) => files.has(d.id));
+}
+
+/** What reading and cleaning did, for run.json. */
+export function readingRecord(read: IngestResult, clean: CleanReport): Record<string, unknown> {
+  return {
+    decoding: read.decoding,
+    truncated: read.truncated,
+    attachmentsNotRead: read.attachments,
+    filesNotRead: read.filesNotRead,
+    cleaning: clean,
+  };
+}
+
 /** Warnings and skips on stderr: the first few, then a count. */
 export function reportSkips(skipped: readonly { source: string; reason: string }[], warnings: readonly string[], note: (l: string) => void): void {
   const cap = 10;
@@ -408,6 +486,7 @@ export function reportSkips(skipped: readonly { source: string; reason: string }
 interface RunJsonInput {
   command: string;
   cwd: string;
+  clean: CleanReport;
   flags: GroupFlags;
   ingestOptions: IngestOptions;
   result: GroupResult;
@@ -475,9 +554,10 @@ function runJson(x: RunJsonInput): unknown {
     evaluation: x.evaluation ? evaluationJson(x.evaluation) : null,
     cwd: x.cwd,
     // Documents read from files of their own (not export rows), so `sheaf organize` can sort the files.
-    files: result.docs.filter((d) => d.fields.size === 0).map((d) => ({ id: d.id, path: path.resolve(x.cwd, d.source) })),
+    files: fileDocuments(result.docs, read).map((d) => ({ id: d.id, path: path.resolve(x.cwd, d.source) })),
     skipped: read.skipped,
     warnings: read.warnings,
+    ...readingRecord(read, x.clean),
     withoutTerms: Array.from(result.emptyRows, (r) => result.docs[r].id),
     timings: x.timings.map((t) => ({
       stage: t.stage,
