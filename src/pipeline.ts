@@ -324,9 +324,9 @@ function cutRange(resolved: ResolvedGroupOptions, leaves: number): number[] {
 }
 
 function formByKMeans(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOptions, hooks: PipelineHooks): Formed {
-  const run = (groups: number): KMeansResult => {
+  const run = (groups: number, initialAssignments?: Int32Array): KMeansResult => {
     hooks.progress?.('group', 0, 1);
-    const km = sphericalKMeans(matrix, { ...resolved.kmeans, groups });
+    const km = sphericalKMeans(matrix, { ...resolved.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) });
     hooks.progress?.('group', 1, 1);
     return km;
   };
@@ -341,8 +341,9 @@ function formByKMeans(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOpti
   const overTree = groupAverageLink(matrix, first.assignments, over);
   let chosen: number;
   let choice: GroupChoice;
+  let leafClusters: Int32Array;
   if (resolved.minSimilarity !== null) {
-    const leafClusters = cutAtSimilarity(overTree, resolved.minSimilarity);
+    leafClusters = cutAtSimilarity(overTree, resolved.minSimilarity);
     chosen = countGroups(leafClusters);
     choice = { by: 'similarity', chosen, treeLeaves: over, tried: [], sampled: 0 };
   } else {
@@ -352,6 +353,7 @@ function formByKMeans(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOpti
       seed: resolved.kmeans.seed,
     });
     chosen = bestCut(scored.cuts);
+    leafClusters = scored.cuts.find((c) => c.groups === chosen)?.leafClusters ?? cutToGroups(overTree, chosen);
     choice = {
       by: 'silhouette',
       chosen,
@@ -363,7 +365,9 @@ function formByKMeans(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOpti
   if (chosen < 2) {
     throw new UsageError(`minSimilarity ${resolved.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
   }
-  const km = run(chosen);
+  // Refine the chosen cut: k-means started from the partition the cut gives (each row in its over-group's cluster).
+  const initial = first.assignments.map((g) => (g < 0 ? -1 : leafClusters[g]));
+  const km = run(chosen, initial);
   return { partition: kmeansPartition(km), kmeans: km, documentTree: null, treeRows: null, choice };
 }
 
