@@ -5,7 +5,17 @@ import { UsageError } from '../src/util/errors.js';
 import { createRng } from '../src/util/random.js';
 import { countNonEmptyRows, planKMeans, sphericalKMeans, type KMeansResult } from '../src/cluster/kmeans.js';
 import { LOCAL_ALLOCATOR, createWorkspace, kmeansSteps } from '../src/cluster/kmeans-engine.js';
-import { LIST_ACTIVE, WORK_ASSIGN_PRUNED, WORK_FIT, runBlock } from '../src/cluster/kmeans-kernel.js';
+import {
+  LIST_ACTIVE,
+  STAT_CHANGED,
+  STAT_DOTS,
+  STAT_LENGTH,
+  WORK_ASSIGN_PRUNED,
+  WORK_FIT,
+  assignRows,
+  runBlock,
+  type KernelArrays,
+} from '../src/cluster/kmeans-kernel.js';
 
 /**
  * Sparse unit rows around planted topics: each topic owns a few "core"
@@ -171,6 +181,226 @@ describe('pruned assignment passes give exactly the plain loop', () => {
     expect(pruned.dotsByPass[last]! / (m * k)).toBeLessThan(0.2);
     expect(pruned.skippedByPass[last]! / m).toBeGreaterThan(0.8);
     expect(pruned.dotProducts / plain.dotProducts).toBeLessThan(0.6);
+  });
+});
+
+describe('the assignment kernel on arbitrary valid bounds', () => {
+  // Straight at the kernel: random rows, old and new centroids (some
+  // identical, so rows tie between groups; some unmoved), any assignment,
+  // and bounds that are valid for the old centroids with random slack.
+  // Pruned and plain passes must pick the same groups, every score the
+  // pruned pass writes must be the plain one, and the bounds it leaves must
+  // hold for the new centroids.
+  const state = fc
+    .record({
+      seed: fc.integer({ min: 0, max: 0xffffffff }),
+      n: fc.integer({ min: 1, max: 60 }),
+      d: fc.integer({ min: 1, max: 12 }),
+      k: fc.integer({ min: 2, max: 40 }),
+      palette: fc.boolean(),
+      twins: fc.double({ min: 0, max: 0.6, noNaN: true }),
+      movers: fc.integer({ min: 0, max: 4 }),
+      step: fc.double({ min: 0, max: 1, noNaN: true }),
+      slack: fc.double({ min: 0, max: 0.5, noNaN: true }),
+    })
+    .map((x) => buildState(x));
+
+  function buildState(x: {
+    seed: number;
+    n: number;
+    d: number;
+    k: number;
+    palette: boolean;
+    twins: number;
+    movers: number;
+    step: number;
+    slack: number;
+  }) {
+    const { n, d, k } = x;
+    const rng = createRng(x.seed);
+    const value = (): number => (x.palette ? [0, 0, 1, 2][rng.int(4)]! : rng.next() < 0.5 ? 0 : rng.next());
+    const matrix = planted(x.seed, n, d, 3, 0.5, x.palette ? [1, 2] : undefined);
+    const column = (): Float64Array => {
+      const c = new Float64Array(d);
+      for (let t = 0; t < d; t++) c[t] = value();
+      if (c.every((v) => v === 0)) c[rng.int(d)] = 1;
+      return c;
+    };
+    const unit = (c: Float64Array): Float32Array => {
+      const norm = Math.sqrt(c.reduce((a, v) => a + v * v, 0));
+      return Float32Array.from(c, (v) => v / norm);
+    };
+    // a few groups move (as late in a run), the rest stay; a twin copies
+    // its original, before and (usually) after the move
+    const moving = new Set(Array.from({ length: x.movers }, () => rng.int(k)));
+    const oldC: Float32Array[] = [];
+    const newC: Float32Array[] = [];
+    for (let g = 0; g < k; g++) {
+      const twin = g > 0 && rng.next() < x.twins ? rng.int(g) : -1;
+      oldC.push(twin >= 0 ? oldC[twin]!.slice() : unit(column()));
+      if (twin >= 0 && rng.next() < 0.8) newC.push(newC[twin]!.slice());
+      else if (!moving.has(g)) newC.push(oldC[g]!.slice());
+      else {
+        const c = Float64Array.from(oldC[g]!);
+        const delta = column();
+        for (let t = 0; t < d; t++) c[t] = c[t]! + x.step * delta[t]!;
+        newC.push(unit(c));
+      }
+    }
+    const termMajor = (cs: Float32Array[]): Float32Array => {
+      const out = new Float32Array(d * k);
+      for (let g = 0; g < k; g++) for (let t = 0; t < d; t++) out[t * k + g] = cs[g]![t]!;
+      return out;
+    };
+    const score = (C: Float32Array, i: number, g: number): number => {
+      let s = 0;
+      for (let j = matrix.indptr[i]!; j < matrix.indptr[i + 1]!; j++) s += matrix.values[j]! * C[matrix.indices[j]! * k + g]!;
+      return s;
+    };
+    const before = termMajor(oldC);
+    const centroids = termMajor(newC);
+    const active = Int32Array.from([...Array(n).keys()].filter((i) => matrix.indptr[i + 1]! > matrix.indptr[i]!));
+    const assign = new Int32Array(n).fill(-1);
+    const lower = new Float64Array(n);
+    const upper = new Float64Array(n);
+    const rowNorm = new Float64Array(n);
+    for (const i of active) {
+      let s2 = 0;
+      for (let j = matrix.indptr[i]!; j < matrix.indptr[i + 1]!; j++) s2 += matrix.values[j]! ** 2;
+      rowNorm[i] = Math.sqrt(s2);
+      // mostly the row's best group at the old centroids (as after a pass), sometimes any group
+      let g = rng.next() < 0.1 ? -1 : rng.int(k);
+      if (g >= 0 && rng.next() < 0.7) {
+        for (let h = 0; h < k; h++) if (score(before, i, h) > score(before, i, g)) g = h;
+      }
+      assign[i] = g;
+      if (g < 0 || rng.next() < 0.05) {
+        lower[i] = -Infinity;
+        upper[i] = Infinity;
+        continue;
+      }
+      let other = -Infinity;
+      for (let h = 0; h < k; h++) if (h !== g) other = Math.max(other, score(before, i, h));
+      lower[i] = score(before, i, g) - (rng.next() < 0.5 ? 0 : x.slack * rng.next());
+      upper[i] = other + (rng.next() < 0.5 ? 0 : x.slack * rng.next());
+    }
+    const move = new Float64Array(k);
+    for (let g = 0; g < k; g++) {
+      let s2 = 0;
+      for (let t = 0; t < d; t++) s2 += (newC[g]![t]! - oldC[g]![t]!) ** 2;
+      move[g] = Math.sqrt(s2);
+    }
+    const order = Int32Array.from([...Array(k).keys()].sort((a, b) => move[b]! - move[a]! || a - b));
+    const moved = Float64Array.from(order, (g) => move[g]!);
+    const arrays = (fit: Float64Array): KernelArrays => ({
+      k,
+      indptr: matrix.indptr,
+      indices: matrix.indices,
+      values: matrix.values,
+      rowNorm,
+      centroids,
+      assign: assign.slice(),
+      fit,
+      upper: upper.slice(),
+      lower: lower.slice(),
+      move,
+      order,
+      moved,
+      closest: new Float64Array(n),
+      dense: new Float64Array(d),
+      active,
+      batch: new Int32Array(0),
+      sample: new Int32Array(0),
+      scores: new Float64Array(k),
+    });
+    return { matrix, k, active, arrays, score: (i: number, g: number) => score(centroids, i, g) };
+  }
+
+  it('picks the plain groups, writes plain scores, leaves valid bounds', () => {
+    let partialWins = 0;
+    fc.assert(
+      fc.property(state, ({ k, active, arrays, score }) => {
+        const plain = arrays(new Float64Array(arrays(new Float64Array(0)).assign.length));
+        const pruned = arrays(new Float64Array(plain.fit.length).fill(NaN));
+        const startAssign = pruned.assign.slice();
+        const plainStats = new Float64Array(STAT_LENGTH);
+        const prunedStats = new Float64Array(STAT_LENGTH);
+        assignRows(plain, active, 0, active.length, false, plainStats, 0);
+        // one row at a time, to see what each row cost
+        const dots = new Map<number, number>();
+        for (let a = 0; a < active.length; a++) {
+          const before = prunedStats[STAT_DOTS]!;
+          assignRows(pruned, active, a, a + 1, true, prunedStats, 0);
+          dots.set(active[a]!, prunedStats[STAT_DOTS]! - before);
+        }
+        expect([...pruned.assign]).toEqual([...plain.assign]);
+        expect(prunedStats[STAT_CHANGED]).toBe(plainStats[STAT_CHANGED]);
+        for (const i of active) {
+          const g = pruned.assign[i]!;
+          // a row is left unscored only when it keeps its group
+          if (Number.isNaN(pruned.fit[i]!)) expect(g).toBe(startAssign[i]);
+          else expect(pruned.fit[i]).toBe(plain.fit[i]);
+          const own = score(i, g);
+          let other = -Infinity;
+          for (let h = 0; h < k; h++) if (h !== g) other = Math.max(other, score(i, h));
+          expect(pruned.lower[i]!).toBeLessThanOrEqual(own + 1e-12);
+          expect(pruned.upper[i]!).toBeGreaterThanOrEqual(other - 1e-12);
+          // own score plus some candidates, not all k: a partial scoring
+          const cost = dots.get(i)!;
+          const partial = startAssign[i]! >= 0 && cost >= 2 && cost <= k;
+          if (partial && g !== startAssign[i]) partialWins++;
+        }
+      }),
+      { seed: 5150, numRuns: 400 },
+    );
+    // partial scorings that moved a row occurred
+    expect(partialWins).toBeGreaterThan(0);
+  });
+
+  it('a tie met in a partial scoring goes to the lowest group, as in the plain loop', () => {
+    // Worked by hand: k = 3 in 2 terms. Old centroids c0 = (1, 0) and twins
+    // c1 = c2 = (0.6, 0.8); c1 and c2 move together to (0.8, 0.6), c0 stays.
+    // Row x = (0.8, 0.6) scores 0.8, 0.96, 0.96 before and 0.8, 1, 1 after.
+    // Whether it sat in group 1 or 2, the bounds (lower 0.96, upper 0.96)
+    // fail Hamerly's test, its own score is 1, and the only candidate is the
+    // twin (moved 0.283 >= 1 − 0.96; c0 did not move): a partial scoring
+    // that ties, and the plain loop's answer is group 1 either way.
+    const col = (c: number[][]): Float32Array => Float32Array.from([c[0]![0]!, c[1]![0]!, c[2]![0]!, c[0]![1]!, c[1]![1]!, c[2]![1]!]);
+    const before = [[1, 0], [0.6, 0.8], [0.6, 0.8]];
+    const after = col([[1, 0], [0.8, 0.6], [0.8, 0.6]]);
+    const C0 = col(before);
+    const shift = Math.hypot(Math.fround(0.8) - Math.fround(0.6), Math.fround(0.6) - Math.fround(0.8));
+    const x = Float32Array.from([0.8, 0.6]);
+    const old = (g: number): number => x[0]! * C0[g]! + x[1]! * C0[3 + g]!;
+    for (const start of [1, 2]) {
+      const s: KernelArrays = {
+        k: 3,
+        indptr: Int32Array.from([0, 2]),
+        indices: Int32Array.from([0, 1]),
+        values: x,
+        rowNorm: Float64Array.from([Math.hypot(x[0]!, x[1]!)]),
+        centroids: after,
+        assign: Int32Array.from([start]),
+        fit: Float64Array.from([NaN]),
+        lower: Float64Array.from([old(start)]),
+        upper: Float64Array.from([Math.max(old(0), old(3 - start))]),
+        move: Float64Array.from([0, shift, shift]),
+        order: Int32Array.from([1, 2, 0]),
+        moved: Float64Array.from([shift, shift, 0]),
+        closest: new Float64Array(1),
+        dense: new Float64Array(2),
+        active: Int32Array.from([0]),
+        batch: new Int32Array(0),
+        sample: new Int32Array(0),
+        scores: new Float64Array(3),
+      };
+      const stats = new Float64Array(STAT_LENGTH);
+      assignRows(s, s.active, 0, 1, true, stats, 0);
+      expect(stats[STAT_DOTS]).toBe(2); // own score and the twin's: a partial scoring
+      expect(s.assign[0]).toBe(1);
+      expect(s.fit[0]).toBe(x[0]! * after[1]! + x[1]! * after[4]!);
+      expect(s.upper[0]).toBe(s.fit[0]); // the runner-up is the other twin
+    }
   });
 });
 

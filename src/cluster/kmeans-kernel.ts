@@ -205,8 +205,11 @@ export function assignRows(
 ): void {
   const { k, indptr, indices, values, rowNorm, centroids, assign, fit, upper, lower, move, order, moved, scores } = s;
   // Beyond this many candidates one contiguous sweep over all k is cheaper
-  // than separate strided dot products (measured on sparse text-like rows).
-  const fewest = k >> 3;
+  // than separate strided dot products, and it resets the upper bound to the
+  // exact runner-up (a bound kept from partial scorings only grows). Measured
+  // on 100k text-like rows, k = 100: k/16 spent about 10% less time than k/8
+  // or k/4 (noisy, shared machine).
+  const fewest = Math.max(2, k >> 4);
   let changed = 0;
   let scored = 0;
   let skipped = 0;
