@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import type { Csr } from '../src/types.js';
@@ -661,4 +662,46 @@ describe('initialAssignments', () => {
       expect((caught as UsageError).option).toBe('initialAssignments');
     });
   }
+});
+
+describe('no allocation in the passes', () => {
+  // Source check: the functions that run once per pass (or per row) create
+  // no object with `new`, no array literal copies and no typed-array
+  // slices; every buffer comes from the workspace, allocated once per call.
+  const read = (p: string): string => readFileSync(new URL(`../src/${p}`, import.meta.url), 'utf8');
+  const body = (source: string, head: RegExp): string => {
+    const at = source.search(head);
+    expect(at, String(head)).toBeGreaterThanOrEqual(0);
+    return source.slice(at, source.indexOf('\n}\n', at));
+  };
+  const fresh = /\bnew\s|Array\.from|\.slice\(|\[\.\.\.|\.map\(|\.filter\(|Promise\.(race|all)/;
+  const cases: [string, string[]][] = [
+    ['cluster/kmeans-kernel.ts', ['scoreOne', 'scoreAll', 'assignRows', 'updateClosest', 'refreshFit', 'rowList', 'runBlock']],
+    [
+      'cluster/kmeans-engine.ts',
+      ['ask', 'tally', 'lloydRestart', 'objectiveOf', 'placeRow', 'scatterRow', 'seedCentroids', 'drawSeed', 'addRow',
+        'farthestMovable', 'updateCentroids', 'sortMoves', 'miniBatchRestart', 'countMembers', 'hasEmptyGroup',
+        'placeColumn', 'ownScore', 'miniBatchStep'],
+    ],
+  ];
+  for (const [file, names] of cases) {
+    for (const name of names) {
+      it(`${file}: ${name}`, () => {
+        const text = body(read(file), new RegExp(`function\\*? ${name}\\(`));
+        expect(text.match(fresh)?.[0] ?? null).toBeNull();
+      });
+    }
+  }
+  it('parallel/kmeans-worker.ts: the serve loop; parallel/kmeans-parallel.ts: a pass and its wait', () => {
+    const worker = read('parallel/kmeans-worker.ts');
+    const loop = worker.slice(worker.indexOf('for (;;)'), worker.indexOf('\n}\n', worker.indexOf('for (;;)')));
+    expect(loop.length).toBeGreaterThan(100);
+    expect(loop.match(fresh)?.[0] ?? null).toBeNull();
+    const runner = read('parallel/kmeans-parallel.ts');
+    for (const head of ['async pass(', 'private async waitFor(']) {
+      const method = runner.slice(runner.indexOf(head), runner.indexOf('\n  }\n', runner.indexOf(head)));
+      expect(method.length).toBeGreaterThan(100);
+      expect(method.match(fresh)?.[0] ?? null).toBeNull();
+    }
+  });
 });

@@ -242,7 +242,10 @@ export interface KMeansResult {
   readonly batches: number;
   /** Rows scored against all k centroids, over every pass (and mini-batch step) of every restart. */
   readonly scored: number;
-  /** Rows the bound settled with only their own centroid scored, over every pass of every restart. */
+  /**
+   * Rows the bounds settled without scoring any centroid but (at most) their
+   * own, over every pass of every restart.
+   */
   readonly skipped: number;
   /** Row–centroid dot products computed over every pass of every restart; a plain pass computes rows × k. */
   readonly dotProducts: number;

@@ -172,8 +172,6 @@ class Crew {
   private readonly workers: Worker[] = [];
   private failure: Error | null = null;
   private closing = false;
-  private readonly failed: Promise<never>;
-  private fail: (e: Error) => void = () => {};
   readonly control: Int32Array;
   readonly stats: Float64Array;
 
@@ -184,13 +182,6 @@ class Crew {
   ) {
     this.control = new Int32Array(new SharedArrayBuffer(controlLength(threads) * 4));
     this.stats = new Float64Array(new SharedArrayBuffer(threads * STAT_LENGTH * 8));
-    this.failed = new Promise<never>((_, reject) => {
-      this.fail = (e) => {
-        if (this.failure === null) this.failure = e;
-        reject(e);
-      };
-    });
-    this.failed.catch(() => {}); // observed through the races below
     const arrays: WorkerInit['arrays'] = {
       indptr: ws.indptr,
       indices: ws.indices,
@@ -224,7 +215,14 @@ class Crew {
     }
   }
 
-  /** Resolves when counter `slot` of the control block reaches `target`. */
+  /** Records the first failure and wakes the runner if it is waiting. */
+  private fail(e: Error): void {
+    if (this.failure === null) this.failure = e;
+    Atomics.notify(this.control, CTRL_DONE);
+    Atomics.notify(this.control, CTRL_READY);
+  }
+
+  /** Resolves when counter `slot` of the control block reaches `target`; rejects once a worker has failed. */
   private async waitFor(slot: number, target: number): Promise<void> {
     const { control } = this;
     for (;;) {
@@ -232,7 +230,7 @@ class Crew {
       const seen = Atomics.load(control, slot);
       if (seen >= target) return;
       const w = waitAsync(control, slot, seen);
-      if (w.async) await Promise.race([w.value, this.failed]);
+      if (w.async) await w.value;
     }
   }
 
