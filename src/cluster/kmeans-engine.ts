@@ -6,8 +6,8 @@
  *
  * The algorithm is written once, as a generator ({@link kmeansSteps}). Each
  * time it needs a pass over many rows (an assignment pass, a mini-batch
- * assignment, a seeding update) it describes the pass in
- * `workspace.request` and yields; the runner does the pass, sum its
+ * assignment, a seeding update, a fit refresh) it describes the pass in
+ * `workspace.request` and yields; the runner does the pass, sums its
  * statistics into `workspace.passStats` and resumes it. The single-thread
  * runner does the pass inline with {@link runBlock}; the parallel runner
  * splits it into contiguous blocks, one per thread, which call the same

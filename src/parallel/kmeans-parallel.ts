@@ -263,7 +263,7 @@ class Crew {
     }
   }
 
-  /** Tells the workers to return and waits for them; terminates any that do not. */
+  /** Tells the workers to return, then stops them (a worker stuck in a block is stopped too). */
   async close(): Promise<void> {
     const { control } = this;
     this.closing = true;
