@@ -117,6 +117,7 @@ export const DEFAULT_KMEANS_OPTIONS: Readonly<Omit<KMeansOptions, 'groups' | 'in
   batchTolerance: 0.001,
 });
 
+/** Non-empty rows at or above which `miniBatch: 'auto'` switches mini-batch on (200 000). */
 export { MINI_BATCH_AUTO_ROWS };
 
 const MAX_SEED = 4294967295;
