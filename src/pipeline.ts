@@ -218,6 +218,43 @@ export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions
  * example more groups than non-empty documents).
  */
 export function groupDocuments(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks = {}): GroupResult {
+  const steps = groupSteps(input, options, hooks);
+  let next = steps.next();
+  while (!next.done) next = steps.next(sphericalKMeans(next.value.matrix, next.value.options));
+  return next.value;
+}
+
+/** A k-means run the pipeline needs; the driver decides on how many threads it runs. */
+export interface KMeansRequest {
+  readonly matrix: Csr;
+  readonly options: Partial<KMeansOptions> & { readonly groups: number };
+}
+
+/** Runs a k-means request, on the calling thread or on several (same result either way). */
+export type KMeansRunner = (request: KMeansRequest) => Promise<KMeansResult>;
+
+/**
+ * {@link groupDocuments} with the k-means runs handed to `runKMeans` (for
+ * example the two-thread runner of `src/parallel`), which returns the very
+ * same results as the single-thread loop, so the output is identical.
+ */
+export async function groupDocumentsAsync(
+  input: readonly Doc[],
+  options: GroupOptions,
+  runKMeans: KMeansRunner,
+  hooks: PipelineHooks = {},
+): Promise<GroupResult> {
+  const steps = groupSteps(input, options, hooks);
+  let next = steps.next();
+  while (!next.done) next = steps.next(await runKMeans(next.value));
+  return next.value;
+}
+
+/**
+ * The pipeline as steps: it yields each k-means run it needs and receives
+ * the result, so one body serves the sync and the async drivers.
+ */
+function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks): Generator<KMeansRequest, GroupResult, KMeansResult> {
   const resolved = resolveGroupOptions(options);
   const { docs, inputOrder } = canonicalOrder(input);
   const now = hooks.now ?? (() => 0);
@@ -247,9 +284,10 @@ export function groupDocuments(input: readonly Doc[], options: GroupOptions, hoo
   if (typeof resolved.groups === 'number') resolveKMeansOptions({ ...resolved.kmeans, groups: resolved.groups }, nonEmpty);
   else resolveKMeansOptions({ ...resolved.kmeans, groups: 2 }, nonEmpty);
 
-  const formed = time(resolved.method === 'kmeans' ? 'k-means' : 'agglomerative', nonEmpty, () =>
-    resolved.method === 'kmeans' ? formByKMeans(matrix, nonEmpty, resolved, hooks) : formByDocumentTree(matrix, nonEmpty, resolved),
-  );
+  const tForm = now();
+  const formed =
+    resolved.method === 'kmeans' ? yield* formByKMeans(matrix, nonEmpty, resolved, hooks) : formByDocumentTree(matrix, nonEmpty, resolved);
+  timings.push({ stage: resolved.method === 'kmeans' ? 'k-means' : 'agglomerative', ms: now() - tForm, items: nonEmpty });
   const { partition } = formed;
   const k = partition.groups;
 
@@ -323,21 +361,26 @@ function cutRange(resolved: ResolvedGroupOptions, leaves: number): number[] {
   return cuts;
 }
 
-function formByKMeans(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOptions, hooks: PipelineHooks): Formed {
-  const run = (groups: number, initialAssignments?: Int32Array): KMeansResult => {
+function* formByKMeans(
+  matrix: Csr,
+  nonEmpty: number,
+  resolved: ResolvedGroupOptions,
+  hooks: PipelineHooks,
+): Generator<KMeansRequest, Formed, KMeansResult> {
+  function* run(groups: number, initialAssignments?: Int32Array): Generator<KMeansRequest, KMeansResult, KMeansResult> {
     hooks.progress?.('group', 0, 1);
-    const km = sphericalKMeans(matrix, { ...resolved.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) });
+    const km = yield { matrix, options: { ...resolved.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) } };
     hooks.progress?.('group', 1, 1);
     return km;
-  };
+  }
   if (typeof resolved.groups === 'number') {
-    const km = run(resolved.groups);
+    const km = yield* run(resolved.groups);
     return { partition: kmeansPartition(km), kmeans: km, documentTree: null, treeRows: null, choice: null };
   }
   // Over-cluster, build the tree over those groups, cut it, then refine the cut with k-means.
   const [, hi] = resolved.choose.range;
   const over = Math.min(nonEmpty, resolved.choose.overGroups ?? Math.max(2 * hi, 40));
-  const first = run(over);
+  const first = yield* run(over);
   const overTree = groupAverageLink(matrix, first.assignments, over);
   let chosen: number;
   let choice: GroupChoice;
@@ -367,7 +410,7 @@ function formByKMeans(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOpti
   }
   // Refine the chosen cut: k-means started from the partition the cut gives (each row in its over-group's cluster).
   const initial = first.assignments.map((g) => (g < 0 ? -1 : leafClusters[g]));
-  const km = run(chosen, initial);
+  const km = yield* run(chosen, initial);
   return { partition: kmeansPartition(km), kmeans: km, documentTree: null, treeRows: null, choice };
 }
 

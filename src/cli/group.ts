@@ -14,7 +14,10 @@ import { progressReporter } from './progress.js';
 import { versions } from './versions.js';
 import { choiceLines, evaluationLines, groupTable, treeOutline } from './render.js';
 import { ingest, resolveIngestOptions, type IngestOptions, type IngestResult } from '../ingest/index.js';
-import { groupDocuments, resolveGroupOptions, type GroupOptions, type GroupResult, type StageTiming } from '../pipeline.js';
+import { groupDocumentsAsync, resolveGroupOptions, type GroupOptions, type GroupResult, type KMeansRunner, type StageTiming } from '../pipeline.js';
+import { sphericalKMeans } from '../cluster/kmeans.js';
+import { resolveParallelOptions, sphericalKMeansParallel } from '../parallel/kmeans-parallel.js';
+import { availableParallelism } from 'node:os';
 import {
   documentsCsv,
   documentTreeNewick,
@@ -69,6 +72,7 @@ export interface GroupFlags {
   seed?: string;
   terms?: string;
   truth?: string;
+  threads?: string;
   duplicates?: string | false;
   report?: boolean;
   out: string;
@@ -164,7 +168,8 @@ export function addGroupingFlags(cmd: Command, groupsHelp: string): Command {
     .option('--max-iterations <n>', 'cap on k-means iterations per run')
     .option('--seed <n>', 'random seed; the same seed and input give the same output')
     .option('--terms <n>', 'terms listed per group')
-    .option('--truth <field>', 'compare the groups with a column of known labels');
+    .option('--truth <field>', 'compare the groups with a column of known labels')
+    .option('--threads <n>', 'threads for k-means on large inputs (default: up to 2, the cores there are)');
 }
 
 /** Registers `group` on the program. */
@@ -298,6 +303,17 @@ export async function groupOptionsFromFlags(
   return { ingest: ingestOptions, group };
 }
 
+/** Rows from which k-means is worth the threads' start-up (below it one thread is as fast). */
+export const PARALLEL_MIN_ROWS = 20_000;
+
+/** Runs k-means on `threads` threads for large inputs, on this thread otherwise; the result is the same. */
+export function kmeansRunner(threads: number): KMeansRunner {
+  return async (req) =>
+    threads > 1 && req.matrix.rows >= PARALLEL_MIN_ROWS
+      ? sphericalKMeansParallel(req.matrix, { ...req.options, threads })
+      : sphericalKMeans(req.matrix, req.options);
+}
+
 /** Options of the near-copy search a grouping run adds with `--duplicates t` (the flag names the threshold). */
 function groupDuplicateOptions(value: string, group: GroupOptions): ReturnType<typeof resolveFindDuplicatesOptions> {
   try {
@@ -326,6 +342,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const now = io.now ?? (() => performance.now());
   const startedAt = new Date();
   const { ingest: ingestOptions, group } = await groupOptionsFromFlags(flags, io);
+  const threads = resolveParallelOptions({ threads: wholeNumber(flags.threads, 'threads') ?? Math.min(2, availableParallelism()) }).threads;
   const dupOptions = command === 'group' && typeof flags.duplicates === 'string' ? groupDuplicateOptions(flags.duplicates, group) : null;
   const outDir = path.resolve(io.cwd, flags.out);
   await assertReplaceable(outDir, flags.out);
@@ -343,7 +360,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const progress = progressReporter(io, flags.quiet ?? false);
   let result: GroupResult;
   try {
-    result = groupDocuments(docs, group, { now, progress: (s, d, t) => progress.update(s, d, t) });
+    result = await groupDocumentsAsync(docs, group, kmeansRunner(threads), { now, progress: (s, d, t) => progress.update(s, d, t) });
   } finally {
     progress.done();
   }
@@ -416,7 +433,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     ...(near ? [{ stage: 'near-duplicates', ms: dupMs, items: read.docs.length }] : []),
     { stage: 'write', ms: now() - tw, items: read.docs.length },
   ];
-  files.set('run.json', jsonText(runJson({ command, cwd: io.cwd, flags, ingestOptions, result, read, clean, evaluation, timings, startedAt, finishedAt: new Date() })));
+  files.set('run.json', jsonText(runJson({ threads, command, cwd: io.cwd, flags, ingestOptions, result, read, clean, evaluation, timings, startedAt, finishedAt: new Date() })));
   const written = await writeOutputFolder(outDir, files);
   const shownWritten = written.map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
@@ -484,6 +501,7 @@ export function reportSkips(skipped: readonly { source: string; reason: string }
 }
 
 interface RunJsonInput {
+  threads: number;
   command: string;
   cwd: string;
   clean: CleanReport;
@@ -515,6 +533,7 @@ function runJson(x: RunJsonInput): unknown {
       vectorize: o.vectorize,
       grouping: { method: o.method, groups: o.groups, minSimilarity: o.minSimilarity, choose: o.choose, tree: o.tree },
       kmeans: o.kmeans,
+      threads: x.threads,
       label: o.label,
       out: x.flags.out,
     },
