@@ -43,8 +43,13 @@ export * from './label/index.js';
 export * from './evaluate/index.js';
 export * from './model/index.js';
 export { applyModel, type ModelApplication } from './model/apply.js';
+export { kmeansRunner, PARALLEL_MIN_ROWS } from './parallel/runner.js';
+export { sphericalKMeansParallel, resolveParallelOptions, type ParallelOptions } from './parallel/kmeans-parallel.js';
 export {
   groupDocuments,
+  groupDocumentsAsync,
+  type KMeansRunner,
+  type KMeansRequest,
   resolveGroupOptions,
   canonicalOrder,
   compareIds,

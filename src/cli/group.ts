@@ -14,9 +14,9 @@ import { progressReporter } from './progress.js';
 import { versions } from './versions.js';
 import { choiceLines, evaluationLines, groupTable, treeOutline } from './render.js';
 import { ingest, resolveIngestOptions, type IngestOptions, type IngestResult } from '../ingest/index.js';
-import { groupDocumentsAsync, resolveGroupOptions, type GroupOptions, type GroupResult, type KMeansRunner, type StageTiming } from '../pipeline.js';
-import { sphericalKMeans } from '../cluster/kmeans.js';
-import { resolveParallelOptions, sphericalKMeansParallel } from '../parallel/kmeans-parallel.js';
+import { groupDocumentsAsync, resolveGroupOptions, type GroupOptions, type GroupResult, type StageTiming } from '../pipeline.js';
+import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
+import { kmeansRunner } from '../parallel/runner.js';
 import { availableParallelism } from 'node:os';
 import {
   documentsCsv,
@@ -301,17 +301,6 @@ export async function groupOptionsFromFlags(
     throw err;
   }
   return { ingest: ingestOptions, group };
-}
-
-/** Rows from which k-means is worth the threads' start-up (below it one thread is as fast). */
-export const PARALLEL_MIN_ROWS = 20_000;
-
-/** Runs k-means on `threads` threads for large inputs, on this thread otherwise; the result is the same. */
-export function kmeansRunner(threads: number): KMeansRunner {
-  return async (req) =>
-    threads > 1 && req.matrix.rows >= PARALLEL_MIN_ROWS
-      ? sphericalKMeansParallel(req.matrix, { ...req.options, threads })
-      : sphericalKMeans(req.matrix, req.options);
 }
 
 /** Options of the near-copy search a grouping run adds with `--duplicates t` (the flag names the threshold). */
