@@ -4,9 +4,12 @@
  *
  * Documents arrive as an iterable of term lists and may be a one-shot
  * generator: terms are interned into a `Map` as they stream past, each
- * document's provisional term ids go into one growing Int32Array with row
- * offsets, and only then is the vocabulary pruned, sorted and the CSR
- * matrix built. No array of arrays is ever held.
+ * document's distinct provisional term ids and their counts go into a
+ * growing, packed Int32Array with row offsets (`collect.ts`; O(non-zeros),
+ * never more than 4 bytes a token),
+ * and only then is the vocabulary pruned, sorted and the CSR matrix built
+ * ({@link fitCollected}, shared with the parallel fit). No array of arrays
+ * is ever held.
  *
  * @module
  */
@@ -14,6 +17,7 @@
 import type { Csr } from '../types.js';
 import { UsageError } from '../util/errors.js';
 import { Float32Buffer, IntBuffer } from './buffers.js';
+import { TermCollector, type TermSegment } from './collect.js';
 import { isShare, resolveVectorizeOptions, type VectorizeOptions } from './options.js';
 import { smoothIdf, weightInPlace } from './weight.js';
 
@@ -93,9 +97,11 @@ class RowWriter {
     this.cols = new Int32Array(64);
     this.w = new Float64Array(64);
   }
-  /** Counts one occurrence of column `c`. */
-  add(c: number): void {
-    if (this.count[c]++ === 0) {
+  /** Counts `times` (default 1) occurrences of column `c`. */
+  add(c: number, times = 1): void {
+    const before = this.count[c]!;
+    this.count[c] = before + times;
+    if (before === 0) {
       if (this.len === this.cols.length) {
         const next = new Int32Array(this.cols.length * 2);
         next.set(this.cols);
@@ -151,44 +157,40 @@ function describe(o: VectorizeOptions): string {
  */
 export function fitTfidf(termLists: Iterable<readonly string[]>, options?: Partial<VectorizeOptions>): TfidfFit {
   const opts = resolveVectorizeOptions(options);
+  const collector = new TermCollector();
+  for (const terms of termLists) collector.add(terms);
+  return fitCollected(collector.names, [collector.take(false)], opts);
+}
 
-  // 1. One pass: intern terms, record provisional ids per document, df and total counts.
-  const provisional = new Map<string, number>();
-  const names: string[] = [];
-  let df = new Int32Array(1024);
-  let total = new Float64Array(1024);
-  let lastDoc = new Int32Array(1024);
-  const ids = new IntBuffer(1 << 16);
-  const offsets = new IntBuffer(1024);
-  offsets.push(0);
+/**
+ * The back half of {@link fitTfidf}, shared with the parallel fit: from the
+ * interned terms (`names[id]`) and the documents as segments of distinct
+ * provisional ids with counts (in document order), counts document
+ * frequencies and occurrences, prunes, sorts the vocabulary and builds the
+ * matrix. The result does not depend on the order of the provisional ids.
+ *
+ * @param names     term of each provisional id
+ * @param segments  all documents, in order (packed as `TermSegment` describes)
+ * @param opts      resolved options (see `resolveVectorizeOptions`)
+ * @throws UsageError as {@link fitTfidf} does
+ */
+export function fitCollected(names: readonly string[], segments: readonly TermSegment[], opts: VectorizeOptions): TfidfFit {
+  // 1. Document frequency and total count of every provisional id.
   let n = 0;
-  for (const terms of termLists) {
-    for (const t of terms) {
-      let id = provisional.get(t);
-      if (id === undefined) {
-        id = names.length;
-        if (id === df.length) {
-          df = grow(df);
-          total = grow(total);
-          lastDoc = grow(lastDoc);
-        }
-        provisional.set(t, id);
-        names.push(t);
-        lastDoc[id] = -1;
-      }
-      if (lastDoc[id] !== n) {
-        lastDoc[id] = n;
-        df[id]!++;
-      }
-      total[id]!++;
-      ids.push(id);
-    }
-    n++;
-    offsets.push(ids.length);
-  }
+  for (const seg of segments) n += seg.rows;
   if (n === 0) throw new UsageError('no documents to vectorize');
   if (names.length === 0) {
     throw new UsageError(`none of the ${n} documents has any terms after analysis; nothing to vectorize`);
+  }
+  const df = new Int32Array(names.length);
+  const total = new Float64Array(names.length);
+  for (const { entries, offsets, rows } of segments) {
+    for (let p = 0, end = offsets[rows]!; p < end; p++) {
+      const e = entries[p]!;
+      const id = e >= 0 ? e : ~e;
+      df[id]!++;
+      total[id]! += e >= 0 ? 1 : entries[++p]!;
+    }
   }
 
   // 2. Prune by document frequency, then by total count.
@@ -232,31 +234,34 @@ export function fitTfidf(termLists: Iterable<readonly string[]>, options?: Parti
   }
   const vocabulary: Vocabulary = Object.freeze({ terms: Object.freeze(terms), index, df: vdf, idf, docCount: n });
 
-  // 4. Row lengths, then the rows themselves.
-  const off = offsets.data;
-  const idData = ids.data;
+  // 4. Row lengths (ids are distinct within a document), then the rows themselves.
   const indptr = new Int32Array(n + 1);
-  const mark = new Int32Array(V).fill(-1);
   let nnz = 0;
-  for (let d = 0; d < n; d++) {
-    for (let p = off[d]!, end = off[d + 1]!; p < end; p++) {
-      const c = column[idData[p]!]!;
-      if (c >= 0 && mark[c] !== d) {
-        mark[c] = d;
-        nnz++;
+  let d = 0;
+  for (const { entries, offsets, rows } of segments) {
+    for (let r = 0; r < rows; r++) {
+      for (let p = offsets[r]!, end = offsets[r + 1]!; p < end; p++) {
+        const e = entries[p]!;
+        if (e < 0) p++;
+        if (column[e >= 0 ? e : ~e]! >= 0) nnz++;
       }
+      indptr[++d] = nnz;
     }
-    indptr[d + 1] = nnz;
   }
   const indices = new Int32Array(nnz);
   const values = new Float32Array(nnz);
   const row = new RowWriter(V, idf);
-  for (let d = 0; d < n; d++) {
-    for (let p = off[d]!, end = off[d + 1]!; p < end; p++) {
-      const c = column[idData[p]!]!;
-      if (c >= 0) row.add(c);
+  d = 0;
+  for (const { entries, offsets, rows } of segments) {
+    for (let r = 0; r < rows; r++) {
+      for (let p = offsets[r]!, end = offsets[r + 1]!; p < end; p++) {
+        const e = entries[p]!;
+        const c = column[e >= 0 ? e : ~e]!;
+        const times = e >= 0 ? 1 : entries[++p]!;
+        if (c >= 0) row.add(c, times);
+      }
+      row.flush(indices, values, indptr[d++]!);
     }
-    row.flush(indices, values, indptr[d]!);
   }
   return Object.freeze({ vocabulary, matrix: Object.freeze({ rows: n, cols: V, indptr, indices, values }) });
 }
@@ -327,10 +332,4 @@ export function rowDot(a: Csr, i: number, b: Csr, j: number): number {
 /** Code-unit order, the order of JavaScript's `<` on strings. */
 function compareStrings(a: string, b: string): number {
   return a < b ? -1 : a > b ? 1 : 0;
-}
-
-function grow<T extends Int32Array | Float64Array>(a: T): T {
-  const next = new (a.constructor as new (n: number) => T)(a.length * 2);
-  next.set(a);
-  return next;
 }
