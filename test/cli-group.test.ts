@@ -414,3 +414,26 @@ describe('real-world inputs through the CLI', () => {
     expect(g.groups.flatMap((x: { terms: { term: string }[] }) => x.terms.map((t) => t.term))).toContain('crème');
   });
 });
+
+describe('--memory', () => {
+  it('refuses, before reading, an input that would need more than the limit', async () => {
+    const out = path.join(tempDir(), 'o');
+    const run = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--memory', '100M', '--out', out]);
+    // 182,450 bytes of CSV: 200 MiB + 10.5 × 182,450 bytes = 211,630,925 bytes ≈ 202 MB (MiB shown as MB).
+    expect(run.stderr).toBe('sheaf: this input (178 KB) would need about 202 MB of memory, more than the limit of 100 MB; raise --memory if the machine has it, or split the input\n');
+    expect(run.code).toBe(2);
+    expect(existsSync(out)).toBe(false);
+  });
+
+  it('names a size it cannot read', async () => {
+    const run = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--memory', 'lots']);
+    expect(run.stderr).toBe('sheaf: --memory must be a size such as 512M, 8G or 1.5GB; got "lots"\n');
+    expect(run.code).toBe(2);
+  });
+
+  it('bounds the document-level tree by the same limit', async () => {
+    const run = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--method', 'agglomerative', '--memory', '300M', '--out', path.join(tempDir(), 'o'), '--quiet']);
+    // 457 documents need 457·456/2 · 8 bytes ≈ 0.8 MB of distances: well within 300 MB.
+    expect(run.code).toBe(0);
+  });
+});

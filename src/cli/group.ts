@@ -17,6 +17,7 @@ import { ingest, resolveIngestOptions, type IngestOptions, type IngestResult } f
 import { groupDocumentsAsync, resolveGroupOptions, type GroupOptions, type GroupResult, type StageTiming } from '../pipeline.js';
 import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
 import { kmeansRunner } from '../parallel/runner.js';
+import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
 import { availableParallelism } from 'node:os';
 import {
   documentsCsv,
@@ -73,6 +74,7 @@ export interface GroupFlags {
   terms?: string;
   truth?: string;
   threads?: string;
+  memory?: string;
   duplicates?: string | false;
   report?: boolean;
   out: string;
@@ -169,7 +171,8 @@ export function addGroupingFlags(cmd: Command, groupsHelp: string): Command {
     .option('--seed <n>', 'random seed; the same seed and input give the same output')
     .option('--terms <n>', 'terms listed per group')
     .option('--truth <field>', 'compare the groups with a column of known labels')
-    .option('--threads <n>', 'threads for k-means on large inputs (default: up to 2, the cores there are)');
+    .option('--threads <n>', 'threads for k-means on large inputs (default: up to 2, the cores there are)')
+    .option('--memory <size>', 'refuse to start what would need more memory than this, like 8G (default: 60% of the machine)');
 }
 
 /** Registers `group` on the program. */
@@ -330,12 +333,18 @@ function assertTruthColumn(docs: readonly Doc[], field: string): void {
 async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command: 'group' | 'tree'): Promise<number> {
   const now = io.now ?? (() => performance.now());
   const startedAt = new Date();
-  const { ingest: ingestOptions, group } = await groupOptionsFromFlags(flags, io);
+  const options = await groupOptionsFromFlags(flags, io);
+  const ingestOptions = options.ingest;
+  let group = options.group;
   const threads = resolveParallelOptions({ threads: wholeNumber(flags.threads, 'threads') ?? Math.min(2, availableParallelism()) }).threads;
   const dupOptions = command === 'group' && typeof flags.duplicates === 'string' ? groupDuplicateOptions(flags.duplicates, group) : null;
+  const limit = memoryLimit(flags.memory);
+  // A document-level tree may use the whole limit for its distance matrix.
+  group = { ...group, tree: { memoryLimitBytes: limit } };
   const outDir = path.resolve(io.cwd, flags.out);
   await assertReplaceable(outDir, flags.out);
   if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);
+  checkMemory(await fileInputBytes(inputs, io.cwd), limit, 'this input');
   const width = Math.max(60, io.stdout.columns ?? 110);
 
   const note = (line: string): void => {
@@ -344,6 +353,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const t0 = now();
   const { read, docs, clean, notes } = await readInputs(inputs, flags, io, note);
   const readMs = now() - t0;
+  checkMemory(docs.reduce((a, d) => a + d.text.length, 0), limit, `the text read (${docs.length} documents)`);
   if (flags.truth) assertTruthColumn(docs, flags.truth);
 
   const progress = progressReporter(io, flags.quiet ?? false);
