@@ -26,6 +26,7 @@ import {
   fitTfidfParallel,
   resolveAnalyzeParallelOptions,
 } from '../src/parallel/analyze-parallel.js';
+import { PARALLEL_ANALYZE_MIN_CHARS, vectorizeRunner } from '../src/parallel/analyze-runner.js';
 
 // Worker threads cannot load .ts: beforeAll compiles the parallel analyzer,
 // its worker and what they import, with the project's build settings, into a
@@ -293,5 +294,27 @@ describe('chooseAnalyzeWorkerUrl', () => {
     expect(() => chooseAnalyzeWorkerUrl(moduleUrl, () => false)).toThrow(
       'analyzer worker script not found at /pkg/src/parallel/analyze-worker.js or /pkg/dist/parallel/analyze-worker.js; run `npm run build` first',
     );
+  });
+});
+
+describe('vectorizeRunner', () => {
+  const input = Array.from({ length: 400 }, (_, i) => `ticket ${i}: the lamp ${i % 3 === 0 ? 'flickers' : 'works'} in cabin ${i % 11}`);
+  const chars = input.reduce((n, t) => n + t.length, 0);
+
+  it('uses the threads from minChars characters on (a missing worker then fails), this thread below', async () => {
+    const missing = pathToFileURL(join(tmpdir(), 'no-such-sheaf-worker.js'));
+    const want = reference(input, {}, { minDf: 2 });
+    expectSameFit(await vectorizeRunner(2, { minChars: chars + 1, workerUrl: missing, chunkChars: 1000 })({ texts: input, analyzer: {}, vectorize: { minDf: 2 } }), want);
+    await expect(vectorizeRunner(2, { minChars: chars, workerUrl: missing, chunkChars: 1000 })({ texts: input, analyzer: {}, vectorize: { minDf: 2 } })).rejects.toThrow(
+      /^analyzer worker 1 failed: /,
+    );
+    expectSameFit(await vectorizeRunner(2, { minChars: chars, workerUrl, chunkChars: 1000 })({ texts: input, analyzer: {}, vectorize: { minDf: 2 } }), want);
+  }, 60_000);
+
+  it('passes progress through, and defaults to 4 million characters', async () => {
+    expect(PARALLEL_ANALYZE_MIN_CHARS).toBe(4_000_000);
+    const seen: number[] = [];
+    await vectorizeRunner(2, { workerUrl })({ texts: input, analyzer: {}, vectorize: {}, onProgress: (d) => seen.push(d) });
+    expect(seen[seen.length - 1]).toBe(400);
   });
 });
