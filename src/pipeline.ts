@@ -8,8 +8,10 @@
  */
 import type { Csr, Doc } from './types.js';
 import { createAnalyzer, resolveAnalyzerOptions, type AnalyzerOptions, type AnalyzerSettings } from './analyze/index.js';
+import type { VectorizeRequest, VectorizeRunner } from './parallel/analyze-runner.js';
 import {
   fitTfidf,
+  type TfidfFit,
   resolveVectorizeOptions,
   type VectorizeOptions,
   type Vocabulary,
@@ -220,8 +222,26 @@ export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions
 export function groupDocuments(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks = {}): GroupResult {
   const steps = groupSteps(input, options, hooks);
   let next = steps.next();
-  while (!next.done) next = steps.next(sphericalKMeans(next.value.matrix, next.value.options));
+  while (!next.done) {
+    const req = next.value;
+    next = steps.next(req.kind === 'kmeans' ? sphericalKMeans(req.matrix, req.options) : fitOnThisThread(req));
+  }
   return next.value;
+}
+
+/** Analysis streamed into the TF-IDF fit on the calling thread (no list of term lists is ever held). */
+function fitOnThisThread(req: VectorizeStep): TfidfFit {
+  const analyzer = createAnalyzer(req.analyzer);
+  const n = req.texts.length;
+  const step = Math.max(1, Math.floor(n / 100));
+  function* termLists(): Generator<string[]> {
+    for (let i = 0; i < n; i++) {
+      if (req.onProgress && i % step === 0) req.onProgress(i, n);
+      yield analyzer.analyze(req.texts[i]);
+    }
+    req.onProgress?.(n, n);
+  }
+  return fitTfidf(termLists(), req.vectorize);
 }
 
 /** A k-means run the pipeline needs; the driver decides on how many threads it runs. */
@@ -233,28 +253,44 @@ export interface KMeansRequest {
 /** Runs a k-means request, on the calling thread or on several (same result either way). */
 export type KMeansRunner = (request: KMeansRequest) => Promise<KMeansResult>;
 
+/** The work the pipeline hands to its driver: k-means runs and the analyze+vectorize step. */
+type Step = ({ readonly kind: 'kmeans' } & KMeansRequest) | ({ readonly kind: 'vectorize' } & VectorizeStep);
+type VectorizeStep = VectorizeRequest & { readonly analyzer: AnalyzerSettings };
+
+/** The runners of {@link groupDocumentsAsync}; a missing one runs on the calling thread. */
+export interface PipelineRunners {
+  readonly kmeans?: KMeansRunner;
+  readonly vectorize?: VectorizeRunner;
+}
+
 /**
- * {@link groupDocuments} with the k-means runs handed to `runKMeans` (for
- * example the two-thread runner of `src/parallel`), which returns the very
- * same results as the single-thread loop, so the output is identical.
+ * {@link groupDocuments} with k-means runs and the analyze+vectorize step
+ * handed to runners (for example the thread runners of `src/parallel`), which
+ * return the very same results as the single-thread code, so the output is
+ * identical.
  */
 export async function groupDocumentsAsync(
   input: readonly Doc[],
   options: GroupOptions,
-  runKMeans: KMeansRunner,
+  runners: PipelineRunners,
   hooks: PipelineHooks = {},
 ): Promise<GroupResult> {
   const steps = groupSteps(input, options, hooks);
   let next = steps.next();
-  while (!next.done) next = steps.next(await runKMeans(next.value));
+  while (!next.done) {
+    const req = next.value;
+    if (req.kind === 'kmeans') next = steps.next(await (runners.kmeans ? runners.kmeans(req) : sphericalKMeans(req.matrix, req.options)));
+    else next = steps.next(await (runners.vectorize ? runners.vectorize(req) : fitOnThisThread(req)));
+  }
   return next.value;
 }
 
 /**
- * The pipeline as steps: it yields each k-means run it needs and receives
- * the result, so one body serves the sync and the async drivers.
+ * The pipeline as steps: it yields each k-means run and the analyze+vectorize
+ * step it needs and receives the results, so one body serves the sync and the
+ * async drivers.
  */
-function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks): Generator<KMeansRequest, GroupResult, KMeansResult> {
+function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks): Generator<Step, GroupResult, KMeansResult | TfidfFit> {
   const resolved = resolveGroupOptions(options);
   const { docs, inputOrder } = canonicalOrder(input);
   const now = hooks.now ?? (() => 0);
@@ -268,15 +304,16 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   };
 
   const analyzer = createAnalyzer(resolved.analyzer);
-  const step = Math.max(1, Math.floor(n / 100));
-  function* termLists(): Generator<string[]> {
-    for (let i = 0; i < n; i++) {
-      if (hooks.progress && i % step === 0) hooks.progress('analyze', i, n);
-      yield analyzer.analyze(docs[i].text);
-    }
-    hooks.progress?.('analyze', n, n);
-  }
-  const { vocabulary, matrix } = time('analyze+vectorize', n, () => fitTfidf(termLists(), resolved.vectorize));
+  const tFit = now();
+  const fitted = (yield {
+    kind: 'vectorize',
+    texts: docs.map((d) => d.text),
+    analyzer: resolved.analyzer,
+    vectorize: resolved.vectorize,
+    onProgress: hooks.progress ? (done: number, total: number) => hooks.progress?.('analyze', done, total) : undefined,
+  }) as TfidfFit;
+  const { vocabulary, matrix } = fitted;
+  timings.push({ stage: 'analyze+vectorize', ms: now() - tFit, items: n });
 
   const empty: number[] = [];
   for (let r = 0; r < matrix.rows; r++) if (matrix.indptr[r + 1] === matrix.indptr[r]) empty.push(r);
@@ -366,10 +403,10 @@ function* formByKMeans(
   nonEmpty: number,
   resolved: ResolvedGroupOptions,
   hooks: PipelineHooks,
-): Generator<KMeansRequest, Formed, KMeansResult> {
-  function* run(groups: number, initialAssignments?: Int32Array): Generator<KMeansRequest, KMeansResult, KMeansResult> {
+): Generator<Step, Formed, KMeansResult | TfidfFit> {
+  function* run(groups: number, initialAssignments?: Int32Array): Generator<Step, KMeansResult, KMeansResult | TfidfFit> {
     hooks.progress?.('group', 0, 1);
-    const km = yield { matrix, options: { ...resolved.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) } };
+    const km = (yield { kind: 'kmeans', matrix, options: { ...resolved.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) } }) as KMeansResult;
     hooks.progress?.('group', 1, 1);
     return km;
   }

@@ -17,6 +17,7 @@ import { ingest, resolveIngestOptions, type IngestOptions, type IngestResult } f
 import { groupDocumentsAsync, resolveGroupOptions, type GroupOptions, type GroupResult, type StageTiming } from '../pipeline.js';
 import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
 import { kmeansRunner } from '../parallel/runner.js';
+import { vectorizeRunner } from '../parallel/analyze-runner.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
 import { availableParallelism } from 'node:os';
 import {
@@ -359,7 +360,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const progress = progressReporter(io, flags.quiet ?? false);
   let result: GroupResult;
   try {
-    result = await groupDocumentsAsync(docs, group, kmeansRunner(threads), { now, progress: (s, d, t) => progress.update(s, d, t) });
+    result = await groupDocumentsAsync(docs, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t) });
   } finally {
     progress.done();
   }
