@@ -1,39 +1,44 @@
 /**
  * Exact all-pairs cosine similarity join over sparse non-negative rows.
  *
- * The method is the All-Pairs algorithm of Bayardo, Ma & Srikant, "Scaling up
- * all pairs similarity search" (WWW 2007), §4, in its second form
- * (All-Pairs-2): an inverted index built while the rows are scanned, holding
- * only the part of each row that could still reach the threshold, so that
- * pairs below the threshold are never scored. The details here:
+ * Prefix filtering in the manner of Bayardo, Ma & Srikant, "Scaling up all
+ * pairs similarity search" (WWW 2007), with the prefix L2-norm bounds of
+ * Anastasiu & Karypis, "L2AP: Fast cosine similarity search with prefix L-2
+ * norm bounds" (ICDE 2014), and the idea of AdaptJoin (Wang, Li & Feng, "Can
+ * we beat the prefix filtering? An adaptive framework for similarity join and
+ * search", SIGMOD 2012; all three from memory) of asking for two shared
+ * entries in a slightly longer tail rather than one in the shortest. In
+ * detail:
  *
  * - Dimension order: decreasing document frequency (ties: lower column
- *   first). The frequent dimensions form the unindexed prefix of each row, so
- *   their long posting lists are mostly never built.
- * - Row order: decreasing largest value `maxweight(x)` (ties: lower row
- *   first), which allows the tighter index bound
- *   `b += min(maxweight_i(V), maxweight(x)) · x[i]`: row x's dimensions are
- *   indexed from the first one at which `b` reaches the threshold.
- * - Probing, dimensions taken from the rarest: a row not yet met is admitted as
- *   a candidate only while `remscore` (the bound on what the dimensions not
- *   yet taken can add, `Σ x[i] · maxweight_i(V)`) reaches the threshold.
- * - Size pruning, in place of the paper's bound on the number of entries |y|
- *   (which leans on unit length), a form that holds for any non-negative rows: x · y <= maxweight(x) · ‖y‖₁, so a
- *   row y with `maxweight(x) · ‖y‖₁ < t` can match neither x nor any later row
- *   (later rows have smaller maxweight) and is dropped from the front of the
- *   posting lists for good.
- * - Added to the paper's bounds, the prefix L2-norm bounds of Anastasiu &
- *   Karypis, "L2AP: Fast cosine similarity search with prefix L-2 norm
- *   bounds" (ICDE 2014), by Cauchy–Schwarz: the index bound and `remscore`
- *   are each also capped by `‖prefix‖₂ · max row norm`, and every posting
- *   entry carries the norm of its row before that dimension, so after the
- *   last match of y at x's dimension k the rest can add at most
- *   `‖x before k‖₂ · ‖y before k‖₂`.
- * - Scores accumulate in a preallocated Float64Array with a touched-list; a
- *   candidate goes on only if both `score + ‖x before k‖₂ · ‖y before k‖₂`
- *   and `score + min(|y'|, |x|) · maxweight(x) · maxweight(y')` (y' its
- *   unindexed prefix) reach the threshold, and then its exact dot product is
- *   computed from the full rows.
+ *   first); every row is rewritten in that order, so its *tail* is its rarest
+ *   dimensions and its *prefix* (`y < s`) the others.
+ * - Two-shared tails. For a row y the tail starts at the largest s with
+ *   `maxNorm · sqrt(‖y < s‖₂² + max(y[s..])²) < t` (maxNorm: the largest row
+ *   norm). If two rows x, y of this kind shared at most one dimension d lying
+ *   in both tails, say y's tail starts later (at s), then
+ *   `x · y <= x[d] y[d] + ‖x < s‖₂ ‖y < s‖₂ <= ‖x‖₂ · sqrt(y[d]² + ‖y < s‖₂²) < t`
+ *   (Cauchy–Schwarz twice). So a pair reaching t shares at least two tail
+ *   dimensions. These pairs are found per dimension d: among the rows whose
+ *   tail holds d, two rows are a candidate when they also share a tail
+ *   dimension ranked below d (a chain per such dimension). Each candidate is
+ *   taken once, at its rarest shared tail dimension d and the next rarest
+ *   below it, so no pair is scored twice, and random pairs that share one
+ *   rare word are never touched.
+ * - One-shared rows: a row whose largest value alone could reach t has no
+ *   such tail (as has, by choice, a row whose tail would exceed
+ *   {@link MAX_PAIR_TAIL} entries). It keeps the All-Pairs tails: indexed from
+ *   the first dimension at which both `Σ min(maxweight_i, maxweight(y)) · y[i]`
+ *   and `maxNorm · ‖y ≤ i‖₂` reach t (rows processed by decreasing
+ *   maxweight), probed from the first at which both `Σ maxweight_i · x[i]` and
+ *   `maxNorm · ‖x ≤ i‖₂` do. The same two-case argument shows that a pair with
+ *   at least one such row, if it reaches t, shares a dimension in both rows'
+ *   tails; these pairs are found by probing the one-shared rows' tails
+ *   against an inverted index of the other one-shared rows (built as they are
+ *   processed) and one of all two-shared tails, with the positional bound of
+ *   L2AP at the first meeting (`x · y <= x[d] y[d] + ‖x < d‖₂ ‖y < d‖₂`, no
+ *   rarer dimension being shared) and Bayardo's size filter
+ *   (`x · y <= maxweight(x) · ‖y‖₁`, pruning posting lists from the front).
  *
  * Every bound is a true upper bound for non-negative rows whatever their norm
  * (unit length is needed only for the dot product to be the cosine), and the
@@ -44,7 +49,7 @@
  * ties at the threshold identically.
  *
  * Memory: O(nnz + rows + cols) working arrays plus the pairs found (growable
- * buffers that double); never an n × n matrix.
+ * buffers that double); never an n × n matrix, and no list of candidates.
  *
  * @module
  */
@@ -70,35 +75,61 @@ export interface SimilarPairs {
 const PRUNE_SLACK = 1e-7;
 
 /**
+ * Longest two-shared tail kept; a row whose tail would be longer is treated
+ * as a one-shared row (its tail pairs cost up to MAX_PAIR_TAIL² / 2 steps). A
+ * speed setting only: the result is the same either way.
+ */
+export const MAX_PAIR_TAIL = 64;
+
+/** Work counters of one join, for tests and benchmarks (not part of the result). */
+export interface JoinCounts {
+  /** Rows with a two-shared tail. */
+  twoSharedRows: number;
+  /** Rows of the one-shared kind. */
+  oneSharedRows: number;
+  /** Steps of the two-shared phase: (row, tail dimension, lower tail dimension) triples visited. */
+  tailSteps: number;
+  /** Posting entries read by one-shared rows. */
+  postingsScanned: number;
+  /** Pairs whose exact dot product was computed. */
+  verified: number;
+}
+
+/**
  * Every pair of rows whose dot product (the cosine, for L2-normalised rows) is
  * at least `threshold`, and no other pair. Rows must be non-negative (TF-IDF
  * rows are); all-zero rows never pair. `threshold` must be in (0, 1] (a
  * {@link UsageError} otherwise); a malformed matrix or a negative value is a
- * RangeError.
+ * RangeError. When `counts` is given, the work done is added to it.
  *
  * Note on t = 1: a float32 row normalised to unit length can have a
  * self-product just below 1, so two identical rows may fall short of t = 1;
  * use {@link exactCopies} for identical texts.
  */
-export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
+export function allPairsCosine(matrix: Csr, threshold: number, counts?: JoinCounts): SimilarPairs {
   const t = checkThreshold(threshold, 'threshold');
   checkCsr(matrix, 'allPairsCosine', true);
   const tb = t - PRUNE_SLACK;
-  const { rows: n, cols: m, indptr, indices, values } = matrix;
+  const { rows: n, cols: m, indptr, values } = matrix;
+  const indices = matrix.indices;
 
-  // Document frequency and largest value of every column (positive entries only).
+  // Document frequency and largest value of every column, largest value and
+  // norm of every row (positive entries only).
   const df = new Int32Array(m);
   const mwCol = new Float64Array(m);
   const mwRow = new Float64Array(n);
   let maxDf = 0;
   let maxNorm2 = 0;
+  let maxLen = 0;
   for (let r = 0; r < n; r++) {
     let mw = 0;
     let norm2 = 0;
+    let len = 0;
     for (let e = indptr[r]!; e < indptr[r + 1]!; e++) {
       const v = values[e]!;
       if (v > 0) {
         norm2 += v * v;
+        len++;
         const c = indices[e]!;
         const d = ++df[c]!;
         if (d > maxDf) maxDf = d;
@@ -108,121 +139,487 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
     }
     mwRow[r] = mw;
     if (norm2 > maxNorm2) maxNorm2 = norm2;
+    if (len > maxLen) maxLen = len;
   }
   const maxNorm = Math.sqrt(maxNorm2);
 
   // rank[c]: position of column c in decreasing-df order (counting sort, stable in c).
   const rank = rankColumns(df, maxDf, true);
-  const mwRank = new Float64Array(m);
-  for (let c = 0; c < m; c++) mwRank[rank[c]!] = mwCol[c]!;
 
-  // Processing order: non-empty rows by decreasing maxweight, ties by row index.
+  const tails = twoSharedTails(matrix, rank, maxNorm, maxLen, tb);
+  const out: PairSink = { a: new GrowableInt32(), b: new GrowableInt32(), s: new GrowableFloat32() };
+  const work: JoinCounts = { twoSharedRows: 0, oneSharedRows: tails.singles.length, tailSteps: 0, postingsScanned: 0, verified: 0 };
+  for (let r = 0; r < n; r++) if (mwRow[r]! > 0) work.twoSharedRows++;
+  work.twoSharedRows -= tails.singles.length;
+  const pairIndex = twoSharedPairs(matrix, m, tails, tb, t, tails.singles.length > 0, out, work);
+  if (tails.singles.length > 0) {
+    const mwRank = new Float64Array(m);
+    for (let c = 0; c < m; c++) mwRank[rank[c]!] = mwCol[c]!;
+    oneSharedPairs(matrix, m, rank, mwRank, mwRow, maxNorm, tails, pairIndex, tb, t, out, work);
+  }
+  if (counts !== undefined) {
+    counts.twoSharedRows += work.twoSharedRows;
+    counts.oneSharedRows += work.oneSharedRows;
+    counts.tailSteps += work.tailSteps;
+    counts.postingsScanned += work.postingsScanned;
+    counts.verified += work.verified;
+  }
+  return { ...sortPairs(out.a.toArray(), out.b.toArray(), out.s.toArray(), n), threshold: t };
+}
+
+/**
+ * The rows with a positive weight, by decreasing weight, ties by lower row:
+ * a stable two-pass radix sort on the float32 bit patterns (the weights are
+ * float32 values, and for positive floats the bit patterns sort like the
+ * values).
+ */
+function byDecreasingWeight(weight: Float64Array): Int32Array {
+  const n = weight.length;
   let live = 0;
-  for (let r = 0; r < n; r++) if (mwRow[r]! > 0) live++;
-  const order = new Int32Array(live);
-  for (let r = 0, k = 0; r < n; r++) if (mwRow[r]! > 0) order[k++] = r;
-  order.sort((x, y) => mwRow[y]! - mwRow[x]! || x - y);
+  for (let r = 0; r < n; r++) if (weight[r]! > 0) live++;
+  const rowsIn = new Int32Array(live);
+  const keyIn = new Uint32Array(live);
+  const f32 = new Float32Array(1);
+  const u32 = new Uint32Array(f32.buffer);
+  for (let r = 0, k = 0; r < n; r++) {
+    if (weight[r]! > 0) {
+      f32[0] = weight[r]!;
+      keyIn[k] = ~u32[0]! >>> 0; // larger weight, smaller key
+      rowsIn[k++] = r;
+    }
+  }
+  const rowsOut = new Int32Array(live);
+  const keyOut = new Uint32Array(live);
+  const count = new Int32Array(65537);
+  for (let shift = 0; shift < 32; shift += 16) {
+    count.fill(0);
+    for (let k = 0; k < live; k++) count[((keyIn[k]! >>> shift) & 0xffff) + 1]!++;
+    for (let b = 0; b < 65536; b++) count[b + 1] += count[b]!;
+    for (let k = 0; k < live; k++) {
+      const at = count[(keyIn[k]! >>> shift) & 0xffff]!++;
+      rowsOut[at] = rowsIn[k]!;
+      keyOut[at] = keyIn[k]!;
+    }
+    rowsIn.set(rowsOut);
+    keyIn.set(keyOut);
+  }
+  return rowsIn;
+}
 
-  // Rows in processing order, entries as (rank, value) sorted by rank ascending.
-  const { start: rowStart, rankOf, valueOf, maxLen } = permuteRows(matrix, order, rank, df);
+/** Where found pairs go: row numbers a < b and the similarity. */
+interface PairSink {
+  readonly a: GrowableInt32;
+  readonly b: GrowableInt32;
+  readonly s: GrowableFloat32;
+}
 
-  // Per row: unindexed prefix length, its largest value, l1 norm; posting list sizes.
-  const prefixLen = new Int32Array(live);
-  const mwPrefix = new Float64Array(live);
+/** Two-shared tails of every row (by row number), and the rows of the one-shared kind. */
+interface Tails {
+  /** Where the row's tail starts in tailRank/tailValue, and its length. */
+  readonly tailStart: Int32Array;
+  readonly tailLen: Uint8Array;
+  /** Tails, each sorted by rank ascending. */
+  readonly tailRank: Int32Array;
+  readonly tailValue: Float32Array;
+  /** ‖row before its tail‖₂². */
+  readonly prefix2: Float64Array;
+  /** One-shared rows (no two-shared tail), by row number. */
+  readonly singles: Int32Array;
+}
+
+/**
+ * Every row's two-shared tail: its entries are taken by decreasing rank (a
+ * selection, so only the tail gets ordered) until
+ * `maxNorm · sqrt(‖y < s‖₂² + max(y[s..])²) < t`. Rows for which that needs
+ * more than {@link MAX_PAIR_TAIL} entries, or cannot hold, are one-shared.
+ * All-zero rows get an empty tail.
+ */
+function twoSharedTails(matrix: Csr, rank: Int32Array, maxNorm: number, maxLen: number, tb: number): Tails {
+  const { rows: n, indptr, indices, values } = matrix;
+  const tailStart = new Int32Array(n);
+  const tailLen = new Uint8Array(n);
+  const prefix2 = new Float64Array(n);
+  const tailRank = new GrowableInt32();
+  const tailValue = new GrowableFloat32();
+  const singles = new GrowableInt32();
+  const sr = new Int32Array(maxLen);
+  const sv = new Float32Array(maxLen);
+  for (let r = 0; r < n; r++) {
+    let len = 0;
+    let norm2 = 0;
+    for (let e = indptr[r]!; e < indptr[r + 1]!; e++) {
+      const v = values[e]!;
+      if (v === 0) continue;
+      sr[len] = rank[indices[e]!]!;
+      sv[len++] = v;
+      norm2 += v * v;
+    }
+    tailStart[r] = tailRank.length;
+    if (len === 0) continue;
+    // After i steps sr/sv[len - i .. len) hold the i highest ranks, ascending.
+    let tail2 = 0;
+    let big = 0;
+    let i = 0;
+    let found = false;
+    for (;;) {
+      const rest = norm2 - tail2 > 0 ? norm2 - tail2 : 0;
+      if (maxNorm * Math.sqrt(rest + big * big) < tb) {
+        found = true;
+        break;
+      }
+      if (i === len || i === MAX_PAIR_TAIL) break;
+      const last = len - 1 - i;
+      let at = last;
+      for (let k = last - 1; k >= 0; k--) if (sr[k]! > sr[at]!) at = k;
+      const rk = sr[at]!;
+      const vk = sv[at]!;
+      sr[at] = sr[last]!;
+      sv[at] = sv[last]!;
+      sr[last] = rk;
+      sv[last] = vk;
+      tail2 += vk * vk;
+      if (vk > big) big = vk;
+      i++;
+    }
+    if (!found) {
+      singles.push(r);
+      continue;
+    }
+    let pre2 = 0;
+    for (let k = 0; k < len - i; k++) pre2 += sv[k]! * sv[k]!;
+    prefix2[r] = pre2;
+    tailLen[r] = i;
+    for (let k = len - i; k < len; k++) {
+      tailRank.push(sr[k]!);
+      tailValue.push(sv[k]!);
+    }
+  }
+  return {
+    tailStart,
+    tailLen,
+    tailRank: tailRank.toArray(),
+    tailValue: tailValue.toArray(),
+    prefix2,
+    singles: singles.toArray(),
+  };
+}
+
+/** Exact dot product of rows x and y: rowDot's arithmetic (float64 products, column order). */
+function exactDot(indptr: Int32Array, indices: Int32Array, values: Float32Array, x: number, y: number): number {
+  let p = indptr[x]!;
+  const pe = indptr[x + 1]!;
+  let q = indptr[y]!;
+  const qe = indptr[y + 1]!;
+  let sum = 0;
+  while (p < pe && q < qe) {
+    const ca = indices[p]!;
+    const cb = indices[q]!;
+    if (ca === cb) {
+      sum += values[p]! * values[q]!;
+      p++;
+      q++;
+    } else if (ca < cb) p++;
+    else q++;
+  }
+  return sum;
+}
+
+/** Inverted index of the two-shared tails: per rank, the rows holding it in their tail. */
+interface TailIndex {
+  readonly start: Int32Array;
+  readonly row: Int32Array;
+  /** The entry's value. */
+  readonly value: Float32Array;
+  /** ‖row before the entry‖₂ per entry, when asked for. */
+  readonly norm: Float64Array | null;
+}
+
+/**
+ * Pairs of two-shared rows: every pair sharing at least two tail dimensions
+ * is taken once, at its rarest shared tail dimension d (the list read) and
+ * the next rarest r (the chain), bounded and verified. Returns the tail
+ * index, which the one-shared rows probe.
+ */
+function twoSharedPairs(
+  matrix: Csr,
+  m: number,
+  tails: Tails,
+  tb: number,
+  t: number,
+  withNorms: boolean,
+  out: PairSink,
+  work: JoinCounts,
+): TailIndex {
+  const { rows: n, indptr, indices, values } = matrix;
+  const { tailStart, tailLen, tailRank, tailValue, prefix2 } = tails;
+
+  // Posting lists by rank. Each entry holds the row and the entry's place k
+  // in the row's tail; the ranks of the k tail dimensions below (the entry's
+  // partners) are copied into a second array in the same order, so that a
+  // list is read sequentially.
+  const listStart = new Int32Array(m + 1);
+  const partStart = new Float64Array(m + 1);
+  for (let y = 0; y < n; y++) {
+    const from = tailStart[y]!;
+    const len = tailLen[y]!;
+    for (let k = 0; k < len; k++) {
+      const r = tailRank[from + k]!;
+      listStart[r + 1]!++;
+      partStart[r + 1] += k;
+    }
+  }
+  let chainCap = 0; // the most partners of one list
+  for (let r = 0; r < m; r++) {
+    if (partStart[r + 1]! > chainCap) chainCap = partStart[r + 1]!;
+    listStart[r + 1] += listStart[r]!;
+    partStart[r + 1] += partStart[r]!;
+  }
+  const size = listStart[m]!;
+  const listFill = listStart.slice(0, m);
+  const partFill = partStart.slice(0, m);
+  const listRow = new Int32Array(size);
+  const listK = new Uint8Array(size);
+  const listValue = withNorms ? new Float32Array(size) : new Float32Array(0);
+  const listNorm = withNorms ? new Float64Array(size) : null;
+  const partRank = new Int32Array(partStart[m]!);
+  for (let y = 0; y < n; y++) {
+    const from = tailStart[y]!;
+    const len = tailLen[y]!;
+    let norm2 = prefix2[y]!;
+    for (let k = 0; k < len; k++) {
+      const r = tailRank[from + k]!;
+      const at = listFill[r]!++;
+      listRow[at] = y;
+      listK[at] = k;
+      let o = partFill[r]!;
+      for (let i = 0; i < k; i++) partRank[o++] = tailRank[from + i]!;
+      partFill[r] = o;
+      if (listNorm !== null) {
+        const v = tailValue[from + k]!;
+        listValue[at] = v;
+        listNorm[at] = Math.sqrt(norm2);
+        norm2 += v * v;
+      }
+    }
+  }
+
+  // While the list of rank d is read: chainHead[r] is the last chain entry of
+  // partner rank r (rows of this list whose tail also holds r), -1 if none;
+  // mark[k] === y and yValue[k] describe the tail of the row y being read
+  // (filled only once y meets a chain).
+  const chainHead = new Int32Array(m).fill(-1);
+  const chainRow = new Int32Array(chainCap);
+  const chainNext = new Int32Array(chainCap);
+  const used = new Int32Array(Math.min(chainCap, m));
+  const mark = new Int32Array(m).fill(-1);
+  const yValue = new Float64Array(m);
+  let tailSteps = 0;
+  let verified = 0;
+  for (let d = 0; d < m; d++) {
+    const ls = listStart[d]!;
+    const le = listStart[d + 1]!;
+    if (le - ls < 2) continue;
+    let nc = 0;
+    let nu = 0;
+    let o = partStart[d]!;
+    for (let j = ls; j < le; j++) {
+      const k = listK[j]!;
+      const po = o;
+      o += k;
+      if (k === 0) continue; // d is the row's lowest tail rank: nothing below to share
+      const y = listRow[j]!;
+      const from = tailStart[y]!;
+      const end = from + tailLen[y]!;
+      let marked = false;
+      tailSteps += k;
+      for (let i = po + k - 1; i >= po; i--) {
+        const r = partRank[i]!;
+        for (let c = chainHead[r]!; c >= 0; c = chainNext[c]!) {
+          // Every row z on r's chain shares d and r with y. Walk z's tail:
+          // the pair is taken only here, at its rarest shared tail rank d
+          // and the next rarest r (no other shared rank above r); on the way,
+          // the shared part at ranks >= f (where the later tail starts) and
+          // z's mass below f.
+          if (!marked) {
+            for (let q = from; q < end; q++) {
+              const rq = tailRank[q]!;
+              mark[rq] = y;
+              yValue[rq] = tailValue[q]!;
+            }
+            marked = true;
+          }
+          const z = chainRow[c]!;
+          const zFrom = tailStart[z]!;
+          const zEnd = zFrom + tailLen[z]!;
+          const fz = tailRank[zFrom]!;
+          const fy = tailRank[from]!;
+          const f = fz > fy ? fz : fy;
+          let shared = 0;
+          let zBelow = 0;
+          let first = true;
+          for (let w = zEnd - 1; w >= zFrom; w--) {
+            const rw = tailRank[w]!;
+            const zv = tailValue[w]!;
+            if (mark[rw] === y) {
+              if (rw > r && rw !== d) {
+                first = false;
+                break;
+              }
+              if (rw >= f) shared += zv * yValue[rw]!;
+            }
+            if (rw < f) zBelow += zv * zv;
+          }
+          if (!first) continue;
+          let yBelow = 0;
+          for (let w = from; w < end && tailRank[w]! < f; w++) yBelow += tailValue[w]! * tailValue[w]!;
+          // x . y <= (shared part at ranks >= f) + ‖z < f‖₂ ‖y < f‖₂.
+          if (shared + Math.sqrt((prefix2[z]! + zBelow) * (prefix2[y]! + yBelow)) < tb) continue;
+          verified++;
+          const dot = exactDot(indptr, indices, values, z, y);
+          if (dot >= t) {
+            out.a.push(z < y ? z : y);
+            out.b.push(z < y ? y : z);
+            out.s.push(dot);
+          }
+        }
+        if (chainHead[r]! < 0) used[nu++] = r;
+        chainRow[nc] = y;
+        chainNext[nc] = chainHead[r]!;
+        chainHead[r] = nc++;
+      }
+    }
+    for (let k = 0; k < nu; k++) chainHead[used[k]!] = -1;
+  }
+  work.tailSteps += tailSteps;
+  work.verified += verified;
+  return { start: listStart, row: listRow, value: listValue, norm: listNorm };
+}
+
+/**
+ * Pairs with at least one one-shared row: each one-shared row x, taken by
+ * decreasing maxweight, probes its tail against the one-shared rows before it
+ * (an index built as they are processed) and against all two-shared tails.
+ */
+function oneSharedPairs(
+  matrix: Csr,
+  m: number,
+  rank: Int32Array,
+  mwRank: Float64Array,
+  mwRow: Float64Array,
+  maxNorm: number,
+  tails: Tails,
+  pairIndex: TailIndex,
+  tb: number,
+  t: number,
+  out: PairSink,
+  work: JoinCounts,
+): void {
+  const { rows: n, indptr, indices, values } = matrix;
+  const weight = new Float64Array(n);
+  for (const r of tails.singles) weight[r] = mwRow[r]!;
+  const order = byDecreasingWeight(weight);
+  const live = order.length;
+  const { start, rankOf, valueOf, maxLen } = permuteRows(matrix, order, rank);
+
+  // Indexed tail: from the first dimension at which both
+  // Σ min(maxweight_i, maxweight(y)) · y[i] and maxNorm · ‖y ≤ i‖₂ reach t;
+  // probed tail: from the first at which both Σ maxweight_i · x[i] and
+  // maxNorm · ‖x ≤ i‖₂ do (never later).
+  const indexFrom = new Int32Array(live);
+  const probeFrom = new Int32Array(live);
   const l1 = new Float64Array(live);
-  const listSize = new Int32Array(m);
+  const listStart = new Int32Array(m + 1);
   for (let p = 0; p < live; p++) {
-    const mwx = mwRow[order[p]!]!;
-    const s = rowStart[p]!;
-    const e = rowStart[p + 1]!;
-    let b = 0;
+    const mwy = weight[order[p]!]!;
+    const s = start[p]!;
+    const len = start[p + 1]! - s;
     let norm2 = 0;
     let sum = 0;
-    let k = s;
-    let mwp = 0;
-    for (; k < e; k++) {
-      const v = valueOf[k]!;
-      const r = rankOf[k]!;
-      const w = mwRank[r]! < mwx ? mwRank[r]! : mwx;
-      b += w * v;
-      norm2 += v * v;
-      if (b >= tb && maxNorm * Math.sqrt(norm2) >= tb) break;
-      if (v > mwp) mwp = v;
+    let bIndex = 0;
+    let bProbe = 0;
+    let i1 = len;
+    let p1 = len;
+    for (let k = 0; k < len; k++) {
+      const v = valueOf[s + k]!;
       sum += v;
-    }
-    prefixLen[p] = k - s;
-    mwPrefix[p] = mwp;
-    for (let q = k; q < e; q++) {
-      sum += valueOf[q]!;
-      listSize[rankOf[q]!]!++;
+      norm2 += v * v;
+      if (i1 < len) continue;
+      const w = mwRank[rankOf[s + k]!]!;
+      bIndex += (w < mwy ? w : mwy) * v;
+      bProbe += w * v;
+      if (maxNorm * Math.sqrt(norm2) >= tb) {
+        if (p1 === len && bProbe >= tb) p1 = k;
+        if (bIndex >= tb) i1 = k;
+      }
     }
     l1[p] = sum;
+    indexFrom[p] = i1;
+    probeFrom[p] = p1;
+    for (let k = i1; k < len; k++) listStart[rankOf[s + k]! + 1]!++;
   }
-  const listStart = new Int32Array(m + 1);
-  for (let r = 0; r < m; r++) listStart[r + 1] = listStart[r]! + listSize[r]!;
-  const listFill = new Int32Array(m); // entries appended so far
-  const listHead = new Int32Array(m); // entries dropped from the front so far
+  for (let r = 0; r < m; r++) listStart[r + 1] += listStart[r]!;
+
+  // Inverted index of the one-shared rows' indexed tails, filled as they are processed.
+  const listFill = new Int32Array(m);
+  const listHead = new Int32Array(m);
+  const headL1 = new Float64Array(m);
   const listRow = new Int32Array(listStart[m]!);
   const listVal = new Float32Array(listStart[m]!);
-  const listNorm = new Float64Array(listStart[m]!); // norm of the row's entries before this one
+  const listNorm = new Float64Array(listStart[m]!);
 
-  // Preallocated per-probe buffers.
-  const acc = new Float64Array(live);
-  const upper = new Float64Array(live); // acc + prefix-norm bound, as of the candidate's last match
-  const touched = new Int32Array(live);
+  const seen = new Uint8Array(n);
+  const touched = new Int32Array(n);
   const dense = new Float64Array(m);
-  const rem = new Float64Array(maxLen);
-  const before = new Float64Array(maxLen);
-
-  const outA = new GrowableInt32();
-  const outB = new GrowableInt32();
-  const outS = new GrowableFloat32();
+  const before = new Float64Array(maxLen + 1);
+  const pairNorm = pairIndex.norm!;
+  let scanned = 0;
+  let verified = 0;
 
   for (let p = 0; p < live; p++) {
     const x = order[p]!;
-    const mwx = mwRow[x]!;
-    const s = rowStart[p]!;
-    const e = rowStart[p + 1]!;
-    const lenx = e - s;
-
-    // rem[k]: bound on what x's dimensions 0..k can add to any dot product;
-    // before[k]: the L2 norm of x's dimensions 0..k-1.
-    let run = 0;
+    const mwx = weight[x]!;
+    const s = start[p]!;
+    const lenx = start[p + 1]! - s;
     let norm2 = 0;
     for (let k = 0; k < lenx; k++) {
-      const v = valueOf[s + k]!;
       before[k] = Math.sqrt(norm2);
-      norm2 += v * v;
-      const ap = (run += v * mwRank[rankOf[s + k]!]!);
-      const l2 = maxNorm * Math.sqrt(norm2);
-      rem[k] = ap < l2 ? ap : l2;
+      norm2 += valueOf[s + k]! * valueOf[s + k]!;
     }
 
+    // A row met for the first time is kept if the positional bound allows
+    // (no rarer dimension is shared, so what is left lies below this rank in
+    // both rows); later meetings add nothing.
     let nt = 0;
-    for (let k = lenx - 1; k >= 0; k--) {
-      const remscore = rem[k]!;
-      if (remscore < tb && nt === 0) break; // nothing can start, nothing started
+    for (let k = lenx - 1; k >= probeFrom[p]!; k--) {
       const r = rankOf[s + k]!;
       const xv = valueOf[s + k]!;
       const xb = before[k]!;
       const base = listStart[r]!;
       let h = base + listHead[r]!;
       const end = base + listFill[r]!;
-      while (h < end && mwx * l1[listRow[h]!]! < tb) h++;
-      listHead[r] = h - base;
-      if (remscore >= tb) {
-        for (let j = h; j < end; j++) {
-          const y = listRow[j]!;
-          if (acc[y] === 0) touched[nt++] = y;
-          const a = (acc[y] += xv * listVal[j]!);
-          upper[y] = a + xb * listNorm[j]!;
+      if (h < end && mwx * headL1[r]! < tb) {
+        // Size filter: x . y <= maxweight(x) · ‖y‖₁, and later rows have a smaller maxweight.
+        h++;
+        while (h < end && mwx * l1[listRow[h]!]! < tb) h++;
+        listHead[r] = h - base;
+        headL1[r] = h < end ? l1[listRow[h]!]! : 0;
+      }
+      scanned += end - h;
+      for (let j = h; j < end; j++) {
+        const y = order[listRow[j]!]!;
+        if (seen[y] === 0 && xv * listVal[j]! + xb * listNorm[j]! >= tb) {
+          seen[y] = 1;
+          touched[nt++] = y;
         }
-      } else {
-        for (let j = h; j < end; j++) {
-          const y = listRow[j]!;
-          if (acc[y] === 0) continue;
-          const a = (acc[y] += xv * listVal[j]!);
-          upper[y] = a + xb * listNorm[j]!;
+      }
+      const ps = pairIndex.start[r]!;
+      const pe = pairIndex.start[r + 1]!;
+      scanned += pe - ps;
+      for (let j = ps; j < pe; j++) {
+        const y = pairIndex.row[j]!;
+        if (seen[y] === 0 && xv * pairIndex.value[j]! + xb * pairNorm[j]! >= tb) {
+          seen[y] = 1;
+          touched[nt++] = y;
         }
       }
     }
@@ -231,34 +628,32 @@ export function allPairsCosine(matrix: Csr, threshold: number): SimilarPairs {
       for (let q = indptr[x]!; q < indptr[x + 1]!; q++) dense[indices[q]!] = values[q]!;
       for (let k = 0; k < nt; k++) {
         const y = touched[k]!;
-        const py = prefixLen[y]!;
-        const bound = acc[y]! + (py < lenx ? py : lenx) * mwx * mwPrefix[y]!;
-        acc[y] = 0;
-        if (bound < tb || upper[y]! < tb) continue;
-        // Exact dot product over the full original rows (same sum as rowDot).
-        const yr = order[y]!;
+        seen[y] = 0;
+        // Exact dot product over the full rows (same sum as rowDot).
+        verified++;
         let dot = 0;
-        for (let q = indptr[yr]!; q < indptr[yr + 1]!; q++) dot += dense[indices[q]!]! * values[q]!;
+        for (let q = indptr[y]!; q < indptr[y + 1]!; q++) dot += dense[indices[q]!]! * values[q]!;
         if (dot >= t) {
-          outA.push(yr < x ? yr : x);
-          outB.push(yr < x ? x : yr);
-          outS.push(dot);
+          out.a.push(y < x ? y : x);
+          out.b.push(y < x ? x : y);
+          out.s.push(dot);
         }
       }
       for (let q = indptr[x]!; q < indptr[x + 1]!; q++) dense[indices[q]!] = 0;
     }
 
-    // Index x's suffix from its first indexed dimension (before[] still holds x's prefix norms).
-    for (let k = prefixLen[p]!; k < lenx; k++) {
+    // Index x's tail (before[] holds x's prefix norms).
+    for (let k = indexFrom[p]!; k < lenx; k++) {
       const r = rankOf[s + k]!;
+      if (listHead[r] === listFill[r]) headL1[r] = l1[p]!;
       const at = listStart[r]! + listFill[r]!++;
       listRow[at] = p;
       listVal[at] = valueOf[s + k]!;
       listNorm[at] = before[k]!;
     }
   }
-
-  return { ...sortPairs(outA.toArray(), outB.toArray(), outS.toArray(), n), threshold: t };
+  work.postingsScanned += scanned;
+  work.verified += verified;
 }
 
 /**
@@ -284,51 +679,102 @@ export function rankColumns(count: Int32Array, maxCount: number, descending: boo
 /**
  * Rewrites the rows listed in `order` (processing position p holds row
  * `order[p]`) with their non-zero entries as (rank, value), sorted by rank
- * ascending, by a two-pass bucket by rank. `count[c]` is the number of
- * non-zero entries of column c over all rows.
+ * ascending (ranks are distinct within a row, as columns are). Each row is
+ * sorted on its own (insertion sort for short rows, a bottom-up merge sort
+ * otherwise), so the work stays within the row's cache lines.
  */
 export function permuteRows(
   matrix: Csr,
   order: Int32Array,
   rank: Int32Array,
-  count: Int32Array,
 ): { start: Int32Array; rankOf: Int32Array; valueOf: Float32Array; maxLen: number } {
-  const { cols: m, indptr, indices, values } = matrix;
+  const { rows: n, indptr, indices, values } = matrix;
   const live = order.length;
-  const colStart = new Int32Array(m + 1);
-  for (let c = 0; c < m; c++) colStart[rank[c]! + 1] = count[c]!;
-  for (let r = 0; r < m; r++) colStart[r + 1] += colStart[r]!;
-  const nnz = colStart[m]!;
-  const colFill = colStart.slice(0, m);
-  const colRow = new Int32Array(nnz);
-  const colVal = new Float32Array(nnz);
+  // The source rows are read in their own order (sequentially), each written to its position.
+  const posOf = new Int32Array(n).fill(-1);
+  for (let p = 0; p < live; p++) posOf[order[p]!] = p;
   const start = new Int32Array(live + 1);
   let maxLen = 0;
-  for (let p = 0; p < live; p++) {
-    const row = order[p]!;
+  for (let r = 0; r < n; r++) {
+    const p = posOf[r]!;
+    if (p < 0) continue;
     let len = 0;
-    for (let e = indptr[row]!; e < indptr[row + 1]!; e++) {
-      const v = values[e]!;
-      if (v === 0) continue;
-      const at = colFill[rank[indices[e]!]!]!++;
-      colRow[at] = p;
-      colVal[at] = v;
-      len++;
-    }
-    start[p + 1] = start[p]! + len;
+    for (let e = indptr[r]!; e < indptr[r + 1]!; e++) if (values[e] !== 0) len++;
+    start[p + 1] = len;
     if (len > maxLen) maxLen = len;
   }
-  const fill = start.slice(0, live);
+  for (let p = 0; p < live; p++) start[p + 1] += start[p]!;
+  const nnz = start[live]!;
   const rankOf = new Int32Array(nnz);
   const valueOf = new Float32Array(nnz);
-  for (let r = 0; r < m; r++) {
-    for (let k = colStart[r]!; k < colStart[r + 1]!; k++) {
-      const at = fill[colRow[k]!]!++;
-      rankOf[at] = r;
-      valueOf[at] = colVal[k]!;
+  const scratchRank = new Int32Array(maxLen);
+  const scratchValue = new Float32Array(maxLen);
+  for (let r = 0; r < n; r++) {
+    const p = posOf[r]!;
+    if (p < 0) continue;
+    let at = start[p]!;
+    for (let e = indptr[r]!; e < indptr[r + 1]!; e++) {
+      const v = values[e]!;
+      if (v === 0) continue;
+      rankOf[at] = rank[indices[e]!]!;
+      valueOf[at++] = v;
     }
+    sortByRank(rankOf, valueOf, start[p]!, at, scratchRank, scratchValue);
   }
   return { start, rankOf, valueOf, maxLen };
+}
+
+/** Runs this long or shorter are sorted by insertion. */
+const INSERTION_RUN = 32;
+
+/** Sorts `rankOf/valueOf[from..to)` by rank (distinct keys), using the scratch arrays (length >= to - from). */
+function sortByRank(rankOf: Int32Array, valueOf: Float32Array, from: number, to: number, scratchRank: Int32Array, scratchValue: Float32Array): void {
+  for (let lo = from; lo < to; lo += INSERTION_RUN) {
+    const hi = lo + INSERTION_RUN < to ? lo + INSERTION_RUN : to;
+    for (let i = lo + 1; i < hi; i++) {
+      const r = rankOf[i]!;
+      const v = valueOf[i]!;
+      let j = i - 1;
+      while (j >= lo && rankOf[j]! > r) {
+        rankOf[j + 1] = rankOf[j]!;
+        valueOf[j + 1] = valueOf[j]!;
+        j--;
+      }
+      rankOf[j + 1] = r;
+      valueOf[j + 1] = v;
+    }
+  }
+  // Bottom-up merges of the sorted runs, through the scratch arrays and back.
+  for (let width = INSERTION_RUN; width < to - from; width *= 2) {
+    for (let lo = from; lo < to; lo += 2 * width) {
+      const mid = lo + width < to ? lo + width : to;
+      const hi = lo + 2 * width < to ? lo + 2 * width : to;
+      let i = lo;
+      let j = mid;
+      let k = 0;
+      while (i < mid && j < hi) {
+        if (rankOf[i]! < rankOf[j]!) {
+          scratchRank[k] = rankOf[i]!;
+          scratchValue[k++] = valueOf[i++]!;
+        } else {
+          scratchRank[k] = rankOf[j]!;
+          scratchValue[k++] = valueOf[j++]!;
+        }
+      }
+      while (i < mid) {
+        scratchRank[k] = rankOf[i]!;
+        scratchValue[k++] = valueOf[i++]!;
+      }
+      while (j < hi) {
+        scratchRank[k] = rankOf[j]!;
+        scratchValue[k++] = valueOf[j++]!;
+      }
+      for (let q = 0; q < k; q++) {
+        rankOf[lo + q] = scratchRank[q]!;
+        valueOf[lo + q] = scratchValue[q]!;
+      }
+    }
+  }
 }
 
 /**

@@ -251,7 +251,7 @@ export function allPairsResemblance(shingles: Csr, threshold: number): SimilarPa
   const order = new Int32Array(live);
   for (let r = 0, k = 0; r < n; r++) if (setSize[r]! > 0) order[k++] = r;
   order.sort((x, y) => setSize[x]! - setSize[y]! || x - y);
-  const { start, rankOf } = permuteRows(shingles, order, rank, freq);
+  const { start, rankOf } = permuteRows(shingles, order, rank);
 
   // Prefix length per row; posting lists sized exactly.
   const prefix = new Int32Array(live);
