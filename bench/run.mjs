@@ -226,11 +226,16 @@ if (PEER) {
   delete env.OPENBLAS_CORETYPE;
   delete env.OPENBLAS_L2_SIZE;
   for (const inp of inputs) {
+    const json = path.join(outDir, `${inp.name}.peer.json`);
     if (inp.synthetic && inp.n > PEER_MAX) {
-      log(`bench: peer skipped on ${inp.name} (above --peer-max ${sizeName(PEER_MAX)})`);
+      const old = REUSE && existsSync(json) ? JSON.parse(readFileSync(json, 'utf8')) : null;
+      if (old?.partial && old.k === K && old.threshold === T && old.minDf === MIN_DF) {
+        log(`bench: peer on ${inp.name}: reusing the stages an earlier, stopped run finished`);
+        reused.push(`peer ${inp.name} (stopped: ${old.stoppedBy})`);
+        failures.push({ who: 'peer', input: inp.name, code: null, signal: null, timedOut: false, stoppedBy: old.stoppedBy, tail: 'earlier run', wallMs: old.wallMs, partial: old });
+      } else log(`bench: peer skipped on ${inp.name} (above --peer-max ${sizeName(PEER_MAX)})`);
       continue;
     }
-    const json = path.join(outDir, `${inp.name}.peer.json`);
     if (existsSync(json)) {
       const old = JSON.parse(readFileSync(json, 'utf8'));
       if (REUSE && old.k === K && old.threshold === T && old.minDf === MIN_DF && (old.threadLimit ?? 0) === PEER_THREADS && old.generatorBytes === inp.bytes) {
@@ -248,6 +253,10 @@ if (PEER) {
     const r = await runChild(PYTHON, args, env, `peer ${inp.name}`);
     if (r.code !== 0 || !existsSync(json) || JSON.parse(readFileSync(json, 'utf8')).partial) {
       const part = existsSync(json) ? JSON.parse(readFileSync(json, 'utf8')) : null;
+      if (part?.partial) {
+        Object.assign(part, { k: K, threshold: T, minDf: MIN_DF, wallMs: r.wallMs, stoppedBy: r.timedOut ? `time limit (--timeout-min ${TIMEOUT_MS / 60000})` : `exit ${r.code}${r.signal ? `, signal ${r.signal}` : ''}` });
+        writeFileSync(json, JSON.stringify(part, null, 2) + '\n');
+      }
       failures.push({ who: 'peer', input: inp.name, code: r.code, signal: r.signal, timedOut: r.timedOut, tail: r.stderrTail.trim().split('\n').slice(-2).join(' / '), wallMs: r.wallMs, partial: part?.partial ? part : null });
       log(`bench: peer on ${inp.name} FAILED (exit ${r.code})`);
       continue;
@@ -577,6 +586,24 @@ if (peers.size) {
     say(`NMI vs planted ${nm.startsWith('synth') ? 'topics' : 'classes'}: ours **${f3(r.nmi)}**, peer **${f3(p.nmi)}**. Terms: ours ${f0(r.terms)}, peer ${f0(p.terms)}. k-means passes: ours ${r.kmeans?.iterations} (kept restart), peer ${p.kmeans.iterations} (best init). Near-duplicate pairs: ours ${f0(r.duplicates.pairs)}, peer ${f0(p.duplicates.pairs)}${r.planted && p.planted ? `; planted pairs found: ours ${f1(100 * r.planted.recall)}%, peer ${f1(100 * p.planted.recall)}%` : ''}.`);
     say();
   }
+  for (const f of failures) {
+    const r = ours.get(f.input);
+    if (f.who !== 'peer' || !f.partial || !r) continue;
+    say(`### ${f.input} (${f0(r.docs)} documents) — the peer did not finish (${f.partial.running ? `stopped during ${f.partial.running}` : 'stopped'})`);
+    say();
+    const rows = [];
+    for (const q of f.partial.stages) {
+      const o = r.stages.find((s) => s.stage === q.stage);
+      if (!o) continue;
+      rows.push([q.stage, sec(o.ms), sec(q.ms), f2(q.ms / o.ms) + '×', sec(o.cpuMs), sec(q.cpuMs), f2(q.cpuMs / o.cpuMs) + '×', mb(o.peakRss), mb(q.peakRss), f2(q.peakRss / o.peakRss) + '×']);
+    }
+    const running = f.partial.running && r.stages.find((s) => s.stage === f.partial.running);
+    if (running) rows.push([`${f.partial.running} (peer stopped)`, sec(running.ms), `> ${sec(f.wallMs - f.partial.stages.reduce((t, s) => t + s.ms, 0))}`, '', '', '', '', '', '', '']);
+    say(table(['stage', 'ours wall', 'peer wall', 'wall peer / ours', 'ours CPU', 'peer CPU', 'CPU peer / ours', 'ours peak MB', 'peer peak MB', 'RSS peer / ours'], rows));
+    say();
+    if (r.kmeans?.miniBatch) say(`Ours ran k-means as mini-batch steps here (the library default at this size) and the peer full Lloyd passes (\`KMeans\`), so the k-means row compares the defaults a user gets, not one algorithm.`);
+    say();
+  }
   if (synthNames.length >= 2) {
     const pn = synthNames.filter((nm) => peers.has(nm));
     if (pn.length >= 2) {
@@ -593,7 +620,8 @@ if (failures.length) {
   say('## Runs that did not finish');
   say();
   for (const f of failures) {
-    say(`- ${f.who} on ${f.input}: ${f.timedOut ? `stopped at the time limit (--timeout-min ${TIMEOUT_MS / 60000})` : `exit ${f.code}${f.signal ? `, signal ${f.signal}` : ''}`} after ${sec(f.wallMs)} — ${f.tail.replace(/\|/g, '/')}`);
+    const why = f.stoppedBy ? `stopped: ${f.stoppedBy}` : f.timedOut ? `stopped at the time limit (--timeout-min ${TIMEOUT_MS / 60000})` : `exit ${f.code}${f.signal ? `, signal ${f.signal}` : ''}`;
+    say(`- ${f.who} on ${f.input}: ${why} after ${sec(f.wallMs)} — ${f.tail.replace(/\|/g, '/')}`);
     const p = f.partial;
     if (p) {
       say(`  - still running when stopped: **${p.running ?? 'unknown'}**`);
