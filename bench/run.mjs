@@ -345,8 +345,9 @@ function endToEnd(res) {
 }
 
 function kmText(km) {
-  const how = km.miniBatch ? `mini-batch (${km.batches} steps in the kept restart${km.iterations ? `, then ${km.iterations} full passes` : ''})` : `${km.iterations} full passes in the kept restart`;
-  const skip = km.skipped != null && km.scored != null && km.scored + km.skipped > 0 ? `; the bounds settled ${f1((100 * km.skipped) / (km.scored + km.skipped))}% of row scorings without scoring all k` : '';
+  const passes = (m) => `${m} full pass${m === 1 ? '' : 'es'}`;
+  const how = km.miniBatch ? `mini-batch (${km.batches} steps in the kept restart${km.iterations ? `, then ${passes(km.iterations)}` : ''})` : `${passes(km.iterations)} in the kept restart`;
+  const skip = km.skipped != null && km.scored != null && km.scored + km.skipped > 0 && !(km.miniBatch && km.skipped === 0) ? `; the bounds settled ${f1((100 * km.skipped) / (km.scored + km.skipped))}% of row scorings without scoring all k` : '';
   return `${km.restarts} restarts, ${how} (${km.converged ? 'converged' : 'hit the cap'})${skip}`;
 }
 
