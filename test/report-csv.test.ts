@@ -43,3 +43,16 @@ describe('terminal tables', () => {
     expect(clip('漢字漢字', 5)).toBe('漢字…');
   });
 });
+
+describe('CSV in pieces', () => {
+  it('gives the same text as one string, however it is cut', async () => {
+    const { csvChunks } = await import('../src/report/csv.js');
+    const rows = Array.from({ length: 25 }, (_, i) => [String(i), i % 3 ? 'plain' : 'a,"b"\n=c']);
+    const whole = csvText(['id', 'text'], rows);
+    for (const per of [1, 2, 7, 25, 100]) {
+      const pieces = [...csvChunks(['id', 'text'], rows, per)];
+      expect(pieces.join('')).toBe(whole);
+      expect(pieces.length).toBe(Math.ceil(26 / per));
+    }
+  });
+});

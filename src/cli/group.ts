@@ -21,7 +21,7 @@ import { vectorizeRunner } from '../parallel/analyze-runner.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
 import { availableParallelism } from 'node:os';
 import {
-  documentsCsv,
+  documentsCsvChunks,
   documentTreeNewick,
   evaluateLabels,
   evaluationJson,
@@ -31,7 +31,7 @@ import {
   treeNewick,
   type Evaluation,
 } from '../report/outputs.js';
-import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
+import { assertReplaceable, writeOutputFolder, type FileContent } from '../report/folder.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copies.js';
 import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
@@ -384,10 +384,11 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const dupMs = now() - td;
 
   const tw = now();
-  const files = new Map<string, string>();
+  const files = new Map<string, FileContent>();
   const groupsDoc = groupsJson(result);
   if (command === 'group') {
-    files.set('documents.csv', documentsCsv(result, near ? { duplicateSet: near.setOf } : {}));
+    // In pieces of 10k rows: never one string (a string holds at most ~537M characters).
+    files.set('documents.csv', [...documentsCsvChunks(result, near ? { duplicateSet: near.setOf } : {})]);
     files.set('groups.json', jsonText(groupsDoc));
     if (near && dupOptions) {
       const src = { docs: result.docs, by: 'tfidf', threshold: dupOptions.threshold, sets: near.sets, pairs: near.pairs, setOf: near.setOf };

@@ -35,9 +35,24 @@ export function csvRecord(cells: readonly string[]): string {
 
 /** A whole CSV text: header then rows, CRLF after every record. */
 export function csvText(header: readonly string[], rows: Iterable<readonly string[]>): string {
-  const parts: string[] = [csvRecord(header)];
-  for (const row of rows) parts.push(csvRecord(row));
-  return parts.join('\r\n') + '\r\n';
+  return [...csvChunks(header, rows)].join('');
+}
+
+/**
+ * The same CSV text as {@link csvText}, in pieces of about `rowsPerChunk`
+ * records, for files too large to hold as one string (a JavaScript string
+ * holds at most ~537M characters).
+ */
+export function* csvChunks(header: readonly string[], rows: Iterable<readonly string[]>, rowsPerChunk = 10_000): Generator<string> {
+  let parts: string[] = [csvRecord(header)];
+  for (const row of rows) {
+    parts.push(csvRecord(row));
+    if (parts.length >= rowsPerChunk) {
+      yield parts.join('\r\n') + '\r\n';
+      parts = [];
+    }
+  }
+  if (parts.length > 0) yield parts.join('\r\n') + '\r\n';
 }
 
 /** Formats a number for CSV/JSON output with a fixed number of decimals, without a trailing "-0". */

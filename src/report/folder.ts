@@ -6,7 +6,7 @@
  *
  * @module
  */
-import { mkdir, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { mkdir, open, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import { UsageError } from '../util/errors.js';
@@ -15,7 +15,10 @@ import { UsageError } from '../util/errors.js';
 export const MARKER = '.sheaf-output';
 
 /** Writes `files` (name → content) as folder `dir`, replacing an earlier sheaf output there. Returns the file paths written. */
-export async function writeOutputFolder(dir: string, files: ReadonlyMap<string, string | Uint8Array>): Promise<string[]> {
+/** A file's content: text, bytes, or text in pieces (written one after another, never joined in memory). */
+export type FileContent = string | Uint8Array | Iterable<string>;
+
+export async function writeOutputFolder(dir: string, files: ReadonlyMap<string, FileContent>): Promise<string[]> {
   const target = path.resolve(dir);
   await assertReplaceable(target, dir);
   const parent = path.dirname(target);
@@ -28,7 +31,7 @@ export async function writeOutputFolder(dir: string, files: ReadonlyMap<string, 
     for (const [name, content] of files) {
       const file = path.join(staging, name);
       await mkdir(path.dirname(file), { recursive: true });
-      await writeFile(file, content);
+      await writeContent(file, content);
     }
     const existing = await exists(target);
     if (existing) {
@@ -68,6 +71,19 @@ export async function assertReplaceable(target: string, shown: string = target):
     `output folder ${shown} already exists and was not written by sheaf; choose another --out or empty it`,
     'out',
   );
+}
+
+async function writeContent(file: string, content: FileContent): Promise<void> {
+  if (typeof content === 'string' || content instanceof Uint8Array) {
+    await writeFile(file, content);
+    return;
+  }
+  const handle = await open(file, 'wx');
+  try {
+    for (const chunk of content) await handle.write(chunk);
+  } finally {
+    await handle.close();
+  }
 }
 
 async function exists(p: string): Promise<boolean> {

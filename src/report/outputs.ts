@@ -8,7 +8,7 @@ import type { GroupResult } from '../pipeline.js';
 import { treeToJson } from '../cluster/tree.js';
 import { toNewick } from '../cluster/newick.js';
 import { encodeLabels, externalScores, type ExternalScores } from '../evaluate/index.js';
-import { csvText, fixed } from './csv.js';
+import { csvChunks, fixed } from './csv.js';
 
 /** Columns sheaf puts first in `documents.csv`. */
 export const DOCUMENT_COLUMNS = ['id', 'group', 'label', 'fit', 'duplicate_set'] as const;
@@ -26,6 +26,11 @@ export interface DocumentExtras {
  * written as `input_<name>`. Documents with no terms have an empty group.
  */
 export function documentsCsv(result: GroupResult, extras: DocumentExtras = {}): string {
+  return [...documentsCsvChunks(result, extras)].join('');
+}
+
+/** {@link documentsCsv} in pieces, for writing inputs too large for one string. */
+export function documentsCsvChunks(result: GroupResult, extras: DocumentExtras = {}): Generator<string> {
   const own = new Set<string>(DOCUMENT_COLUMNS);
   const userColumns: string[] = [];
   const seen = new Set<string>();
@@ -57,7 +62,7 @@ export function documentsCsv(result: GroupResult, extras: DocumentExtras = {}): 
       yield row;
     }
   }
-  return csvText(header, rows());
+  return csvChunks(header, rows());
 }
 
 /** The shape of `groups.json`. */
