@@ -353,10 +353,11 @@ function twoSharedPairs(
   const { rows: n, indptr, indices, values } = matrix;
   const { tailStart, tailLen, tailRank, tailValue, prefix2 } = tails;
 
-  // Posting lists by rank. Each entry holds the row and the entry's place k
-  // in the row's tail; the ranks of the k tail dimensions below (the entry's
-  // partners) are copied into a second array in the same order, so that a
-  // list is read sequentially.
+  // Posting lists by rank. Each entry holds the row, the entry's place k in
+  // the row's tail, its value and ‖row before its tail‖₂²; the ranks and
+  // values of the k tail dimensions below (the entry's partners) are copied
+  // into two more arrays in the same order, so that a list is read
+  // sequentially.
   const listStart = new Int32Array(m + 1);
   const partStart = new Float64Array(m + 1);
   for (let y = 0; y < n; y++) {
@@ -379,9 +380,11 @@ function twoSharedPairs(
   const partFill = partStart.slice(0, m);
   const listRow = new Int32Array(size);
   const listK = new Uint8Array(size);
-  const listValue = withNorms ? new Float32Array(size) : new Float32Array(0);
+  const listValue = new Float32Array(size);
+  const listPre = new Float64Array(size);
   const listNorm = withNorms ? new Float64Array(size) : null;
   const partRank = new Int32Array(partStart[m]!);
+  const partValue = new Float32Array(partStart[m]!);
   for (let y = 0; y < n; y++) {
     const from = tailStart[y]!;
     const len = tailLen[y]!;
@@ -389,14 +392,18 @@ function twoSharedPairs(
     for (let k = 0; k < len; k++) {
       const r = tailRank[from + k]!;
       const at = listFill[r]!++;
+      const v = tailValue[from + k]!;
       listRow[at] = y;
       listK[at] = k;
+      listValue[at] = v;
+      listPre[at] = prefix2[y]!;
       let o = partFill[r]!;
-      for (let i = 0; i < k; i++) partRank[o++] = tailRank[from + i]!;
+      for (let i = 0; i < k; i++) {
+        partRank[o] = tailRank[from + i]!;
+        partValue[o++] = tailValue[from + i]!;
+      }
       partFill[r] = o;
       if (listNorm !== null) {
-        const v = tailValue[from + k]!;
-        listValue[at] = v;
         listNorm[at] = Math.sqrt(norm2);
         norm2 += v * v;
       }
@@ -409,7 +416,11 @@ function twoSharedPairs(
   // (filled only once y meets a chain).
   const chainHead = new Int32Array(m).fill(-1);
   const chainRow = new Int32Array(chainCap);
+  const chainAtD = new Float32Array(chainCap); // the row's value at d
+  const chainAtR = new Float32Array(chainCap); // its value at r
+  const chainBelow = new Float64Array(chainCap); // ‖row < r‖₂
   const chainNext = new Int32Array(chainCap);
+  const below = new Float64Array(MAX_PAIR_TAIL);
   const used = new Int32Array(Math.min(chainCap, m));
   const mark = new Int32Array(m).fill(-1);
   const yValue = new Float64Array(m);
@@ -428,25 +439,37 @@ function twoSharedPairs(
       o += k;
       if (k === 0) continue; // d is the row's lowest tail rank: nothing below to share
       const y = listRow[j]!;
-      const from = tailStart[y]!;
-      const end = from + tailLen[y]!;
-      let marked = false;
+      const yAtD = listValue[j]!;
+      let from = -1; // y's tail, read once y gets past the first bound with some z
+      let end = -1;
       tailSteps += k;
-      for (let i = po + k - 1; i >= po; i--) {
-        const r = partRank[i]!;
+      let norm2 = listPre[j]!;
+      for (let i = 0; i < k; i++) {
+        below[i] = Math.sqrt(norm2);
+        const v = partValue[po + i]!;
+        norm2 += v * v;
+      }
+      for (let i = k - 1; i >= 0; i--) {
+        const r = partRank[po + i]!;
+        const yAtR = partValue[po + i]!;
+        const yBelowR = below[i]!;
         for (let c = chainHead[r]!; c >= 0; c = chainNext[c]!) {
-          // Every row z on r's chain shares d and r with y. Walk z's tail:
-          // the pair is taken only here, at its rarest shared tail rank d
-          // and the next rarest r (no other shared rank above r); on the way,
-          // the shared part at ranks >= f (where the later tail starts) and
-          // z's mass below f.
-          if (!marked) {
+          // Every row z on r's chain shares d and r with y. The pair is taken
+          // only where d is its rarest shared tail rank and r the next rarest;
+          // then everything else shared lies below r, and
+          // x . y <= z[d] y[d] + z[r] y[r] + ‖z < r‖₂ ‖y < r‖₂.
+          if (chainAtD[c]! * yAtD + chainAtR[c]! * yAtR + chainBelow[c]! * yBelowR < tb) continue;
+          // Walk z's tail: check that (d, r) is the pair's place (no other
+          // shared rank above r) and, on the way, sum the shared part at
+          // ranks >= f (where the later tail starts) and z's mass below f.
+          if (from < 0) {
+            from = tailStart[y]!;
+            end = from + tailLen[y]!;
             for (let q = from; q < end; q++) {
               const rq = tailRank[q]!;
               mark[rq] = y;
               yValue[rq] = tailValue[q]!;
             }
-            marked = true;
           }
           const z = chainRow[c]!;
           const zFrom = tailStart[z]!;
@@ -484,6 +507,9 @@ function twoSharedPairs(
         }
         if (chainHead[r]! < 0) used[nu++] = r;
         chainRow[nc] = y;
+        chainAtD[nc] = yAtD;
+        chainAtR[nc] = yAtR;
+        chainBelow[nc] = yBelowR;
         chainNext[nc] = chainHead[r]!;
         chainHead[r] = nc++;
       }
