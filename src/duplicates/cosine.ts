@@ -2,43 +2,49 @@
  * Exact all-pairs cosine similarity join over sparse non-negative rows.
  *
  * Prefix filtering in the manner of Bayardo, Ma & Srikant, "Scaling up all
- * pairs similarity search" (WWW 2007), with the prefix L2-norm bounds of
- * Anastasiu & Karypis, "L2AP: Fast cosine similarity search with prefix L-2
- * norm bounds" (ICDE 2014), and the idea of AdaptJoin (Wang, Li & Feng, "Can
- * we beat the prefix filtering? An adaptive framework for similarity join and
- * search", SIGMOD 2012; all three from memory) of asking for two shared
- * entries in a slightly longer tail rather than one in the shortest. In
- * detail:
+ * pairs similarity search" (WWW 2007), with the prefix L2-norm and positional
+ * bounds of Anastasiu & Karypis, "L2AP: Fast cosine similarity search with
+ * prefix L-2 norm bounds" (ICDE 2014), and the idea of AdaptJoin (Wang, Li &
+ * Feng, "Can we beat the prefix filtering? An adaptive framework for
+ * similarity join and search", SIGMOD 2012) of asking for two shared entries
+ * in a slightly longer prefix rather than one in the shortest (all three from
+ * memory; the two-shared bound below is derived here for cosine). In detail:
  *
  * - Dimension order: decreasing document frequency (ties: lower column
- *   first); every row is rewritten in that order, so its *tail* is its rarest
- *   dimensions and its *prefix* (`y < s`) the others.
- * - Two-shared tails. For a row y the tail starts at the largest s with
- *   `maxNorm · sqrt(‖y < s‖₂² + max(y[s..])²) < t` (maxNorm: the largest row
- *   norm). If two rows x, y of this kind shared at most one dimension d lying
- *   in both tails, say y's tail starts later (at s), then
+ *   first). A row's *tail* is its entries of highest rank (its rarest
+ *   dimensions); `y < s` is the rest.
+ * - Two-shared tails. A row's tail is the shortest one with
+ *   `maxNorm · sqrt(‖y < s‖₂² + max(tail)²) < t` (maxNorm: the largest row
+ *   norm), found by taking entries by decreasing rank (only the tail is ever
+ *   ordered). If two rows x, y with such tails shared at most one dimension d
+ *   lying in both tails, say y's tail starts at the higher rank s, then
  *   `x · y <= x[d] y[d] + ‖x < s‖₂ ‖y < s‖₂ <= ‖x‖₂ · sqrt(y[d]² + ‖y < s‖₂²) < t`
  *   (Cauchy–Schwarz twice). So a pair reaching t shares at least two tail
- *   dimensions. These pairs are found per dimension d: among the rows whose
- *   tail holds d, two rows are a candidate when they also share a tail
- *   dimension ranked below d (a chain per such dimension). Each candidate is
- *   taken once, at its rarest shared tail dimension d and the next rarest
- *   below it, so no pair is scored twice, and random pairs that share one
- *   rare word are never touched.
+ *   dimensions, and random pairs that share one rare word are never looked at.
+ * - These pairs are found per rank d: the rows whose tail holds d are read
+ *   in turn, and each is put on a chain for every tail rank r below d; a row
+ *   meeting an earlier one on a chain shares d and r with it. A pair is taken
+ *   only where d is its rarest shared tail rank and r the next rarest, hence
+ *   once. There, first the positional bound
+ *   `x · y <= x[d] y[d] + x[r] y[r] + ‖x < r‖₂ ‖y < r‖₂` (from values and
+ *   norms carried by the chain entries), then a walk of both tails that
+ *   checks (d, r) is the pair's place and bounds
+ *   `x · y <= (shared part at ranks >= f) + ‖x < f‖₂ ‖y < f‖₂` (f: the higher
+ *   of the two tail starts), then the exact dot product.
  * - One-shared rows: a row whose largest value alone could reach t has no
- *   such tail (as has, by choice, a row whose tail would exceed
+ *   such tail (nor, by choice, a row whose tail would exceed
  *   {@link MAX_PAIR_TAIL} entries). It keeps the All-Pairs tails: indexed from
  *   the first dimension at which both `Σ min(maxweight_i, maxweight(y)) · y[i]`
- *   and `maxNorm · ‖y ≤ i‖₂` reach t (rows processed by decreasing
+ *   and `maxNorm · ‖y ≤ i‖₂` reach t (these rows processed by decreasing
  *   maxweight), probed from the first at which both `Σ maxweight_i · x[i]` and
  *   `maxNorm · ‖x ≤ i‖₂` do. The same two-case argument shows that a pair with
- *   at least one such row, if it reaches t, shares a dimension in both rows'
- *   tails; these pairs are found by probing the one-shared rows' tails
- *   against an inverted index of the other one-shared rows (built as they are
- *   processed) and one of all two-shared tails, with the positional bound of
- *   L2AP at the first meeting (`x · y <= x[d] y[d] + ‖x < d‖₂ ‖y < d‖₂`, no
- *   rarer dimension being shared) and Bayardo's size filter
- *   (`x · y <= maxweight(x) · ‖y‖₁`, pruning posting lists from the front).
+ *   at least one such row, if it reaches t, shares a dimension lying in both
+ *   rows' tails. These pairs are found by probing each one-shared row's tail
+ *   against an inverted index of the one-shared rows before it and against one
+ *   of all two-shared tails, with L2AP's positional bound at the first
+ *   meeting (`x · y <= x[d] y[d] + ‖x < d‖₂ ‖y < d‖₂`, no rarer dimension
+ *   being shared) and Bayardo's size filter (`x · y <= maxweight(x) · ‖y‖₁`,
+ *   pruning posting lists from the front).
  *
  * Every bound is a true upper bound for non-negative rows whatever their norm
  * (unit length is needed only for the dot product to be the cosine), and the
@@ -48,8 +54,11 @@
  * {@link rowDot}: a brute-force reference using the same arithmetic decides
  * ties at the threshold identically.
  *
- * Memory: O(nnz + rows + cols) working arrays plus the pairs found (growable
- * buffers that double); never an n × n matrix, and no list of candidates.
+ * Memory: O(nnz + rows + cols) working arrays — the tails, their inverted
+ * index, and for each tail entry a copy of the tail ranks below it (at most
+ * (MAX_PAIR_TAIL - 1) / 2 per entry on average, about 3 on text) — plus the
+ * pairs found (growable buffers that double); never an n × n matrix, and no
+ * list of candidates.
  *
  * @module
  */

@@ -12,7 +12,7 @@ import { allPairsCosine, type SimilarPairs } from './cosine.js';
 import { resolveDuplicatesOptions, type DuplicatesOptions } from './options.js';
 import { duplicateSets, type DuplicateSets } from './sets.js';
 
-export { allPairsCosine, type SimilarPairs } from './cosine.js';
+export { allPairsCosine, MAX_PAIR_TAIL, type JoinCounts, type SimilarPairs } from './cosine.js';
 export { rowDot } from './csr.js';
 export { duplicateSets, exactCopies, type DuplicateSet, type DuplicateSetOptions, type DuplicateSets } from './sets.js';
 export { wordShingles, shingleMatrix, allPairsResemblance, resemblance, containment } from './shingles.js';
