@@ -90,6 +90,9 @@ const PRUNE_SLACK = 1e-7;
  */
 export const MAX_PAIR_TAIL = 64;
 
+/** Highest ranks of a row kept on the first pass when looking for its tail. */
+const TOP_FIRST = 12;
+
 /** Work counters of one join, for tests and benchmarks (not part of the result). */
 export interface JoinCounts {
   /** Rows with a two-shared tail. */
@@ -253,23 +256,78 @@ function twoSharedTails(matrix: Csr, rank: Int32Array, maxNorm: number, maxLen: 
   const singles = new GrowableInt32();
   const sr = new Int32Array(maxLen);
   const sv = new Float32Array(maxLen);
+  const topRank = new Int32Array(TOP_FIRST);
+  const topValue = new Float32Array(TOP_FIRST);
   for (let r = 0; r < n; r++) {
+    tailStart[r] = tailRank.length;
+    // Copy the row as (rank, value) and keep its TOP_FIRST highest ranks,
+    // ascending, in topRank/topValue (most entries fail the first test).
     let len = 0;
     let norm2 = 0;
+    let kept = 0;
     for (let e = indptr[r]!; e < indptr[r + 1]!; e++) {
       const v = values[e]!;
       if (v === 0) continue;
-      sr[len] = rank[indices[e]!]!;
+      const rk = rank[indices[e]!]!;
+      sr[len] = rk;
       sv[len++] = v;
       norm2 += v * v;
+      if (kept < TOP_FIRST) {
+        let j = kept++;
+        while (j > 0 && topRank[j - 1]! > rk) {
+          topRank[j] = topRank[j - 1]!;
+          topValue[j] = topValue[j - 1]!;
+          j--;
+        }
+        topRank[j] = rk;
+        topValue[j] = v;
+      } else if (rk > topRank[0]!) {
+        let j = 1;
+        while (j < TOP_FIRST && topRank[j]! < rk) {
+          topRank[j - 1] = topRank[j]!;
+          topValue[j - 1] = topValue[j]!;
+          j++;
+        }
+        topRank[j - 1] = rk;
+        topValue[j - 1] = v;
+      }
     }
-    tailStart[r] = tailRank.length;
     if (len === 0) continue;
-    // After i steps sr/sv[len - i .. len) hold the i highest ranks, ascending.
+    // The tail of i entries qualifies when maxNorm · sqrt(‖rest‖₂² + max²) < t.
     let tail2 = 0;
     let big = 0;
     let i = 0;
     let found = false;
+    for (;;) {
+      const rest = norm2 - tail2 > 0 ? norm2 - tail2 : 0;
+      if (maxNorm * Math.sqrt(rest + big * big) < tb) {
+        found = true;
+        break;
+      }
+      if (i === kept || i === MAX_PAIR_TAIL) break;
+      const vk = topValue[kept - 1 - i]!;
+      tail2 += vk * vk;
+      if (vk > big) big = vk;
+      i++;
+    }
+    if (found) {
+      prefix2[r] = norm2 - tail2 > 0 ? norm2 - tail2 : 0;
+      tailLen[r] = i;
+      for (let k = kept - i; k < kept; k++) {
+        tailRank.push(topRank[k]!);
+        tailValue.push(topValue[k]!);
+      }
+      continue;
+    }
+    if (kept === len || i === MAX_PAIR_TAIL) {
+      singles.push(r);
+      continue;
+    }
+    // A longer tail: go on by selection over the whole row; after i steps
+    // sr/sv[len - i .. len) hold the i highest ranks, ascending.
+    tail2 = 0;
+    big = 0;
+    i = 0;
     for (;;) {
       const rest = norm2 - tail2 > 0 ? norm2 - tail2 : 0;
       if (maxNorm * Math.sqrt(rest + big * big) < tb) {
@@ -294,9 +352,7 @@ function twoSharedTails(matrix: Csr, rank: Int32Array, maxNorm: number, maxLen: 
       singles.push(r);
       continue;
     }
-    let pre2 = 0;
-    for (let k = 0; k < len - i; k++) pre2 += sv[k]! * sv[k]!;
-    prefix2[r] = pre2;
+    prefix2[r] = norm2 - tail2 > 0 ? norm2 - tail2 : 0;
     tailLen[r] = i;
     for (let k = len - i; k < len; k++) {
       tailRank.push(sr[k]!);
@@ -534,6 +590,13 @@ function twoSharedPairs(
  * Pairs with at least one one-shared row: each one-shared row x, taken by
  * decreasing maxweight, probes its tail against the one-shared rows before it
  * (an index built as they are processed) and against all two-shared tails.
+ * Rows met for the first time in x's probed tail become candidates (when the
+ * positional bound allows); x's lower dimensions then only add to their
+ * scores, down to the lowest rank any candidate has indexed. A candidate's
+ * score is then its exact product with x over the candidate's indexed part,
+ * the rest lies in its unindexed prefix y', and
+ * `x · y <= score + ‖x below y's first indexed rank‖₂ ‖y'‖₂` decides whether
+ * the exact dot product is computed.
  */
 function oneSharedPairs(
   matrix: Csr,
@@ -556,7 +619,18 @@ function oneSharedPairs(
   const live = order.length;
   const { start, rankOf, valueOf, maxLen } = permuteRows(matrix, order, rank);
 
-  // Indexed tail: from the first dimension at which both
+  // Per row number: the rank of its first indexed dimension and the squared
+  // norm of what comes before (two-shared rows: their tail).
+  const firstRank = new Int32Array(n).fill(m);
+  const unindexed2 = new Float64Array(n);
+  for (let y = 0; y < n; y++) {
+    if (tails.tailLen[y]! > 0) {
+      firstRank[y] = tails.tailRank[tails.tailStart[y]!]!;
+      unindexed2[y] = tails.prefix2[y]!;
+    }
+  }
+
+  // One-shared rows. Indexed tail: from the first dimension at which both
   // Σ min(maxweight_i, maxweight(y)) · y[i] and maxNorm · ‖y ≤ i‖₂ reach t;
   // probed tail: from the first at which both Σ maxweight_i · x[i] and
   // maxNorm · ‖x ≤ i‖₂ do (never later).
@@ -565,7 +639,8 @@ function oneSharedPairs(
   const l1 = new Float64Array(live);
   const listStart = new Int32Array(m + 1);
   for (let p = 0; p < live; p++) {
-    const mwy = weight[order[p]!]!;
+    const y = order[p]!;
+    const mwy = weight[y]!;
     const s = start[p]!;
     const len = start[p + 1]! - s;
     let norm2 = 0;
@@ -574,11 +649,13 @@ function oneSharedPairs(
     let bProbe = 0;
     let i1 = len;
     let p1 = len;
+    let pre2 = 0;
     for (let k = 0; k < len; k++) {
       const v = valueOf[s + k]!;
       sum += v;
-      norm2 += v * v;
       if (i1 < len) continue;
+      pre2 = norm2;
+      norm2 += v * v;
       const w = mwRank[rankOf[s + k]!]!;
       bIndex += (w < mwy ? w : mwy) * v;
       bProbe += w * v;
@@ -590,6 +667,10 @@ function oneSharedPairs(
     l1[p] = sum;
     indexFrom[p] = i1;
     probeFrom[p] = p1;
+    if (i1 < len) {
+      firstRank[y] = rankOf[s + i1]!;
+      unindexed2[y] = pre2;
+    }
     for (let k = i1; k < len; k++) listStart[rankOf[s + k]! + 1]!++;
   }
   for (let r = 0; r < m; r++) listStart[r + 1] += listStart[r]!;
@@ -602,7 +683,8 @@ function oneSharedPairs(
   const listVal = new Float32Array(listStart[m]!);
   const listNorm = new Float64Array(listStart[m]!);
 
-  const seen = new Uint8Array(n);
+  const score = new Float64Array(n);
+  const isCandidate = new Uint8Array(n);
   const touched = new Int32Array(n);
   const dense = new Float64Array(m);
   const before = new Float64Array(maxLen + 1);
@@ -616,17 +698,17 @@ function oneSharedPairs(
     const s = start[p]!;
     const lenx = start[p + 1]! - s;
     let norm2 = 0;
-    for (let k = 0; k < lenx; k++) {
+    for (let k = 0; k <= lenx; k++) {
       before[k] = Math.sqrt(norm2);
-      norm2 += valueOf[s + k]! * valueOf[s + k]!;
+      if (k < lenx) norm2 += valueOf[s + k]! * valueOf[s + k]!;
     }
 
-    // A row met for the first time is kept if the positional bound allows
-    // (no rarer dimension is shared, so what is left lies below this rank in
-    // both rows); later meetings add nothing.
     let nt = 0;
-    for (let k = lenx - 1; k >= probeFrom[p]!; k--) {
+    let lowest = m; // the lowest first indexed rank among the candidates
+    for (let k = lenx - 1; k >= 0; k--) {
       const r = rankOf[s + k]!;
+      const admit = k >= probeFrom[p]!;
+      if (!admit && r < lowest) break;
       const xv = valueOf[s + k]!;
       const xb = before[k]!;
       const base = listStart[r]!;
@@ -639,43 +721,76 @@ function oneSharedPairs(
         listHead[r] = h - base;
         headL1[r] = h < end ? l1[listRow[h]!]! : 0;
       }
-      scanned += end - h;
-      for (let j = h; j < end; j++) {
-        const y = order[listRow[j]!]!;
-        if (seen[y] === 0 && xv * listVal[j]! + xb * listNorm[j]! >= tb) {
-          seen[y] = 1;
-          touched[nt++] = y;
-        }
-      }
       const ps = pairIndex.start[r]!;
       const pe = pairIndex.start[r + 1]!;
-      scanned += pe - ps;
-      for (let j = ps; j < pe; j++) {
-        const y = pairIndex.row[j]!;
-        if (seen[y] === 0 && xv * pairIndex.value[j]! + xb * pairNorm[j]! >= tb) {
-          seen[y] = 1;
-          touched[nt++] = y;
+      scanned += end - h + pe - ps;
+      if (admit) {
+        // A row met for the first time is kept if the positional bound
+        // allows (no rarer dimension is shared, so the rest lies below this
+        // rank in both rows).
+        for (let j = h; j < end; j++) {
+          const y = order[listRow[j]!]!;
+          const prod = xv * listVal[j]!;
+          if (isCandidate[y] === 1) score[y] += prod;
+          else if (prod + xb * listNorm[j]! >= tb) {
+            isCandidate[y] = 1;
+            score[y] = prod;
+            touched[nt++] = y;
+            if (firstRank[y]! < lowest) lowest = firstRank[y]!;
+          }
+        }
+        for (let j = ps; j < pe; j++) {
+          const y = pairIndex.row[j]!;
+          const prod = xv * pairIndex.value[j]!;
+          if (isCandidate[y] === 1) score[y] += prod;
+          else if (prod + xb * pairNorm[j]! >= tb) {
+            isCandidate[y] = 1;
+            score[y] = prod;
+            touched[nt++] = y;
+            if (firstRank[y]! < lowest) lowest = firstRank[y]!;
+          }
+        }
+      } else {
+        for (let j = h; j < end; j++) {
+          const y = order[listRow[j]!]!;
+          if (isCandidate[y] === 1) score[y] += xv * listVal[j]!;
+        }
+        for (let j = ps; j < pe; j++) {
+          const y = pairIndex.row[j]!;
+          if (isCandidate[y] === 1) score[y] += xv * pairIndex.value[j]!;
         }
       }
     }
 
-    if (nt > 0) {
-      for (let q = indptr[x]!; q < indptr[x + 1]!; q++) dense[indices[q]!] = values[q]!;
-      for (let k = 0; k < nt; k++) {
-        const y = touched[k]!;
-        seen[y] = 0;
-        // Exact dot product over the full rows (same sum as rowDot).
-        verified++;
-        let dot = 0;
-        for (let q = indptr[y]!; q < indptr[y + 1]!; q++) dot += dense[indices[q]!]! * values[q]!;
-        if (dot >= t) {
-          out.a.push(y < x ? y : x);
-          out.b.push(y < x ? x : y);
-          out.s.push(dot);
-        }
+    let filled = false;
+    for (let k = 0; k < nt; k++) {
+      const y = touched[k]!;
+      isCandidate[y] = 0;
+      // c: how many of x's dimensions rank below y's first indexed one.
+      const first = firstRank[y]!;
+      let c = 0;
+      let hi = lenx;
+      while (c < hi) {
+        const mid = (c + hi) >>> 1;
+        if (rankOf[s + mid]! < first) c = mid + 1;
+        else hi = mid;
       }
-      for (let q = indptr[x]!; q < indptr[x + 1]!; q++) dense[indices[q]!] = 0;
+      if (score[y]! + before[c]! * Math.sqrt(unindexed2[y]!) < tb) continue;
+      if (!filled) {
+        for (let q = indptr[x]!; q < indptr[x + 1]!; q++) dense[indices[q]!] = values[q]!;
+        filled = true;
+      }
+      // Exact dot product over the full rows (same sum as rowDot).
+      verified++;
+      let dot = 0;
+      for (let q = indptr[y]!; q < indptr[y + 1]!; q++) dot += dense[indices[q]!]! * values[q]!;
+      if (dot >= t) {
+        out.a.push(y < x ? y : x);
+        out.b.push(y < x ? x : y);
+        out.s.push(dot);
+      }
     }
+    if (filled) for (let q = indptr[x]!; q < indptr[x + 1]!; q++) dense[indices[q]!] = 0;
 
     // Index x's tail (before[] holds x's prefix norms).
     for (let k = indexFrom[p]!; k < lenx; k++) {
