@@ -176,7 +176,7 @@ describe('allPairsCosine: both kinds of rows against a brute-force join', () => 
     expect(twice.twoSharedRows + twice.oneSharedRows).toBe(2 * m.rows);
   });
 
-  it('treats a row whose tail would exceed MAX_PAIR_TAIL as one-shared', () => {
+  it('treats a row whose tail would exceed MAX_PAIR_TAIL as one-shared, and keeps long tails below it', () => {
     // 6 · MAX_PAIR_TAIL equal weights: at t = 0.9 the tail must hold more
     // than 1 - 0.9² = 0.19 of the squared norm, i.e. more than
     // 0.19 · 6 · MAX_PAIR_TAIL > MAX_PAIR_TAIL entries.
@@ -184,13 +184,17 @@ describe('allPairsCosine: both kinds of rows against a brute-force join', () => 
     const flat: [number, number][] = [];
     for (let k = 0; k < len; k++) flat.push([k, 1]);
     const copy = flat.map(([c, w], k) => [c, k === 3 ? 1.2 : w] as [number, number]);
-    const m = unitCsr([flat, copy, [[0, 1], [1, 1]]], len);
+    // 100 equal weights: a two-shared tail of about 0.19 · 100 = 20 entries.
+    const mid: [number, number][] = [];
+    for (let k = 0; k < 100; k++) mid.push([len + k, 1]);
+    const midCopy = mid.map(([c, w], k) => [c, k === 50 ? 1.3 : w] as [number, number]);
+    const m = unitCsr([flat, copy, [[0, 1], [1, 1]], mid, midCopy], len + 100);
     const counts = zeroCounts();
     const want = joinAndCheck(m, 0.9, counts);
-    expect(want.a).toEqual([0]);
-    expect(want.b).toEqual([1]);
+    expect(want.a).toEqual([0, 3]);
+    expect(want.b).toEqual([1, 4]);
     expect(counts.oneSharedRows).toBe(2);
-    expect(counts.twoSharedRows).toBe(1);
+    expect(counts.twoSharedRows).toBe(3);
   });
 });
 
