@@ -240,11 +240,12 @@ interface Tails {
 }
 
 /**
- * Every row's two-shared tail: its entries are taken by decreasing rank (a
- * selection, so only the tail gets ordered) until
- * `maxNorm · sqrt(‖y < s‖₂² + max(y[s..])²) < t`. Rows for which that needs
- * more than {@link MAX_PAIR_TAIL} entries, or cannot hold, are one-shared.
- * All-zero rows get an empty tail.
+ * Every row's two-shared tail: its entries are taken by decreasing rank until
+ * `maxNorm · sqrt(‖y < s‖₂² + max(y[s..])²) < t`, first from the row's
+ * TOP_FIRST highest ranks (kept on the pass that reads the row), then, for a
+ * longer tail, by selection over the whole row; only the tail is ever
+ * ordered. Rows for which that needs more than {@link MAX_PAIR_TAIL} entries,
+ * or cannot hold, are one-shared. All-zero rows get an empty tail.
  */
 function twoSharedTails(matrix: Csr, rank: Int32Array, maxNorm: number, maxLen: number, tb: number): Tails {
   const { rows: n, indptr, indices, values } = matrix;
@@ -478,7 +479,7 @@ function twoSharedPairs(
   // While the list of rank d is read: chainHead[r] is the last chain entry of
   // partner rank r (rows of this list whose tail also holds r), -1 if none;
   // mark[k] === y and yValue[k] describe the tail of the row y being read
-  // (filled only once y meets a chain).
+  // (filled once y passes the positional bound with some z).
   const chainHead = new Int32Array(m).fill(-1);
   const chainRow = new Int32Array(chainCap);
   const chainAtD = new Float32Array(chainCap); // the row's value at d
