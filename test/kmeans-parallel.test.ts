@@ -1,13 +1,12 @@
-import { execFileSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import type { Csr } from '../src/types.js';
 import { UsageError } from '../src/util/errors.js';
 import { createRng } from '../src/util/random.js';
+import { buildForWorkers } from './helpers/build-workers.js';
 import { countNonEmptyRows, sphericalKMeans, type KMeansResult } from '../src/cluster/kmeans.js';
 import {
   DEFAULT_PARALLEL_OPTIONS,
@@ -22,30 +21,12 @@ import {
 // settings, into a temporary folder laid out like dist/. The source runner is
 // pointed at that worker with `workerUrl`; the built runner is also imported
 // from there, to check the default lookup (worker beside the module).
-const root = fileURLToPath(new URL('..', import.meta.url));
 let outDir = '';
 let workerUrl: URL;
 let built: { sphericalKMeansParallel: typeof sphericalKMeansParallel };
 
 beforeAll(() => {
-  outDir = mkdtempSync(join(tmpdir(), 'sheaf-kmeans-worker-'));
-  const config = join(outDir, 'tsconfig.json');
-  writeFileSync(
-    config,
-    JSON.stringify({
-      extends: join(root, 'tsconfig.build.json'),
-      compilerOptions: {
-        rootDir: join(root, 'src'),
-        outDir: join(outDir, 'dist'),
-        typeRoots: [join(root, 'node_modules/@types')],
-        declaration: false,
-        sourceMap: false,
-      },
-      include: [],
-      files: [join(root, 'src/parallel/kmeans-parallel.ts'), join(root, 'src/parallel/kmeans-worker.ts')],
-    }),
-  );
-  execFileSync(process.execPath, [join(root, 'node_modules/typescript/bin/tsc'), '-p', config], { stdio: 'pipe' });
+  outDir = buildForWorkers('sheaf-kmeans-worker-', ['src/parallel/kmeans-parallel.ts', 'src/parallel/kmeans-worker.ts']);
   workerUrl = pathToFileURL(join(outDir, 'dist/parallel/kmeans-worker.js'));
 }, 120_000);
 

@@ -8,8 +8,7 @@
  * against scikit-learn in vectorize-sklearn.test.ts. Also: option messages,
  * progress reports, the worker lookup and worker failures.
  */
-import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -20,6 +19,7 @@ import { parse } from 'csv-parse/sync';
 import { createAnalyzer, type AnalyzerOptions } from '../src/analyze/index.js';
 import { fitTfidf, type TfidfFit, type VectorizeOptions } from '../src/vectorize/index.js';
 import { UsageError } from '../src/util/errors.js';
+import { buildForWorkers } from './helpers/build-workers.js';
 import {
   DEFAULT_ANALYZE_PARALLEL_OPTIONS,
   chooseAnalyzeWorkerUrl,
@@ -40,31 +40,12 @@ let workerUrl: URL;
 let built: { fitTfidfParallel: typeof fitTfidfParallel };
 
 beforeAll(async () => {
-  outDir = mkdtempSync(join(tmpdir(), 'sheaf-analyze-worker-'));
-  const config = join(outDir, 'tsconfig.json');
-  writeFileSync(
-    config,
-    JSON.stringify({
-      extends: join(root, 'tsconfig.build.json'),
-      compilerOptions: {
-        rootDir: join(root, 'src'),
-        outDir: join(outDir, 'dist'),
-        typeRoots: [join(root, 'node_modules/@types')],
-        declaration: false,
-        sourceMap: false,
-      },
-      include: [],
-      files: [
-        join(root, 'src/parallel/analyze-parallel.ts'),
-        join(root, 'src/parallel/analyze-worker.ts'),
-        join(root, 'src/analyze/natural.d.ts'),
-        join(root, 'src/analyze/stopword.d.ts'),
-      ],
-    }),
-  );
-  execFileSync(process.execPath, [join(root, 'node_modules/typescript/bin/tsc'), '-p', config], { stdio: 'pipe' });
-  writeFileSync(join(outDir, 'package.json'), '{"type":"module"}\n');
-  symlinkSync(join(root, 'node_modules'), join(outDir, 'node_modules'), 'dir');
+  outDir = buildForWorkers('sheaf-analyze-worker-', [
+    'src/parallel/analyze-parallel.ts',
+    'src/parallel/analyze-worker.ts',
+    'src/analyze/natural.d.ts',
+    'src/analyze/stopword.d.ts',
+  ]);
   workerUrl = pathToFileURL(join(outDir, 'dist/parallel/analyze-worker.js'));
   built = (await import(pathToFileURL(join(outDir, 'dist/parallel/analyze-parallel.js')).href)) as typeof built;
 }, 120_000);
