@@ -86,7 +86,7 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(line + '\n');
   };
-  const { read, docs, clean, notes } = await readInputs(inputs, flags, io, note);
+  const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
   const a = applyModel(model, docs, minFit);
   for (const line of notes) note(line);
   const unmatched = a.unmatched.reduce((x, v) => x + v, 0);

@@ -75,7 +75,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     if (!flags.quiet) io.stderr.write(line + '\n');
   };
   const t0 = now();
-  const { read, docs, clean, notes } = await readInputs(inputs, flags, io, note);
+  const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
   const readMs = now() - t0;
   const run = findDuplicates(docs, options, { now });
   for (const line of notes) note(line);

@@ -107,7 +107,6 @@ export interface ReadInputs {
   readonly read: IngestResult;
   readonly docs: Doc[];
   readonly clean: CleanReport;
-  readonly ingestOptions: IngestOptions;
 }
 
 /** The cleaning mode from `--clean` (validated), or null for the default. */
@@ -123,8 +122,13 @@ function cleanModeFromFlags(flags: GroupFlags): CleanMode | null {
  * Reads the inputs and cleans them: with no `--clean`, export rows get ticket
  * cleaning and document files none. Skips and warnings go to `note`.
  */
-export async function readInputs(inputs: string[], flags: GroupFlags, io: CliIo, note: (line: string) => void): Promise<ReadInputs> {
-  const ingestOptions = ingestOptionsFromFlags(flags);
+export async function readInputs(
+  inputs: string[],
+  ingestOptions: IngestOptions,
+  flags: GroupFlags,
+  io: CliIo,
+  note: (line: string) => void,
+): Promise<ReadInputs> {
   const mode = cleanModeFromFlags(flags);
   const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
   reportSkips(read.skipped, read.warnings, note);
@@ -142,7 +146,7 @@ export async function readInputs(inputs: string[], flags: GroupFlags, io: CliIo,
         `(quoted replies, signatures, greetings, ${r.boilerplate.found} boilerplate line(s)) from ${r.changed} document(s); --clean none keeps it`,
     );
   }
-  return { notes, read, docs: cleaned.docs, clean: r, ingestOptions };
+  return { notes, read, docs: cleaned.docs, clean: r };
 }
 
 /** Adds the flags that set up the analyzer and the vocabulary. */
@@ -352,7 +356,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     if (!flags.quiet) io.stderr.write(line + '\n');
   };
   const t0 = now();
-  const { read, docs, clean, notes } = await readInputs(inputs, flags, io, note);
+  const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
   const readMs = now() - t0;
   checkMemory(docs.reduce((a, d) => a + d.text.length, 0), limit, `the text read (${docs.length} documents)`);
   if (flags.truth) assertTruthColumn(docs, flags.truth);
