@@ -16,7 +16,8 @@ import { modelFromJson, type Model } from '../model/index.js';
 import { applyModel, type ModelApplication } from '../model/apply.js';
 import { csvText, fixed } from '../report/csv.js';
 import { jsonText, round } from '../report/outputs.js';
-import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
+import { writeOutputFolder } from '../report/folder.js';
+import { checkOutputFolders } from './out-paths.js';
 import { UsageError } from '../util/errors.js';
 
 interface AssignFlags extends GroupFlags {
@@ -82,7 +83,7 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const ingestOptions = ingestOptionsFromFlags(flags);
   const model = await loadModel(flags.model, io.cwd);
   const outDir = path.resolve(io.cwd, flags.out);
-  await assertReplaceable(outDir, flags.out);
+  await checkOutputFolders({ inputs, alsoReads: [flags.model, flags.stopwords], out: flags.out, quiet: flags.quiet }, io);
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(line + '\n');
   };

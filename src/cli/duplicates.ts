@@ -15,7 +15,8 @@ import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type Dupl
 import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
 import { jsonText, round } from '../report/outputs.js';
 import { fixed } from '../report/csv.js';
-import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
+import { writeOutputFolder } from '../report/folder.js';
+import { checkOutputFolders } from './out-paths.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import type { DiffPiece } from '../duplicates/index.js';
 
@@ -69,8 +70,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   const ingestOptions = ingestOptionsFromFlags(flags);
   const options = await duplicateOptionsFromFlags(flags, io, Math.max(show, 10));
   const outDir = path.resolve(io.cwd, flags.out);
-  await assertReplaceable(outDir, flags.out);
-  if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);
+  await checkOutputFolders({ inputs, alsoReads: [flags.stopwords], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(line + '\n');
   };

@@ -31,7 +31,8 @@ import {
   treeNewick,
   type Evaluation,
 } from '../report/outputs.js';
-import { assertReplaceable, writeOutputFolder, type FileContent } from '../report/folder.js';
+import { writeOutputFolder, type FileContent } from '../report/folder.js';
+import { checkOutputFolders } from './out-paths.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copies.js';
 import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
@@ -347,8 +348,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   // A document-level tree may use the whole limit for its distance matrix.
   group = { ...group, tree: { memoryLimitBytes: limit } };
   const outDir = path.resolve(io.cwd, flags.out);
-  await assertReplaceable(outDir, flags.out);
-  if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);
+  await checkOutputFolders({ inputs, alsoReads: [flags.stopwords], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
   checkMemory(await fileInputBytes(inputs, io.cwd), limit, 'this input');
   const width = Math.max(60, io.stdout.columns ?? 110);
 

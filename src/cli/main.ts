@@ -5,7 +5,9 @@
  * @module
  */
 import { runCli } from './program.js';
+import { installStagingCleanup } from './signals.js';
 
+installStagingCleanup(process, process.stderr, (code) => process.exit(code));
 const code = await runCli(process.argv.slice(2), {
   stdout: process.stdout,
   stderr: process.stderr,
