@@ -19,7 +19,7 @@
  *
  * @module
  */
-import { lstat, mkdir, open, readdir, readFile, rename, rm, rmdir, stat, unlink, writeFile } from 'node:fs/promises';
+import { lstat, mkdir, open, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
 import { existsSync, renameSync, rmSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import path from 'node:path';
@@ -91,6 +91,8 @@ interface Swap {
   readonly staging: string;
   old: string | null;
   readonly target: string;
+  /** Set by {@link removeLiveStagingSync}: the write stops at its next step. */
+  cancelled: boolean;
 }
 
 const live = new Set<Swap>();
@@ -115,16 +117,21 @@ export async function writeOutput(dir: string, files: ReadonlyMap<string, FileCo
   await mkdir(parent, { recursive: true });
   await removeStaleStaging(target);
   const tag = `p${process.pid}-${randomBytes(6).toString('hex')}`;
-  const swap: Swap = { staging: path.join(parent, `.sheaf-tmp-${path.basename(target)}-${tag}`), old: null, target };
-  await mkdir(swap.staging);
+  const swap: Swap = { staging: path.join(parent, `.sheaf-tmp-${path.basename(target)}-${tag}`), old: null, target, cancelled: false };
   live.add(swap);
+  const go = (): void => {
+    if (swap.cancelled) throw new Error(`writing ${dir} was stopped`);
+  };
   try {
+    await mkdir(swap.staging);
     await writeFile(path.join(swap.staging, MARKER), manifestText([...files.keys()]));
     for (const [name, content] of files) {
+      go();
       const file = path.join(swap.staging, name);
       await mkdir(path.dirname(file), { recursive: true });
       await writeContent(file, content);
     }
+    go();
     if (await exists(target)) {
       const old = path.join(parent, `.sheaf-old-${path.basename(target)}-${tag}`);
       await rename(target, old);
@@ -270,7 +277,7 @@ export async function assertWritable(
   } catch (err) {
     fail(err);
   }
-  await rmdir(probe);
+  await rm(probe, { recursive: true, force: true });
   let st;
   try {
     st = await stat(target);
@@ -284,7 +291,7 @@ export async function assertWritable(
   } catch (err) {
     fail(err);
   }
-  await unlink(file);
+  await rm(file, { force: true });
 }
 
 /** Staging folders (and earlier runs being swapped out) that writes in this process have in flight, as absolute paths. */
@@ -301,6 +308,7 @@ export function liveStagingFolders(): string[] {
 export function removeLiveStagingSync(): string[] {
   const removed: string[] = [];
   for (const s of live) {
+    s.cancelled = true;
     if (existsSync(s.staging)) {
       rmSync(s.staging, { recursive: true, force: true });
       removed.push(s.staging);
