@@ -6,7 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { EventEmitter } from 'node:events';
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { cpSync, existsSync, mkdirSync, readFileSync, readdirSync, symlinkSync, utimesSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { sheaf, tempDir } from './helpers/cli.js';
@@ -253,6 +253,35 @@ describe('staging folders after a signal or a dead process (case 13)', () => {
     expect(readdirSync(dir)).toEqual([]);
     expect(liveStagingFolders()).toEqual([]);
   });
+  it('SIGINT to the built CLI while it stages: exit 130 and no .sheaf-tmp-* folder left (child process, dist/)', async () => {
+    const dir = tempDir();
+    // 6000 rows of ~600 characters: documents.csv alone is ~3.7 MB, so staging lasts long enough to be seen.
+    const rows = ['id,body'];
+    for (let i = 0; i < 6000; i++) rows.push(`t${i},"${i % 2 ? 'ferry booking refund fare' : 'lost umbrella deck desk'} w${i} ${'lorem ipsum dolor '.repeat(30)}"`);
+    writeFileSync(path.join(dir, 'big.csv'), rows.join('\n') + '\n');
+    const main = path.resolve(__dirname, '..', 'dist', 'cli', 'main.js');
+    const child = spawn(process.execPath, [main, 'group', 'big.csv', '--text', 'body', '--groups', '2', '--out', 'o', '--quiet'], { cwd: dir, stdio: ['ignore', 'ignore', 'pipe'] });
+    let stderr = '';
+    child.stderr.on('data', (b: Buffer) => (stderr += b.toString()));
+    let finished = false;
+    const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => ((finished = true), resolve(code))));
+    let sawStaging = false;
+    while (!sawStaging && !finished) {
+      if (readdirSync(dir).some((f) => f.startsWith('.sheaf-tmp-o-'))) {
+        sawStaging = true;
+        child.kill('SIGINT');
+      } else {
+        await new Promise((r) => setImmediate(r));
+      }
+    }
+    const code = await exited;
+    expect(sawStaging).toBe(true);
+    expect(code).toBe(130);
+    // The handler runs between two steps of the write: usually while staging (the folder is removed),
+    // rarely just after the swap (the complete output stays). Either way nothing partial remains.
+    expect(stderr).toMatch(/^sheaf: stopped by SIGINT(; the unfinished output was removed)?\n$/);
+    expect(readdirSync(dir).filter((f) => f.startsWith('.sheaf-'))).toEqual([]);
+  }, 180_000);
 });
 
 describe('an --out that cannot be written (case 16, part)', () => {
