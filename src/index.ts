@@ -68,5 +68,5 @@ export { renderReport } from './report/html.js';
 export { reportFromRun } from './report/report-from-run.js';
 export type { ReportData } from './report/report-data.js';
 export { csvText, guardCell } from './report/csv.js';
-export { writeOutputFolder } from './report/folder.js';
+export { writeOutputFolder, writeOutput, MARKER, removeLiveStagingSync, removeStaleStaging, type OutputWrite, type OutputManifest } from './report/folder.js';
 export { runCli } from './cli/program.js';

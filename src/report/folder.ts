@@ -351,7 +351,7 @@ export async function removeStaleStaging(target: string, alive: (pid: number) =>
   }
   const done: string[] = [];
   const esc = name.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
-  const withPid = new RegExp(`^\\.sheaf-(tmp|old)-${esc}-p(\\d+)-[0-9a-f]{12}$`);
+  const withPid = new RegExp(`^\\.sheaf-(tmp|old)-${esc}-p(\\d+)-(?:[0-9a-f]{12}|probe)$`);
   const legacy = new RegExp(`^\\.sheaf-tmp-${esc}-[0-9a-f]{12}$`);
   for (const entry of entries.sort()) {
     const full = path.join(parent, entry);
