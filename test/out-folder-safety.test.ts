@@ -202,6 +202,7 @@ describe('staging folders after a signal or a dead process (case 13)', () => {
     const stale = path.join(dir, `.sheaf-tmp-o-p${dead}-0123456789ab`);
     mkdirSync(stale);
     writeFileSync(path.join(stale, 'documents.csv'), 'personal data');
+    mkdirSync(path.join(dir, `.sheaf-tmp-o-p${dead}-probe`)); // a writability probe of a killed run
     const liveOne = path.join(dir, `.sheaf-tmp-o-p${process.ppid}-0123456789ab`);
     mkdirSync(liveOne);
     const otherTarget = path.join(dir, `.sheaf-tmp-other-p${dead}-0123456789ab`);
