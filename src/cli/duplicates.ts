@@ -11,6 +11,7 @@ import { decimal, wholeNumber } from './parse.js';
 import { versions } from './versions.js';
 import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, readInputs, readingRecord, type GroupFlags } from './group.js';
 import { renderTable, clip } from './table.js';
+import { visible, visibleJson, visibleLines } from './visible.js';
 import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
 import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
 import { jsonText, round } from '../report/outputs.js';
@@ -72,7 +73,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   await assertReplaceable(outDir, flags.out);
   if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);
   const note = (line: string): void => {
-    if (!flags.quiet) io.stderr.write(line + '\n');
+    if (!flags.quiet) io.stderr.write(visibleLines(line) + '\n');
   };
   const t0 = now();
   const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
@@ -128,7 +129,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     written.push(...v.map((p) => path.join(flags.saveVectors as string, path.basename(p))));
   }
   if (flags.json) {
-    io.stdout.write(jsonText(dupJson));
+    io.stdout.write(visibleJson(jsonText(dupJson)));
     note(`sheaf: wrote ${written.join(', ')}`);
     return 0;
   }
@@ -177,10 +178,10 @@ export function duplicateLines(run: DuplicateRun, width: number, show: number): 
     );
   }
   for (const s of run.sets.slice(0, show)) {
-    lines.push('', `set ${s.id} — representative ${run.docs[s.representative].id}: ${clip(run.docs[s.representative].title, width - 30)}`);
+    lines.push('', `set ${s.id} — representative ${visible(run.docs[s.representative].id)}: ${clip(visible(run.docs[s.representative].title), width - 30)}`);
     for (const d of run.diffs.get(s.id) ?? []) {
       const i = Array.from(s.members).indexOf(d.row);
-      lines.push(`  ${run.docs[d.row].id} (${fixed(s.similarityToRepresentative[i], 2)}): ${diffText(d)}`);
+      lines.push(`  ${visible(run.docs[d.row].id)} (${fixed(s.similarityToRepresentative[i], 2)}): ${visible(diffText(d))}`);
     }
   }
   return lines;

@@ -19,6 +19,7 @@ import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
 import { kmeansRunner } from '../parallel/runner.js';
 import { vectorizeRunner } from '../parallel/analyze-runner.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
+import { visibleJson, visibleLines } from './visible.js';
 import { availableParallelism } from 'node:os';
 import {
   documentsCsvChunks,
@@ -353,7 +354,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const width = Math.max(60, io.stdout.columns ?? 110);
 
   const note = (line: string): void => {
-    if (!flags.quiet) io.stderr.write(line + '\n');
+    if (!flags.quiet) io.stderr.write(visibleLines(line) + '\n');
   };
   const t0 = now();
   const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
@@ -452,7 +453,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   }
 
   if (flags.json) {
-    io.stdout.write(command === 'group' ? jsonText(groupsDoc) : jsonText({ tree: groupsDoc.tree }));
+    io.stdout.write(visibleJson(command === 'group' ? jsonText(groupsDoc) : jsonText({ tree: groupsDoc.tree })));
     note(`sheaf: wrote ${shownWritten.join(', ')}`);
     return 0;
   }
