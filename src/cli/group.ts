@@ -20,6 +20,7 @@ import { kmeansRunner } from '../parallel/runner.js';
 import { vectorizeRunner } from '../parallel/analyze-runner.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
 import { visibleJson, visibleLines } from './visible.js';
+import { withFileDigests, type RunFile } from './organize.js';
 import { availableParallelism } from 'node:os';
 import {
   documentsCsvChunks,
@@ -439,7 +440,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     ...(near ? [{ stage: 'near-duplicates', ms: dupMs, items: read.docs.length }] : []),
     { stage: 'write', ms: now() - tw, items: read.docs.length },
   ];
-  files.set('run.json', jsonText(runJson({ threads, command, cwd: io.cwd, flags, ingestOptions, result, read, clean, evaluation, timings, startedAt, finishedAt: new Date() })));
+  files.set('run.json', jsonText(await withFileDigests(runJson({ threads, command, cwd: io.cwd, flags, ingestOptions, result, read, clean, evaluation, timings, startedAt, finishedAt: new Date() }) as { files?: RunFile[] })));
   const written = await writeOutputFolder(outDir, files);
   const shownWritten = written.map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
