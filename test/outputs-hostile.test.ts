@@ -10,6 +10,8 @@ import path from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { sheaf, tempDir } from './helpers/cli.js';
 import { visible, visibleJson, visibleLines } from '../src/cli/visible.js';
+import { duplicatesJson, duplicatesJsonChunks, nearCopyPairsCsvChunks, type DuplicateOutputSource } from '../src/report/duplicates.js';
+import { jsonText } from '../src/report/outputs.js';
 
 const root = path.resolve(__dirname, '..');
 const demoCsv = path.join(root, 'corpus-demo', 'tickets.csv');
@@ -144,4 +146,98 @@ describe('evaluate resolves --truth as group does', () => {
     expect(run.code).toBe(2);
     expect(run.stderr).toBe("sheaf: --truth label names a column sheaf wrote in documents.csv, not known labels; its own label column would be input_label, and there is none\n");
   });
+});
+
+describe('near-copy outputs of a run with millions of pairs', () => {
+  it('duplicatesJsonChunks is the text of jsonText(duplicatesJson()), piece by piece; the pairs file has every pair', () => {
+    // One set of 12 rows (66 pairs: 11 with the representative, row 0, and 55 others: 50 listed) and one of 2.
+    const docs = Array.from({ length: 14 }, (_, i) => ({ id: `d${i}`, text: '', title: '', source: '', fields: new Map<string, string>() }));
+    const a: number[] = [];
+    const b: number[] = [];
+    const sim: number[] = [];
+    for (let i = 0; i < 12; i++) for (let j = i + 1; j < 12; j++) {
+      a.push(i);
+      b.push(j);
+      sim.push(0.9 + ((i * 12 + j) % 17) / 200);
+    }
+    a.push(12);
+    b.push(13);
+    sim.push(0.95);
+    const setOf = Int32Array.from({ length: 14 }, (_, i) => (i < 12 ? 0 : 1));
+    const mk = (id: number, members: number[]) => ({ id, representative: members[0], members: Int32Array.from(members), similarityToRepresentative: Float32Array.from(members, () => 0.95), meanSimilarity: 0.95, weakest: 0.9, chained: false });
+    const src = {
+      docs, by: 'tfidf', threshold: 0.9, setOf,
+      sets: [mk(0, [0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11]), mk(1, [12, 13])],
+      pairs: { a: Int32Array.from(a), b: Int32Array.from(b), similarity: Float32Array.from(sim), threshold: 0.9 },
+    } as unknown as DuplicateOutputSource;
+    const pieces = [...duplicatesJsonChunks(src, { note: 'x' })];
+    expect(pieces.length).toBeGreaterThan(3);
+    expect(pieces.join('')).toBe(jsonText(duplicatesJson(src, { note: 'x' })));
+    const j = JSON.parse(pieces.join(''));
+    expect(j.sets[0].pairCount).toBe(66);
+    expect(j.sets[0].pairs).toHaveLength(11 + 50);
+    // The 5 left out are the weakest of the 55 others.
+    const listed = new Set(j.sets[0].pairs.map((p: { a: string; b: string }) => `${p.a}-${p.b}`));
+    const others = a.map((x, p) => [x, b[p], Math.fround(sim[p])] as const).filter(([x]) => x !== 0 && x < 12);
+    const weakestListed = Math.min(...others.filter(([x, y]) => listed.has(`d${x}-d${y}`)).map((t) => t[2]));
+    for (const [x, y, v] of others.filter(([x, y]) => !listed.has(`d${x}-d${y}`))) expect(v).toBeLessThanOrEqual(weakestListed);
+    expect(j.sets[1].pairs).toEqual([{ a: 'd12', b: 'd13', similarity: 0.95 }]);
+    const csv = [...nearCopyPairsCsvChunks(src)].join('');
+    expect(csv.split('\r\n').filter((l) => l !== '')).toHaveLength(1 + 67);
+    expect(csv.split('\r\n').at(-2)).toBe('1,d12,d13,0.950000');
+  });
+
+  it('writes 100k rows in sets of 100 near-copies (4.95M pairs; one JSON string of them was too long): every pair in near-copy-pairs.csv, a bounded share per set in duplicates.json', async () => {
+    const dir = tempDir();
+    // 1000 themes of 8 invented words; each row is its theme plus a reference number (not a term by default),
+    // so no two texts are equal but every row has the same vector as the other 99 of its theme.
+    const syllables = ['ka', 'lo', 'mi', 'ru', 'te', 'sa', 'no', 'vi', 'de', 'pa', 'zu', 'be', 'go', 'ha', 'ji'];
+    const word = (i: number): string => {
+      let s = '';
+      do {
+        s += syllables[i % 15];
+        i = Math.floor(i / 15);
+      } while (i > 0);
+      return s + 'q';
+    };
+    const lines = ['id,text'];
+    for (let r = 0; r < 100_000; r++) {
+      const theme = Math.floor(r / 100);
+      const words: string[] = [];
+      for (let w = 0; w < 8; w++) words.push(word(theme * 8 + w));
+      lines.push(`lanternfen-ticket-${String(r).padStart(6, '0')},${words.join(' ')} ref ${r}`);
+    }
+    writeFileSync(path.join(dir, 'near.csv'), lines.join('\n') + '\n');
+    try {
+      const run = await sheaf(['duplicates', 'near.csv', '--text', 'text', '--id', 'id', '--clean', 'none', '--out', 'o', '--quiet'], { cwd: dir });
+      expect(run.stderr).toBe('');
+      expect(run.code).toBe(0);
+      const counts = JSON.parse(readFileSync(path.join(dir, 'o', 'run.json'), 'utf8')).counts;
+      expect(counts).toMatchObject({ documents: 100_000, sets: 1000, inSets: 100_000, pairs: 1000 * ((100 * 99) / 2) });
+      // Count the pairs file's records without holding it as one string.
+      const { createReadStream } = await import('node:fs');
+      let newlines = 0;
+      let head = '';
+      for await (const chunk of createReadStream(path.join(dir, 'o', 'near-copy-pairs.csv'))) {
+        const buf = chunk as Buffer;
+        if (head === '') head = buf.subarray(0, 80).toString('utf8');
+        for (let i = 0; i < buf.length; i++) if (buf[i] === 10) newlines++;
+      }
+      expect(head.split('\r\n')[0]).toBe('set,a,b,similarity');
+      expect(newlines - 1).toBe(counts.pairs);
+      const dup = JSON.parse(readFileSync(path.join(dir, 'o', 'duplicates.json'), 'utf8'));
+      expect(dup.pairs).toBe(counts.pairs);
+      expect(dup.pairsFile).toBe('near-copy-pairs.csv');
+      expect(dup.sets).toHaveLength(1000);
+      for (const s of dup.sets.slice(0, 20)) {
+        expect(s.pairCount).toBe(4950);
+        // 99 pairs with the representative, then the 50 strongest others.
+        expect(s.pairs).toHaveLength(99 + 50);
+        expect(s.pairs.filter((p: { a: string; b: string }) => p.a === s.representative || p.b === s.representative)).toHaveLength(99);
+      }
+    } finally {
+      const { rmSync } = await import('node:fs');
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 180_000);
 });

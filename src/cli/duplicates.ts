@@ -13,10 +13,10 @@ import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOption
 import { renderTable, clip } from './table.js';
 import { visible, visibleJson, visibleLines } from './visible.js';
 import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
-import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
+import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from '../report/duplicates.js';
 import { jsonText, round } from '../report/outputs.js';
 import { fixed } from '../report/csv.js';
-import { assertReplaceable, writeOutputFolder } from '../report/folder.js';
+import { assertReplaceable, writeOutputFolder, type FileContent } from '../report/folder.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import type { DiffPiece } from '../duplicates/index.js';
 
@@ -82,10 +82,11 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   for (const line of notes) note(line);
   const o = run.options;
   const src = { docs: run.docs, by: o.by, threshold: o.threshold, sets: run.sets, pairs: run.pairs, setOf: run.setOf };
-  const dupJson = duplicatesJson(src);
-  const files = new Map<string, string>([
+  // Written in pieces: all pairs of a large run do not fit in one string.
+  const files = new Map<string, FileContent>([
     ['duplicates.csv', duplicatesCsv(src)],
-    ['duplicates.json', jsonText(dupJson)],
+    ['duplicates.json', duplicatesJsonChunks(src)],
+    [PAIRS_FILE, nearCopyPairsCsvChunks(src)],
     [
       'run.json',
       jsonText({
@@ -129,7 +130,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     written.push(...v.map((p) => path.join(flags.saveVectors as string, path.basename(p))));
   }
   if (flags.json) {
-    io.stdout.write(visibleJson(jsonText(dupJson)));
+    for (const piece of duplicatesJsonChunks(src)) io.stdout.write(visibleJson(piece));
     note(`sheaf: wrote ${written.join(', ')}`);
     return 0;
   }

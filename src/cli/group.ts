@@ -36,7 +36,7 @@ import {
 import { assertReplaceable, writeOutputFolder, type FileContent } from '../report/folder.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copies.js';
-import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
+import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from '../report/duplicates.js';
 import { modelToJson } from '../model/index.js';
 import { renderReport } from '../report/html.js';
 import { reportFromRun } from '../report/report-from-run.js';
@@ -399,7 +399,8 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     if (near && dupOptions) {
       const src = { docs: result.docs, by: 'tfidf', threshold: dupOptions.threshold, sets: near.sets, pairs: near.pairs, setOf: near.setOf };
       files.set('duplicates.csv', duplicatesCsv(src));
-      files.set('duplicates.json', jsonText(duplicatesJson(src)));
+      files.set('duplicates.json', duplicatesJsonChunks(src));
+      files.set(PAIRS_FILE, nearCopyPairsCsvChunks(src));
     }
     files.set(
       'model.json',
