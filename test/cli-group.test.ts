@@ -33,7 +33,7 @@ describe('sheaf group on the demo tickets', () => {
     const rows = lines.slice(2).filter((l) => /^\s+\d+\s+\d+\s/.test(l));
     expect(rows).toHaveLength(8);
     expect(run.stdout).toContain(
-      `Wrote:\n${['documents.csv', 'groups.json', 'duplicates.csv', 'duplicates.json', 'model.json', 'report.html', 'tree.nwk', 'run.json'].map((f) => `  ${path.join(out, f)}\n`).join('')}`,
+      `Wrote:\n${['documents.csv', 'groups.json', 'duplicates.csv', 'duplicates.json', 'near-copy-pairs.csv', 'model.json', 'report.html', 'tree.nwk', 'run.json'].map((f) => `  ${path.join(out, f)}\n`).join('')}`,
     );
     // The tree outline reaches every group when there are few.
     const outline = run.stdout.slice(run.stdout.indexOf('Tree of themes'));
