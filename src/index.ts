@@ -63,7 +63,7 @@ export { ingest, resolveIngestOptions, DEFAULT_INGEST_OPTIONS, type IngestOption
 export { cleanDocuments, resolveCleanOptions, DEFAULT_CLEAN_OPTIONS, PLACEHOLDERS, type CleanOptions, type CleanReport, type CleanMode } from './clean/index.js';
 export { findDuplicates, nearCopiesOfVectors, resolveFindDuplicatesOptions, type FindDuplicatesOptions, type DuplicateRun, type CompareBy } from './near-copies.js';
 export { documentsCsv, groupsJson, treeNewick, evaluateLabels, type Evaluation } from './report/outputs.js';
-export { duplicatesCsv, duplicatesJson } from './report/duplicates.js';
+export { duplicatesCsv, duplicatesJson, duplicatesJsonChunks, nearCopyPairsCsvChunks, listedPairs, PAIRS_FILE, OTHER_PAIRS_PER_SET } from './report/duplicates.js';
 export { renderReport } from './report/html.js';
 export { reportFromRun } from './report/report-from-run.js';
 export type { ReportData } from './report/report-data.js';

@@ -33,7 +33,7 @@ describe('sheaf group on the demo tickets', () => {
     const rows = lines.slice(2).filter((l) => /^\s+\d+\s+\d+\s/.test(l));
     expect(rows).toHaveLength(8);
     expect(run.stdout).toContain(
-      `Wrote:\n${['documents.csv', 'groups.json', 'duplicates.csv', 'duplicates.json', 'model.json', 'report.html', 'tree.nwk', 'run.json'].map((f) => `  ${path.join(out, f)}\n`).join('')}`,
+      `Wrote:\n${['documents.csv', 'groups.json', 'duplicates.csv', 'duplicates.json', 'near-copy-pairs.csv', 'model.json', 'report.html', 'tree.nwk', 'run.json'].map((f) => `  ${path.join(out, f)}\n`).join('')}`,
     );
     // The tree outline reaches every group when there are few.
     const outline = run.stdout.slice(run.stdout.indexOf('Tree of themes'));
@@ -419,8 +419,8 @@ describe('--memory', () => {
   it('refuses, before reading, an input that would need more than the limit', async () => {
     const out = path.join(tempDir(), 'o');
     const run = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--memory', '100M', '--out', out]);
-    // 182,450 bytes of CSV: 200 MiB + 10.5 × 182,450 bytes = 211,630,925 bytes ≈ 202 MB (MiB shown as MB).
-    expect(run.stderr).toBe('sheaf: this input (178 KB) would need about 202 MB of memory, more than the limit of 100 MB; raise --memory if the machine has it, or split the input\n');
+    // 182,450 bytes of CSV: 256 MiB + 8 × 182,450 bytes = 269,895,056 bytes ≈ 257 MB (MiB shown as MB).
+    expect(run.stderr).toBe('sheaf: this input (178 KB) would need about 257 MB of memory, more than the limit of 100 MB; raise --memory if the machine has it, or split the input\n');
     expect(run.code).toBe(2);
     expect(existsSync(out)).toBe(false);
   });

@@ -92,6 +92,30 @@ describe('model.json and sheaf assign', () => {
     expect(refuse(protoInAnalyzer)).toBe('m.json is damaged: analyzer: unexpected field(s) "__proto__"');
   });
 
+  it('refuses a centroid that is not a unit vector (a value of 1e30 planted in group 3), naming the group', async () => {
+    const good = JSON.parse(readFileSync(path.join(out, 'model.json'), 'utf8'));
+    const bytes = Buffer.from(good.centroids, 'base64');
+    const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    // Term-major layout: value [term * groups + g]; term 5 of group 3.
+    view.setFloat32((5 * good.groups + 3) * 4, 1e30, true);
+    const dir = tempDir();
+    writeFileSync(path.join(dir, 'tampered.json'), JSON.stringify({ ...good, centroids: bytes.toString('base64') }));
+    const run = await sheaf(['assign', demoCsv, '--text', 'subject,body', '--model', 'tampered.json', '--out', 'a'], { cwd: dir });
+    expect(run.stderr).toBe(`sheaf: tampered.json is damaged: the centroid of group 3 (${JSON.stringify(good.labels[3].label)}) has length 1.000e+30; every centroid has length 1\n`);
+    expect(run.code).toBe(2);
+    expect(existsSync(path.join(dir, 'a'))).toBe(false);
+    // A centroid scaled by 1.01 (length 1.01) is refused as well; the saved ones are within 1e-3 of 1.
+    const scaled = Buffer.from(good.centroids, 'base64');
+    const sv = new DataView(scaled.buffer, scaled.byteOffset, scaled.byteLength);
+    for (let t = 0; t < good.vocabulary.terms.length; t++) {
+      const at = (t * good.groups + 0) * 4;
+      sv.setFloat32(at, sv.getFloat32(at, true) * 1.01, true);
+    }
+    expect(() => modelFromJson(JSON.stringify({ ...good, centroids: scaled.toString('base64') }), 'm.json')).toThrow(
+      `m.json is damaged: the centroid of group 0 (${JSON.stringify(good.labels[0].label)}) has length 1.010; every centroid has length 1`,
+    );
+  });
+
   it('sheaf assign says when the model file is missing or damaged (exit 2)', async () => {
     const dir = tempDir();
     writeFileSync(path.join(dir, 'bad.json'), '{"format":"sheaf-model","version":1}');

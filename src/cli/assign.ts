@@ -16,6 +16,7 @@ import { modelFromJson, type Model } from '../model/index.js';
 import { applyModel, type ModelApplication } from '../model/apply.js';
 import { csvText, fixed } from '../report/csv.js';
 import { jsonText, round } from '../report/outputs.js';
+import { visibleJson, visibleLines } from './visible.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import { UsageError } from '../util/errors.js';
@@ -85,7 +86,7 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const outDir = path.resolve(io.cwd, flags.out);
   await checkOutputFolders({ inputs, alsoReads: [flags.model, flags.stopwords], out: flags.out, quiet: flags.quiet }, io);
   const note = (line: string): void => {
-    if (!flags.quiet) io.stderr.write(line + '\n');
+    if (!flags.quiet) io.stderr.write(visibleLines(line) + '\n');
   };
   const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
   const a = applyModel(model, docs, minFit);
@@ -121,7 +122,7 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
     ]),
   );
   if (flags.json) {
-    io.stdout.write(jsonText(counts));
+    io.stdout.write(visibleJson(jsonText(counts)));
     return 0;
   }
   const width = Math.max(60, io.stdout.columns ?? 110);

@@ -11,11 +11,12 @@ import { decimal, wholeNumber } from './parse.js';
 import { versions } from './versions.js';
 import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, readInputs, readingRecord, type GroupFlags } from './group.js';
 import { renderTable, clip } from './table.js';
+import { visible, visibleJson, visibleLines } from './visible.js';
 import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
-import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
+import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from '../report/duplicates.js';
 import { jsonText, round } from '../report/outputs.js';
 import { fixed } from '../report/csv.js';
-import { writeOutputFolder } from '../report/folder.js';
+import { writeOutputFolder, type FileContent } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import type { DiffPiece } from '../duplicates/index.js';
@@ -72,7 +73,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   const outDir = path.resolve(io.cwd, flags.out);
   await checkOutputFolders({ inputs, alsoReads: [flags.stopwords], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
   const note = (line: string): void => {
-    if (!flags.quiet) io.stderr.write(line + '\n');
+    if (!flags.quiet) io.stderr.write(visibleLines(line) + '\n');
   };
   const t0 = now();
   const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
@@ -81,10 +82,11 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   for (const line of notes) note(line);
   const o = run.options;
   const src = { docs: run.docs, by: o.by, threshold: o.threshold, sets: run.sets, pairs: run.pairs, setOf: run.setOf };
-  const dupJson = duplicatesJson(src);
-  const files = new Map<string, string>([
+  // Written in pieces: all pairs of a large run do not fit in one string.
+  const files = new Map<string, FileContent>([
     ['duplicates.csv', duplicatesCsv(src)],
-    ['duplicates.json', jsonText(dupJson)],
+    ['duplicates.json', duplicatesJsonChunks(src)],
+    [PAIRS_FILE, nearCopyPairsCsvChunks(src)],
     [
       'run.json',
       jsonText({
@@ -128,7 +130,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     written.push(...v.map((p) => path.join(flags.saveVectors as string, path.basename(p))));
   }
   if (flags.json) {
-    io.stdout.write(jsonText(dupJson));
+    for (const piece of duplicatesJsonChunks(src)) io.stdout.write(visibleJson(piece));
     note(`sheaf: wrote ${written.join(', ')}`);
     return 0;
   }
@@ -177,10 +179,10 @@ export function duplicateLines(run: DuplicateRun, width: number, show: number): 
     );
   }
   for (const s of run.sets.slice(0, show)) {
-    lines.push('', `set ${s.id} — representative ${run.docs[s.representative].id}: ${clip(run.docs[s.representative].title, width - 30)}`);
+    lines.push('', `set ${s.id} — representative ${visible(run.docs[s.representative].id)}: ${clip(visible(run.docs[s.representative].title), width - 30)}`);
     for (const d of run.diffs.get(s.id) ?? []) {
       const i = Array.from(s.members).indexOf(d.row);
-      lines.push(`  ${run.docs[d.row].id} (${fixed(s.similarityToRepresentative[i], 2)}): ${diffText(d)}`);
+      lines.push(`  ${visible(run.docs[d.row].id)} (${fixed(s.similarityToRepresentative[i], 2)}): ${visible(diffText(d))}`);
     }
   }
   return lines;

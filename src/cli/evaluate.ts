@@ -10,7 +10,8 @@ import type { Command } from 'commander';
 import { parse } from 'csv-parse/sync';
 import type { CliIo } from './io.js';
 import { evaluationLines } from './render.js';
-import { evaluateLabels, evaluationJson, jsonText } from '../report/outputs.js';
+import { DOCUMENT_COLUMNS, evaluateLabels, evaluationJson, jsonText } from '../report/outputs.js';
+import { visible, visibleJson } from './visible.js';
 import { UsageError } from '../util/errors.js';
 
 interface EvaluateFlags {
@@ -51,10 +52,10 @@ async function runEvaluate(file: string, flags: EvaluateFlags, io: CliIo): Promi
   const header = rows[0];
   const column = (name: string, option: string): number => {
     const i = header.indexOf(name);
-    if (i < 0) throw new UsageError(`${file} has no column ${JSON.stringify(name)} for --${option}; its columns are: ${header.join(', ')}`, option);
+    if (i < 0) throw new UsageError(visible(`${file} has no column ${JSON.stringify(name)} for --${option}; its columns are: ${header.join(', ')}`), option);
     return i;
   };
-  const t = column(flags.truth, 'truth');
+  const t = column(truthColumn(header, flags.truth, file), 'truth');
   const g = column(flags.group, 'group');
   const body = rows.slice(1);
   if (body.length === 0) throw new UsageError(`${file} has a header but no rows`);
@@ -64,7 +65,27 @@ async function runEvaluate(file: string, flags: EvaluateFlags, io: CliIo): Promi
     body.map((r) => r[g] ?? ''),
   );
   if (e.scored === 0) throw new UsageError(`${file} has no row with both a group and a ${flags.truth} label`);
-  if (flags.json) io.stdout.write(jsonText(evaluationJson(e)));
+  if (flags.json) io.stdout.write(visibleJson(jsonText(evaluationJson(e))));
   else io.stdout.write(evaluationLines(e, Math.max(60, io.stdout.columns ?? 110)).join('\n') + '\n');
   return 0;
+}
+
+/**
+ * The column that holds the known labels called `name`. `sheaf group` writes
+ * its own columns first (`id, group, label, fit, duplicate_set`) and renames a
+ * user column that has one of those names to `input_<name>`; `--truth` takes
+ * the name the user knows, as `group --truth` does, so in a sheaf
+ * documents.csv a name of sheaf's own resolves to the renamed column. With no
+ * renamed column there, the name would score sheaf's own output against
+ * itself: refused.
+ */
+export function truthColumn(header: readonly string[], name: string, file: string): string {
+  const written = DOCUMENT_COLUMNS.every((c, i) => header[i] === c);
+  if (!written || !(DOCUMENT_COLUMNS as readonly string[]).includes(name)) return name;
+  const renamed = `input_${name}`;
+  if (header.includes(renamed)) return renamed;
+  throw new UsageError(
+    visible(`--truth ${name} names a column sheaf wrote in ${file}, not known labels; its own label column would be ${renamed}, and there is none`),
+    'truth',
+  );
 }

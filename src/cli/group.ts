@@ -19,6 +19,8 @@ import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
 import { kmeansRunner } from '../parallel/runner.js';
 import { vectorizeRunner } from '../parallel/analyze-runner.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
+import { visibleJson, visibleLines } from './visible.js';
+import { withFileDigests, type RunFile } from './organize.js';
 import { availableParallelism } from 'node:os';
 import {
   documentsCsvChunks,
@@ -35,7 +37,7 @@ import { writeOutputFolder, type FileContent } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import { toMatrixMarket } from '../vectorize/index.js';
 import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copies.js';
-import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
+import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from '../report/duplicates.js';
 import { modelToJson } from '../model/index.js';
 import { renderReport } from '../report/html.js';
 import { reportFromRun } from '../report/report-from-run.js';
@@ -353,7 +355,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const width = Math.max(60, io.stdout.columns ?? 110);
 
   const note = (line: string): void => {
-    if (!flags.quiet) io.stderr.write(line + '\n');
+    if (!flags.quiet) io.stderr.write(visibleLines(line) + '\n');
   };
   const t0 = now();
   const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
@@ -397,7 +399,8 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     if (near && dupOptions) {
       const src = { docs: result.docs, by: 'tfidf', threshold: dupOptions.threshold, sets: near.sets, pairs: near.pairs, setOf: near.setOf };
       files.set('duplicates.csv', duplicatesCsv(src));
-      files.set('duplicates.json', jsonText(duplicatesJson(src)));
+      files.set('duplicates.json', duplicatesJsonChunks(src));
+      files.set(PAIRS_FILE, nearCopyPairsCsvChunks(src));
     }
     files.set(
       'model.json',
@@ -438,7 +441,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     ...(near ? [{ stage: 'near-duplicates', ms: dupMs, items: read.docs.length }] : []),
     { stage: 'write', ms: now() - tw, items: read.docs.length },
   ];
-  files.set('run.json', jsonText(runJson({ threads, command, cwd: io.cwd, flags, ingestOptions, result, read, clean, evaluation, timings, startedAt, finishedAt: new Date() })));
+  files.set('run.json', jsonText(await withFileDigests(runJson({ threads, command, cwd: io.cwd, flags, ingestOptions, result, read, clean, evaluation, timings, startedAt, finishedAt: new Date() }) as { files?: RunFile[] })));
   const written = await writeOutputFolder(outDir, files);
   const shownWritten = written.map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
@@ -452,7 +455,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   }
 
   if (flags.json) {
-    io.stdout.write(command === 'group' ? jsonText(groupsDoc) : jsonText({ tree: groupsDoc.tree }));
+    io.stdout.write(visibleJson(command === 'group' ? jsonText(groupsDoc) : jsonText({ tree: groupsDoc.tree })));
     note(`sheaf: wrote ${shownWritten.join(', ')}`);
     return 0;
   }

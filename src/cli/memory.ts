@@ -3,10 +3,29 @@
  * memory a run will take, from the size of its input, against `--memory`.
  *
  * The estimate is a fixed base plus a multiple of the input's bytes, fitted to
- * peaks measured with `npm run bench` and a 1M-ticket run of `sheaf group`
- * (k = 100, near-copies on): 764 MB for a 40 MB CSV of 100k tickets and
- * 4.05 GB for a 398 MB CSV of 1M tickets on this kind of machine. It is a
- * guard against starting what cannot finish, not an exact figure.
+ * peaks measured on this kind of machine (2 cores, Node 20.20, default
+ * threads) with `/usr/bin/time -v` ("Maximum resident set size") on tickets
+ * from `bench/generate.mjs` (seed 7, ~58 words and ~400 bytes a row):
+ *
+ *   node bench/generate.mjs --sizes 63k,318k --seed 7 --out DIR
+ *   /usr/bin/time -v node dist/cli/main.js group DIR/synth-63k.csv  --text text --id id --groups 50 --no-report --out o
+ *   /usr/bin/time -v node dist/cli/main.js group DIR/synth-318k.csv --text text --id id --groups 50 --no-report --out o
+ *
+ * | rows | input bytes | report | peak RSS | estimate here | old estimate (200 MiB + 10.5 × bytes) |
+ * |---|---|---|---|---|---|
+ * | 63k  |  24,999,783 | off | 432,224 KiB = 443 MB  | 468 MB (+6%)   | 472 MB (+7%)   |
+ * | 63k  |  24,999,783 | on  | 524,536 KiB = 537 MB  | 468 MB (−13%)  | 472 MB (−12%)  |
+ * | 318k | 126,674,740 | off | 1,163,952 KiB = 1.19 GB | 1.28 GB (+8%) | 1.54 GB (+29%) |
+ *
+ * (near-copies on, the default, in all three). Earlier bench peaks (k = 100,
+ * near-copies on) stay within 25% as well: 764 MB for 40 MB of CSV (100k rows;
+ * estimate 588 MB, −23%) and 4.05 GB for 398 MB (1M rows; 3.45 GB, −15%). The fit
+ * is the line through the two runs without the report, rounded (256 MiB + 8 ×
+ * bytes); the report adds about 4 bytes per input byte at 63k, so a default run
+ * stays within 25% of the estimate. Per-row overhead (a document's fields and
+ * id) is not modelled apart from bytes: an export with many columns per short
+ * text will peak higher. A guard against starting what cannot finish, not an
+ * exact figure.
  *
  * @module
  */
@@ -15,10 +34,10 @@ import { stat } from 'node:fs/promises';
 import path from 'node:path';
 import { UsageError } from '../util/errors.js';
 
-/** Bytes held at the peak per byte of input text (measured, see the module note). */
-export const PEAK_PER_INPUT_BYTE = 10.5;
-/** Bytes held at the peak whatever the input (the runtime, the code, small buffers). */
-export const PEAK_BASE = 200 * 1024 ** 2;
+/** Bytes held at the peak per byte of input text (measured at 63k and 318k rows, see the module note). */
+export const PEAK_PER_INPUT_BYTE = 8;
+/** Bytes held at the peak whatever the input (the runtime, the code, small buffers; fitted, see the module note). */
+export const PEAK_BASE = 256 * 1024 ** 2;
 /** Share of the machine's memory used when `--memory` is not given. */
 export const DEFAULT_MEMORY_SHARE = 0.6;
 

@@ -4,12 +4,14 @@
  *
  * @module
  */
-import { copyFile, constants, mkdir, readFile, stat, symlink } from 'node:fs/promises';
+import { constants, lstat, mkdir, open, readFile, realpath, symlink } from 'node:fs/promises';
+import { createHash } from 'node:crypto';
 import path from 'node:path';
 import type { Command } from 'commander';
 import { parse } from 'csv-parse/sync';
 import type { CliIo } from './io.js';
 import { UsageError } from '../util/errors.js';
+import { visible } from './visible.js';
 
 interface OrganizeFlags {
   into: string;
@@ -93,9 +95,122 @@ export function organizePlan(
   return steps;
 }
 
+/** One input file as `run.json` lists it: id, absolute path, and (since it is recorded) the SHA-256 of its bytes. */
+export interface RunFile {
+  readonly id: string;
+  readonly path: string;
+  readonly sha256?: string;
+}
+
+/**
+ * `run.json` with the SHA-256 of each listed input file added (`files[].sha256`),
+ * so `organize` later copies only those very bytes. A file that can no longer be
+ * read gets no digest (and is never copied).
+ */
+export async function withFileDigests<T extends { files?: readonly RunFile[] }>(run: T): Promise<T> {
+  if (!run.files) return run;
+  const files: RunFile[] = [];
+  for (const f of run.files) {
+    try {
+      files.push({ ...f, sha256: createHash('sha256').update(await readFile(f.path)).digest('hex') });
+    } catch {
+      files.push({ id: f.id, path: f.path });
+    }
+  }
+  return { ...run, files };
+}
+
+/** Whether `p` is `root` or lies under it (both absolute and resolved). */
+function isUnder(p: string, root: string): boolean {
+  const rel = path.relative(root, p);
+  return rel === '' || (rel !== '..' && !rel.startsWith('..' + path.sep) && !path.isAbsolute(rel));
+}
+
+/**
+ * The folder of `to` made under `into`, one component at a time, never through
+ * a link: each existing component is checked with lstat. Returns null when made,
+ * or why the file cannot go there.
+ */
+async function makeFolderUnder(into: string, to: string, shown: (p: string) => string): Promise<string | null> {
+  const parts = path.relative(into, path.dirname(to)).split(path.sep).filter((x) => x !== '');
+  let at = into;
+  for (const part of parts) {
+    at = path.join(at, part);
+    let st;
+    try {
+      st = await lstat(at);
+    } catch (err) {
+      if ((err as { code?: string }).code !== 'ENOENT') return fsReason(err);
+      try {
+        await mkdir(at);
+        continue;
+      } catch (e) {
+        return fsReason(e);
+      }
+    }
+    if (st.isSymbolicLink()) return `${shown(at)} is a link; links inside --into are never followed`;
+    if (!st.isDirectory()) return `${shown(at)} is a file where its folder goes`;
+  }
+  return null;
+}
+
+function fsReason(err: unknown): string {
+  const code = (err as { code?: string }).code;
+  if (code === 'EEXIST') return 'already exists (never overwritten)';
+  if (code === 'ENAMETOOLONG') return 'the path is too long for the file system';
+  if (code === 'ENOTDIR') return 'a file is in the way of its folder';
+  if (code === 'EACCES' || code === 'EPERM') return 'permission denied';
+  return code ?? (err as Error)?.message ?? 'failed';
+}
+
+/**
+ * The bytes of an input file when it may be copied: it lies (after resolving
+ * links) under one of the run's input roots, is a regular file, and its SHA-256
+ * is the one run.json recorded. Otherwise why not.
+ */
+async function checkedSource(f: { path: string; sha256?: string }, roots: readonly string[]): Promise<{ bytes: Buffer } | { reason: string }> {
+  if (typeof f.sha256 !== 'string' || !/^[0-9a-f]{64}$/.test(f.sha256)) return { reason: 'run.json records no SHA-256 for it; not copied' };
+  let real: string;
+  try {
+    real = await realpath(f.path);
+  } catch {
+    return { reason: 'the input file is gone' };
+  }
+  if (!roots.some((r) => isUnder(real, r))) return { reason: 'not under an input of the run; not copied' };
+  let bytes: Buffer;
+  try {
+    const handle = await open(real, constants.O_RDONLY | constants.O_NOFOLLOW);
+    try {
+      if (!(await handle.stat()).isFile()) return { reason: 'not a regular file; not copied' };
+      bytes = await handle.readFile();
+    } finally {
+      await handle.close();
+    }
+  } catch (err) {
+    return { reason: fsReason(err) };
+  }
+  if (createHash('sha256').update(bytes).digest('hex') !== f.sha256) return { reason: 'changed since the run (SHA-256 differs from run.json); not copied' };
+  return { bytes };
+}
+
+/** The run's input roots (files and folders as given, resolved against its cwd, links resolved). */
+async function inputRoots(run: { cwd?: unknown; inputs?: unknown }): Promise<string[]> {
+  if (typeof run.cwd !== 'string' || !Array.isArray(run.inputs)) return [];
+  const roots: string[] = [];
+  for (const i of run.inputs as { path?: unknown; kind?: unknown }[]) {
+    if (typeof i?.path !== 'string' || (i.kind !== 'file' && i.kind !== 'folder')) continue;
+    try {
+      roots.push(await realpath(path.resolve(run.cwd, i.path)));
+    } catch {
+      // gone: nothing under it can be copied
+    }
+  }
+  return roots;
+}
+
 async function runOrganize(runFolder: string, flags: OrganizeFlags, io: CliIo): Promise<number> {
   const dir = path.resolve(io.cwd, runFolder);
-  let run: { tool?: string; command?: string; files?: { id: string; path: string }[]; counts?: { groups?: number } };
+  let run: { tool?: string; command?: string; cwd?: unknown; inputs?: unknown; files?: RunFile[]; counts?: { groups?: number } };
   let rows: Record<string, string>[];
   try {
     run = JSON.parse(await readFile(path.join(dir, 'run.json'), 'utf8'));
@@ -110,35 +225,49 @@ async function runOrganize(runFolder: string, flags: OrganizeFlags, io: CliIo): 
     throw new UsageError(`${runFolder} came from rows of an export, not files; there is nothing to copy`);
   }
   const byId = new Map(rows.map((r) => [r.id, r]));
-  const docs = run.files.map((f) => ({ id: f.id, path: f.path, group: byId.get(f.id)?.group ?? '', label: byId.get(f.id)?.label ?? '' }));
+  const docs = run.files.map((f) => ({ id: String(f.id), path: String(f.path), group: byId.get(f.id)?.group ?? '', label: byId.get(f.id)?.label ?? '' }));
   const into = path.resolve(io.cwd, flags.into);
   const steps = organizePlan(into, docs, run.counts?.groups ?? 0);
-  const shown = (p: string): string => path.relative(io.cwd, p) || '.';
+  const shown = (p: string): string => visible(path.relative(io.cwd, p) || '.');
   if (flags.dryRun) {
     io.stdout.write(steps.map((s) => `${flags.link ? 'link' : 'copy'} ${shown(s.from)} -> ${shown(s.to)}`).join('\n') + '\n');
-    io.stdout.write(`${steps.length} file(s) would be ${flags.link ? 'linked' : 'copied'} into ${flags.into} (dry run: nothing written).\n`);
+    io.stdout.write(`${steps.length} file(s) would be ${flags.link ? 'linked' : 'copied'} into ${visible(flags.into)} (dry run: nothing written).\n`);
     return 0;
   }
+  const roots = await inputRoots(run);
   let done = 0;
   const skipped: string[] = [];
-  for (const s of steps) {
-    try {
-      await stat(s.from);
-    } catch {
-      skipped.push(`${shown(s.from)}: the input file is gone`);
+  await mkdir(into, { recursive: true });
+  for (let k = 0; k < steps.length; k++) {
+    const s = steps[k];
+    const source = await checkedSource(run.files[k], roots);
+    if ('reason' in source) {
+      skipped.push(`${shown(s.from)}: ${source.reason}`);
       continue;
     }
-    await mkdir(path.dirname(s.to), { recursive: true });
+    const blocked = await makeFolderUnder(into, s.to, shown);
+    if (blocked !== null) {
+      skipped.push(`${shown(s.to)}: ${blocked}`);
+      continue;
+    }
     try {
-      if (flags.link) await symlink(s.from, s.to);
-      else await copyFile(s.from, s.to, constants.COPYFILE_EXCL);
+      if (flags.link) {
+        await symlink(await realpath(s.from), s.to);
+      } else {
+        // O_EXCL: never overwrites, and never writes through a link planted at the name.
+        const out = await open(s.to, 'wx');
+        try {
+          await out.writeFile(source.bytes);
+        } finally {
+          await out.close();
+        }
+      }
       done++;
     } catch (err) {
-      const code = (err as { code?: string }).code;
-      skipped.push(`${shown(s.to)}: ${code === 'EEXIST' ? 'already exists (never overwritten)' : code ?? 'failed'}`);
+      skipped.push(`${shown(s.to)}: ${fsReason(err)}`);
     }
   }
   if (!flags.quiet) for (const line of skipped) io.stderr.write(`sheaf: skipped ${line}\n`);
-  io.stdout.write(`${done} file(s) ${flags.link ? 'linked' : 'copied'} into ${flags.into}${skipped.length ? `; ${skipped.length} skipped` : ''}.\n`);
+  io.stdout.write(`${done} file(s) ${flags.link ? 'linked' : 'copied'} into ${visible(flags.into)}${skipped.length ? `; ${skipped.length} skipped` : ''}.\n`);
   return 0;
 }

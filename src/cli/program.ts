@@ -13,6 +13,7 @@ import { registerDuplicates } from './duplicates.js';
 import { registerAssign } from './assign.js';
 import { registerOrganize } from './organize.js';
 import { versions } from './versions.js';
+import { visible } from './visible.js';
 import { UsageError } from '../util/errors.js';
 
 /** Exit codes: 0 done, 1 failed while running, 2 bad usage or unusable input. */
@@ -84,11 +85,11 @@ export async function runCli(argv: readonly string[], io: CliIo): Promise<number
       return EXIT.usage; // commander already printed its one line
     }
     if (err instanceof UsageError) {
-      io.stderr.write(`sheaf: ${usageLine(err, knownOptions(program))}\n`);
+      io.stderr.write(`sheaf: ${visible(usageLine(err, knownOptions(program)))}\n`);
       return EXIT.usage;
     }
     const e = err as Error;
-    io.stderr.write(`sheaf: failed: ${e?.message ?? String(err)}\n`);
+    io.stderr.write(`sheaf: failed: ${visible(e?.message ?? String(err))}\n`);
     if (io.env.SHEAF_DEBUG && e?.stack) io.stderr.write(e.stack + '\n');
     return EXIT.failed;
   }

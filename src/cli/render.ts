@@ -9,6 +9,7 @@ import type { GroupResult } from '../pipeline.js';
 import type { Evaluation } from '../report/outputs.js';
 import { fixed } from '../report/csv.js';
 import { clip, renderTable } from './table.js';
+import { visible } from './visible.js';
 
 /** The group table: id, size, name, cohesion, two exemplar titles. */
 export function groupTable(result: GroupResult, width: number): string[] {
@@ -54,7 +55,7 @@ export function treeOutline(result: GroupResult, width: number, depth = 4): stri
     let text: string;
     if (node < n) {
       const g = result.groups[node];
-      text = `group ${g.id} · ${g.size} · ${g.label}`;
+      text = `group ${g.id} · ${g.size} · ${visible(g.label)}`;
     } else if (level >= depth) {
       text = `${docs[node]} documents in ${leavesUnder(node)} groups (joined at ${fixed(tree.similarity[node - n], 2)}) …`;
     } else {
@@ -96,7 +97,7 @@ export function choiceLines(result: GroupResult): string[] {
 export function evaluationLines(e: Evaluation, width: number, top = 15): string[] {
   const s = e.scores;
   const lines = [
-    `Against "${e.field}" (${e.scored} documents${e.leftOut ? `, ${e.leftOut} left out: no group or no label` : ''}): ` +
+    `Against "${visible(e.field)}" (${e.scored} documents${e.leftOut ? `, ${e.leftOut} left out: no group or no label` : ''}): ` +
       `purity ${fixed(s.purity, 3)}  NMI ${fixed(s.nmi, 3)}  ARI ${fixed(s.ari, 3)}  V-measure ${fixed(s.vMeasure, 3)}`,
   ];
   const rows = e.contingency.slice(0, top).map((r) => [

@@ -4,6 +4,7 @@
  *
  * @module
  */
+import { visible } from './visible.js';
 
 /** A column: heading, alignment, and the narrowest it may be squeezed to. */
 export interface Column {
@@ -56,8 +57,10 @@ function pad(text: string, width: number, align: 'left' | 'right'): string {
 }
 
 /** Renders rows under headings, fitted into `maxWidth` cells; returns lines without trailing spaces. */
-export function renderTable(columns: readonly Column[], rows: readonly (readonly string[])[], maxWidth = 100): string[] {
-  const clean = rows.map((r) => r.map((c) => c.replace(/\s+/g, ' ').trim()));
+export function renderTable(given: readonly Column[], rows: readonly (readonly string[])[], maxWidth = 100): string[] {
+  const columns = given.map((c) => ({ ...c, heading: visible(c.heading) }));
+  // Control characters from documents are shown, never obeyed (and then measured as what is shown).
+  const clean = rows.map((r) => r.map((c) => visible(c.replace(/\s+/g, ' ').trim())));
   const widths = columns.map((c, i) => Math.max(cellWidth(c.heading), ...clean.map((r) => cellWidth(r[i] ?? ''))));
   const sep = 2;
   const total = (): number => widths.reduce((a, b) => a + b, 0) + sep * (columns.length - 1);

@@ -221,8 +221,10 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   }
   // The stored idf must be the one the document frequencies give (a tampered weight would change every vector).
   for (let i = 0; i < cols; i++) {
+    if (!(idf[i] > 0)) fail(`vocabulary.idf of ${JSON.stringify(m.vocabulary.terms[i])} is ${idf[i]}; an idf is above 0`);
     if (Math.abs(vocabulary.idf[i] - idf[i]) > 1e-9) fail(`vocabulary.idf of ${JSON.stringify(m.vocabulary.terms[i])} does not follow from its document frequency`);
   }
+  checkUnitCentroids(centroids, m.groups, m.labels, fail);
   return {
     createdBy: m.createdBy,
     analyzer: Object.freeze({ ...m.analyzer, stopwords: Object.freeze([...m.analyzer.stopwords]) }),
@@ -233,6 +235,28 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
     minFit: Float32Array.from(m.minFit),
     ...(m.tree !== undefined ? { tree: m.tree } : {}),
   };
+}
+
+/** How far a stored centroid's length may be from 1 (Float32 storage rounds far less than this). */
+export const CENTROID_NORM_TOLERANCE = 1e-3;
+
+/**
+ * Every centroid of a spherical k-means is a unit vector: its length (L2 norm,
+ * over the term-major layout) must be 1 within {@link CENTROID_NORM_TOLERANCE}.
+ * A tampered value (say 1e30) would otherwise turn every fit into nonsense.
+ */
+function checkUnitCentroids(centroids: Float32Array, groups: number, labels: readonly { label: string }[], fail: (why: string) => never): void {
+  const norm2 = new Float64Array(groups);
+  for (let i = 0; i < centroids.length; i++) {
+    const v = centroids[i];
+    norm2[i % groups] += v * v;
+  }
+  for (let g = 0; g < groups; g++) {
+    const norm = Math.sqrt(norm2[g]);
+    if (!(Math.abs(norm - 1) <= CENTROID_NORM_TOLERANCE)) {
+      fail(`the centroid of group ${g} (${JSON.stringify(labels[g].label)}) has length ${norm.toPrecision(4)}; every centroid has length 1`);
+    }
+  }
 }
 
 /** Where each new document falls. */
