@@ -102,7 +102,7 @@ describe("a person's own files in an earlier output (case 2)", () => {
     const manifest = JSON.parse(readFileSync(path.join(dir, 'prev', MARKER), 'utf8'));
     expect(manifest.sheaf).toBe('output folder');
     expect(manifest.files).toEqual(files);
-    expect(files).toEqual(['documents.csv', 'duplicates.csv', 'duplicates.json', 'groups.json', 'near-copy-pairs.csv', 'model.json', 'report.html', 'run.json', 'tree.nwk']);
+    expect(files).toEqual(['documents.csv', 'duplicates.csv', 'duplicates.json', 'groups.json', 'model.json', 'near-copy-pairs.csv', 'report.html', 'run.json', 'tree.nwk']);
   });
 
   it('refuses and names a note the person added, and keeps every file', async () => {
