@@ -62,3 +62,99 @@ describe('rows nested very deep (case 10)', () => {
     expect(r.skipped).toEqual([]);
   });
 });
+
+const OTHER_FORMAT =
+  "not a format sheaf reads; to read it, add a pattern such as --include '**/*' (unknown extensions are read as plain text)";
+const SHEAF_WROTE = 'a folder sheaf wrote (an earlier output); never read as input';
+
+describe('folders sheaf wrote are never read (case 12)', () => {
+  it('skips an earlier output inside the input folder (marker file) and staging folders, naming each once', async () => {
+    const cwd = tmp();
+    put(cwd, 'notes/a.md', '# Alpha\n\nalpha notes\n');
+    put(cwd, 'notes/out/.sheaf-output', 'This folder was written by sheaf\n');
+    put(cwd, 'notes/out/report.html', '<html><body><p>an earlier report</p></body></html>');
+    put(cwd, 'notes/out/deeper/summary.txt', 'an earlier summary');
+    put(cwd, 'notes/.sheaf-tmp-out-1a2b3c/report.html', '<p>staged</p>');
+    put(cwd, 'notes/sub/.sheaf-old-out-4d5e6f/notes.md', '# retired');
+    put(cwd, 'notes/sub/b.txt', 'bravo text');
+    const r = await ingest(['notes'], { include: ['**/*.{md,txt,html}', '.sheaf-tmp-*/**', 'sub/.sheaf-old-*/**'] }, { cwd });
+    expect(r.docs.map((d) => d.source)).toEqual(['notes/a.md', 'notes/sub/b.txt']);
+    expect(r.skipped).toEqual([
+      { source: 'notes/.sheaf-tmp-out-1a2b3c', reason: SHEAF_WROTE },
+      { source: 'notes/out', reason: SHEAF_WROTE },
+      { source: 'notes/sub/.sheaf-old-out-4d5e6f', reason: SHEAF_WROTE },
+    ]);
+  });
+
+  it('an output folder named as the input is skipped as a whole', async () => {
+    const cwd = tmp();
+    put(cwd, 'out/.sheaf-output', 'This folder was written by sheaf\n');
+    put(cwd, 'out/report.html', '<p>an earlier report</p>');
+    const err = await usage(ingest(['out'], {}, { cwd }));
+    expect(err.message).toBe(`no readable documents in out; skipped out: ${SHEAF_WROTE}`);
+  });
+});
+
+describe('files of other formats are listed (case 18)', () => {
+  it('lists README, .rst, .gz and extensionless files as skipped with how to read them', async () => {
+    const cwd = tmp();
+    put(cwd, 'docs/a.md', '# Alpha\n\nalpha');
+    put(cwd, 'docs/README', 'read me first');
+    put(cwd, 'docs/guide.rst', 'Guide\n=====\n');
+    put(cwd, 'docs/old/logs.gz', Buffer.from([0x1f, 0x8b, 0x08, 0x00]));
+    put(cwd, 'docs/.env', 'SECRET=1'); // a dotfile: never read nor listed
+    const r = await ingest(['docs'], {}, { cwd });
+    expect(r.docs.map((d) => d.source)).toEqual(['docs/a.md']);
+    expect(r.skipped).toEqual([
+      { source: 'docs/README', reason: OTHER_FORMAT },
+      { source: 'docs/guide.rst', reason: OTHER_FORMAT },
+      { source: 'docs/old/logs.gz', reason: OTHER_FORMAT },
+    ]);
+  });
+
+  it("the hint holds: --include '**/*' reads README and .rst as text and skips the .gz as binary", async () => {
+    const cwd = tmp();
+    put(cwd, 'docs/README', 'read me first');
+    put(cwd, 'docs/guide.rst', 'Guide\n=====\n');
+    put(cwd, 'docs/logs.gz', Buffer.from([0x1f, 0x8b, 0x08, 0x00, 0x00]));
+    const r = await ingest(['docs'], { include: ['**/*'] }, { cwd });
+    expect(r.docs.map((d) => d.source)).toEqual(['docs/README', 'docs/guide.rst']);
+    expect(r.skipped).toEqual([{ source: 'docs/logs.gz', reason: 'binary: NUL bytes in the first 8 KiB' }]);
+  });
+
+  it('a folder with only other formats says so in its one-line error', async () => {
+    const cwd = tmp();
+    put(cwd, 'docs/README', 'read me first');
+    const err = await usage(ingest(['docs'], {}, { cwd }));
+    expect(err.message).toBe(
+      "no documents in folder docs (looked for **/*.{txt,md,markdown,html,htm,pdf,docx,eml}); 1 file(s) of other formats not read, such as README: add --include '**/*' to read them as text",
+    );
+  });
+});
+
+describe('unreadable folders and names that are not UTF-8 (case 15)', () => {
+  it('lists a subfolder that cannot be listed, with the reason', async () => {
+    const cwd = tmp();
+    put(cwd, 'notes/a.md', '# Alpha\n\nalpha');
+    put(cwd, 'notes/locked/b.md', '# Bravo');
+    const locked = path.join(cwd, 'notes', 'locked');
+    const readdirFailure = (abs: string): NodeJS.ErrnoException | null =>
+      abs === locked ? Object.assign(new Error('EACCES: permission denied'), { code: 'EACCES', syscall: 'scandir' }) : null;
+    const r = await ingest(['notes'], {}, { cwd, readdirFailure });
+    expect(r.docs.map((d) => d.source)).toEqual(['notes/a.md']);
+    expect(r.skipped).toEqual([{ source: 'notes/locked', reason: 'folder unreadable: permission denied (EACCES); its files were not read' }]);
+  });
+
+  it('reads a file whose name is not valid UTF-8 by its raw name', async () => {
+    const cwd = tmp();
+    put(cwd, 'notes/a.md', '# Alpha\n\nalpha');
+    const dir = Buffer.from(path.join(cwd, 'notes') + path.sep, 'utf8');
+    writeFileSync(Buffer.concat([dir, Buffer.from('caf\xe9.txt', 'latin1')]), 'a note from the caf\u00e9');
+    const r = await ingest(['notes'], {}, { cwd });
+    expect(r.skipped).toEqual([]);
+    expect(r.docs.map((d) => [d.source, d.text])).toEqual([
+      ['notes/a.md', '# Alpha\n\nalpha'],
+      ['notes/caf\ufffd.txt', 'a note from the caf\u00e9'],
+    ]);
+  });
+});

@@ -43,11 +43,11 @@ import { readCsv } from './csv.js';
 import { readJsonArray, readJsonLines } from './json.js';
 import { htmlToText } from './html.js';
 import { readMarkdown, readPlainText } from './text.js';
-import { listFolder } from './folder.js';
+import { listFolder, NOT_A_FORMAT_REASON, rawNamePath, type ReaddirFailure } from './folder.js';
 import { firstSignificant, peekBytes, peekText } from './peek.js';
 import { isFsError, unreadableReason } from './io-errors.js';
 import { listNames, type DraftDoc } from './table.js';
-import { resolveIngestOptions, type IngestFormat, type IngestOptions } from './options.js';
+import { DEFAULT_INCLUDE, resolveIngestOptions, type IngestFormat, type IngestOptions } from './options.js';
 import { DOCUMENT_EXTENSIONS, noteOf, readDocumentBytes, type DecodingNote, type DocumentKind } from './documents.js';
 import { looksLikePdf } from './pdf.js';
 import { looksLikeZip } from './zip.js';
@@ -139,6 +139,11 @@ export interface IngestIo {
    * for virtual file systems; folder listing still uses the file system.
    */
   readonly open?: (absolutePath: string) => AsyncIterable<Uint8Array>;
+  /**
+   * A seam for tests (unreadable folders when running as root): the error
+   * listing an absolute folder fails with, or `null` to list it normally.
+   */
+  readonly readdirFailure?: ReaddirFailure;
 }
 
 type ReadAs = 'csv' | 'tsv' | 'jsonl' | 'json' | 'document';
@@ -447,19 +452,33 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
   type One = OneFile & { sha: string | null; bytes: number };
   const results = await mapPool(listing.files, READ_CONCURRENCY, async (rel): Promise<One> => {
     const source = shown(rel);
-    let buf: Buffer;
+    let buf: Buffer | null = null;
+    let reason = '';
     try {
       buf = await readAllBytes(path.join(abs, rel), io);
     } catch (err) {
       if (!isFsError(err)) throw err;
-      return { doc: null, skip: { source, reason: unreadableReason(err) }, warnings: [], decoding: null, attachments: null, sha: null, bytes: 0 };
+      reason = unreadableReason(err);
+      if ((err as { code?: unknown }).code === 'ENOENT' && rel.includes('\uFFFD') && !io.open) {
+        // A name that is not valid UTF-8: listed with U+FFFD, so read it by its raw bytes.
+        const raw = await rawNamePath(abs, rel);
+        if (raw !== null) {
+          try {
+            buf = await readFile(raw);
+          } catch (e2) {
+            if (!isFsError(e2)) throw e2;
+            reason = unreadableReason(e2);
+          }
+        } else reason = 'unreadable: its name is not valid UTF-8 and could not be matched to one file (rename it)';
+      }
     }
+    if (buf === null) return { doc: null, skip: { source, reason }, warnings: [], decoding: null, attachments: null, sha: null, bytes: 0 };
     const sha = createHash('sha256').update(buf).digest('hex');
     const one = await readOneFile(buf, source, rel, path.extname(rel).toLowerCase(), opts);
     return { ...one, sha, bytes: buf.length };
   });
   const docs: DraftDoc[] = [];
-  const skipped: Skipped[] = [...listing.skipped];
+  const skipped: Skipped[] = [...listing.skipped, ...listing.notIncluded.map((rel) => ({ source: shown(rel), reason: NOT_A_FORMAT_REASON }))];
   const warnings: string[] = listing.linkedFolders.map((f) => `${f}: a link to a folder; not followed`);
   const decoding: DecodingNote[] = [];
   const attachments: AttachmentNote[] = [];
@@ -633,9 +652,10 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
       continue;
     }
     if (st.isDirectory()) {
-      const listing = await listFolder(key, given, opts.include, opts.exclude);
+      const listing = await listFolder(key, given, opts.include, opts.exclude, io.readdirFailure ?? null, opts.include.length === 1 && opts.include[0] === DEFAULT_INCLUDE);
       if (listing.files.length === 0 && listing.skipped.length === 0) {
-        throw new UsageError(`no documents in folder ${given} (${describeLooked(opts)})`);
+        const others = listing.notIncluded.length === 0 ? '' : `; ${listing.notIncluded.length} file(s) of other formats not read, such as ${listing.notIncluded[0]}: add --include '**/*' to read them as text`;
+        throw new UsageError(`no documents in folder ${given} (${describeLooked(opts)})${others}`);
       }
       planned.push({ kind: 'folder', given, abs: key, listing });
     } else {
