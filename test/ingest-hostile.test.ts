@@ -6,8 +6,12 @@ import { describe, expect, it } from 'vitest';
 import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { Readable } from 'node:stream';
+import { deflateSync } from 'node:zlib';
 import { ingest } from '../src/ingest/index.js';
+import { PDF_INFLATED_MAX, readPdf } from '../src/ingest/pdf.js';
 import { UsageError } from '../src/util/errors.js';
+import { sheaf } from './helpers/cli.js';
 
 function tmp(): string {
   return mkdtempSync(path.join(os.tmpdir(), 'sheaf-hostile-'));
@@ -156,5 +160,81 @@ describe('unreadable folders and names that are not UTF-8 (case 15)', () => {
       ['notes/a.md', '# Alpha\n\nalpha'],
       ['notes/caf\ufffd.txt', 'a note from the caf\u00e9'],
     ]);
+  });
+});
+
+/** A one-page PDF whose content stream (Flate) shows `text` and then `padding` spaces; offsets in the xref are exact. */
+function paddedPdf(text: string, padding: number): Buffer {
+  const content = deflateSync(Buffer.from(`BT /F1 12 Tf 72 720 Td (${text}) Tj ET\n${' '.repeat(padding)}`, 'latin1'));
+  const parts: Buffer[] = [];
+  const offsets: number[] = [];
+  let at = 0;
+  const add = (b: Buffer | string): void => {
+    const buf = typeof b === 'string' ? Buffer.from(b, 'latin1') : b;
+    parts.push(buf);
+    at += buf.length;
+  };
+  add('%PDF-1.4\n');
+  const obj = (n: number, body: string | Buffer[]): void => {
+    offsets[n] = at;
+    if (typeof body === 'string') add(`${n} 0 obj\n${body}\nendobj\n`);
+    else {
+      add(`${n} 0 obj\n`);
+      for (const b of body) add(b);
+      add('\nendobj\n');
+    }
+  };
+  obj(1, '<< /Type /Catalog /Pages 2 0 R >>');
+  obj(2, '<< /Type /Pages /Kids [3 0 R] /Count 1 >>');
+  obj(3, '<< /Type /Page /Parent 2 0 R /MediaBox [0 0 612 792] /Contents 4 0 R /Resources << /Font << /F1 5 0 R >> >> >>');
+  obj(4, [Buffer.from(`<< /Length ${content.length} /Filter /FlateDecode >>\nstream\n`, 'latin1'), content, Buffer.from('\nendstream', 'latin1')]);
+  obj(5, '<< /Type /Font /Subtype /Type1 /BaseFont /Helvetica >>');
+  const xref = at;
+  add(`xref\n0 6\n0000000000 65535 f \n${[1, 2, 3, 4, 5].map((n) => `${String(offsets[n]).padStart(10, '0')} 00000 n \n`).join('')}`);
+  add(`trailer\n<< /Size 6 /Root 1 0 R >>\nstartxref\n${xref}\n%%EOF\n`);
+  return Buffer.concat(parts);
+}
+
+describe('PDF streams and devices are bounded (case 8)', () => {
+  it('refuses a PDF whose content stream unpacks past the limit, before pdf.js reads it', async () => {
+    const pdf = paddedPdf('Bounded text', 2 * 1024 * 1024);
+    expect(pdf.length).toBeLessThan(10_000); // 2 MiB of spaces deflate to a few KiB
+    await expect(readPdf(pdf, { inflatedMax: 1024 * 1024 })).rejects.toMatchObject({
+      reason: 'PDF too large: its compressed streams unpack to more than 1048576 bytes (limit 1048576)',
+    });
+    // The same file under the default limit (512 MiB) is read.
+    expect((await readPdf(pdf)).text).toBe('Bounded text');
+    expect(PDF_INFLATED_MAX).toBe(512 * 1024 * 1024);
+  });
+
+  it('refuses a device named as an input in one line', async () => {
+    const err = await usage(ingest(['/dev/zero'], {}, { cwd: tmp() }));
+    expect(err.message).toBe('not a regular file, folder or pipe: /dev/zero');
+  });
+
+  it('stops an endless standard input at maxStreamBytes and says so', async () => {
+    let sent = 0;
+    const endless = new Readable({
+      read(): void {
+        sent += 4096;
+        this.push(sent === 4096 ? 'id,text\n' + '1,more rows\n'.repeat(340) : '2,more rows\n'.repeat(341));
+      },
+    });
+    const err = await usage(ingest(['-'], { maxStreamBytes: 65536 }, { cwd: tmp(), stdin: endless }));
+    expect(err.message).toBe(
+      'no readable documents in -; skipped stdin: stopped after 65536 bytes: a stream (standard input or a pipe) is read up to maxStreamBytes (65536 bytes); save it to a file to read it whole',
+    );
+    expect(sent).toBeLessThan(200_000);
+  });
+});
+
+describe('devices on the command line (case 8)', () => {
+  it('group and evaluate refuse /dev/zero with exit 2 and one line', async () => {
+    const cwd = tmp();
+    for (const argv of [['group', '/dev/zero', '--groups', '2', '--out', 'out'], ['evaluate', '/dev/zero', '--truth', 'label']]) {
+      const r = await sheaf(argv, { cwd });
+      expect(r.code).toBe(2);
+      expect(r.stderr).toBe('sheaf: not a regular file, folder or pipe: /dev/zero\n');
+    }
   });
 });

@@ -12,6 +12,7 @@ import type { CliIo } from './io.js';
 import { evaluationLines } from './render.js';
 import { evaluateLabels, evaluationJson, jsonText } from '../report/outputs.js';
 import { UsageError } from '../util/errors.js';
+import { checkInputKind } from '../ingest/index.js';
 
 interface EvaluateFlags {
   truth: string;
@@ -36,8 +37,10 @@ export function registerEvaluate(program: Command, io: CliIo, setExit: (code: nu
 async function runEvaluate(file: string, flags: EvaluateFlags, io: CliIo): Promise<number> {
   let bytes: Buffer;
   try {
+    await checkInputKind(path.resolve(io.cwd, file), file); // a device such as /dev/zero never ends
     bytes = await readFile(path.resolve(io.cwd, file));
   } catch (err) {
+    if (err instanceof UsageError) throw err;
     const code = (err as { code?: string }).code;
     throw new UsageError(code === 'ENOENT' ? `no such file: ${file}` : `cannot read ${file} (${code ?? 'error'})`);
   }

@@ -53,7 +53,7 @@ import { looksLikePdf } from './pdf.js';
 import { looksLikeZip } from './zip.js';
 import { looksLikeOle } from './docx.js';
 
-export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, DEFAULT_MAX_BYTES, INGEST_FORMATS, resolveIngestOptions } from './options.js';
+export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, DEFAULT_MAX_BYTES, DEFAULT_MAX_STREAM_BYTES, INGEST_FORMATS, resolveIngestOptions } from './options.js';
 export type { IngestFormat, IngestOptions } from './options.js';
 export { DOCUMENT_EXTENSIONS, readDocumentBytes, chooseReader, type DecodingNote, type DocumentKind, type DocumentRead } from './documents.js';
 export { canonicalEncoding, chooseEncoding, type EncodingBasis, type EncodingChoice } from './charset.js';
@@ -200,12 +200,39 @@ type Listing = Awaited<ReturnType<typeof listFolder>>;
 
 type Planned =
   | { readonly kind: 'stdin' }
-  | { readonly kind: 'file'; readonly given: string; readonly abs: string }
+  | { readonly kind: 'file'; readonly given: string; readonly abs: string; readonly pipe: boolean }
   | { readonly kind: 'folder'; readonly given: string; readonly abs: string; readonly listing: Listing }
   | { readonly kind: 'unreadable'; readonly given: string; readonly reason: string };
 
 async function* streamOf(source: NodeJS.ReadableStream | AsyncIterable<Uint8Array>): AsyncGenerator<Uint8Array | string, void, undefined> {
   for await (const chunk of source as AsyncIterable<Uint8Array | string>) yield chunk;
+}
+
+/** Passes a stream through, giving it up (InputSkip) past `limit` bytes. */
+async function* capStream(source: AsyncIterable<Uint8Array | string>, limit: number): AsyncGenerator<Uint8Array | string, void, undefined> {
+  let n = 0;
+  for await (const c of source) {
+    n += typeof c === 'string' ? Buffer.byteLength(c, 'utf8') : c.byteLength;
+    if (n > limit) {
+      throw new InputSkip(
+        `stopped after ${limit} bytes: a stream (standard input or a pipe) is read up to maxStreamBytes (${limit} bytes); save it to a file to read it whole`,
+      );
+    }
+    yield c;
+  }
+}
+
+/**
+ * Throws {@link UsageError} (`not a regular file, folder or pipe: x`) for a
+ * path that names a device, socket or the like (`/dev/zero` never ends).
+ * Returns whether it is a pipe, to be read under `maxStreamBytes`.
+ */
+export async function checkInputKind(absolutePath: string, given: string): Promise<{ pipe: boolean; folder: boolean }> {
+  const st = await stat(absolutePath);
+  if (st.isDirectory()) return { pipe: false, folder: true };
+  if (st.isFile()) return { pipe: false, folder: false };
+  if (st.isFIFO()) return { pipe: true, folder: false };
+  throw new UsageError(`not a regular file, folder or pipe: ${given}`);
 }
 
 async function collect(chunks: AsyncIterable<string>): Promise<string> {
@@ -379,10 +406,11 @@ async function readStreamedExport(
   };
 }
 
-async function readFileInput(given: string, abs: string, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
+async function readFileInput(given: string, abs: string, pipe: boolean, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
   const ext = path.extname(abs).toLowerCase();
   const readAs = readAsFor(opts.format, ext);
-  const source = streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 }));
+  const opened = streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 }));
+  const source = pipe ? capStream(opened, opts.maxStreamBytes) : opened;
   try {
     if (readAs !== null && readAs !== 'document') return await readStreamedExport(given, source, readAs, opts);
     let all: AsyncIterable<Uint8Array | string> = source;
@@ -409,7 +437,7 @@ function skippedInput(source: string, reason: string): InputRead {
 
 async function readStdinInput(opts: IngestOptions, stdin: NodeJS.ReadableStream): Promise<InputRead> {
   let stats: DecodeStats | null = null;
-  const chunks = decodeStream(streamOf(stdin), (s) => (stats = s), { forced: opts.encoding });
+  const chunks = decodeStream(capStream(streamOf(stdin), opts.maxStreamBytes), (s) => (stats = s), { forced: opts.encoding });
   const readAs: ReadAs | null = opts.format === 'auto' ? null : opts.format === 'text' ? 'document' : opts.format;
   try {
     const r = await readStreamInput(chunks, 'stdin', 'stdin', readAs, opts);
@@ -644,14 +672,15 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     }
     let st;
     try {
-      st = await stat(key);
+      st = await checkInputKind(key, given);
     } catch (err) {
+      if (err instanceof UsageError) throw err;
       const code = (err as { code?: unknown }).code;
       if (code === 'ENOENT' || code === 'ENOTDIR') throw new UsageError(`no such file or folder: ${given}`);
       planned.push({ kind: 'unreadable', given, reason: unreadableReason(err) });
       continue;
     }
-    if (st.isDirectory()) {
+    if (st.folder) {
       const listing = await listFolder(key, given, opts.include, opts.exclude, io.readdirFailure ?? null, opts.include.length === 1 && opts.include[0] === DEFAULT_INCLUDE);
       if (listing.files.length === 0 && listing.skipped.length === 0) {
         const others = listing.notIncluded.length === 0 ? '' : `; ${listing.notIncluded.length} file(s) of other formats not read, such as ${listing.notIncluded[0]}: add --include '**/*' to read them as text`;
@@ -659,7 +688,7 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
       }
       planned.push({ kind: 'folder', given, abs: key, listing });
     } else {
-      planned.push({ kind: 'file', given, abs: key });
+      planned.push({ kind: 'file', given, abs: key, pipe: st.pipe });
     }
   }
 
@@ -670,7 +699,7 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
   const reads: InputRead[] = [];
   for (const p of capped.planned) {
     if (p.kind === 'stdin') reads.push(await readStdinInput(opts, io.stdin as NodeJS.ReadableStream));
-    else if (p.kind === 'file') reads.push(await readFileInput(p.given, p.abs, opts, io));
+    else if (p.kind === 'file') reads.push(await readFileInput(p.given, p.abs, p.pipe, opts, io));
     else if (p.kind === 'folder') reads.push(await readFolderInput(p.given, p.abs, p.listing, opts, io));
     else reads.push(skippedInput(p.given, p.reason));
   }
