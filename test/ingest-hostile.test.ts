@@ -238,3 +238,26 @@ describe('devices on the command line (case 8)', () => {
     }
   });
 });
+
+describe('titles from a title-like column (issue 12 item 5)', () => {
+  it('CSV: takes titles from a subject column when no title is named, and says which column', async () => {
+    const cwd = tmp();
+    put(cwd, 't.csv', 'id,Subject,body\n7,Instalment marked unpaid,"Good morning,\nmy instalment shows unpaid"\n8,,"Hi Hattie,\nthe card was declined"\n');
+    const r = await ingest(['t.csv'], {}, { cwd });
+    expect(r.docs.map((d) => d.title)).toEqual(['Instalment marked unpaid', 'Hi Hattie,']);
+    expect(r.titleColumns).toEqual([{ source: 't.csv', column: 'Subject' }]);
+    // A named title column wins and is not reported as guessed.
+    const named = await ingest(['t.csv'], { title: 'id' }, { cwd });
+    expect(named.docs.map((d) => d.title)).toEqual(['7', '8']);
+    expect(named.titleColumns).toEqual([]);
+  });
+
+  it('JSON Lines: takes titles from a headline key; a summary that is the text is not the title', async () => {
+    const cwd = tmp();
+    put(cwd, 'a.jsonl', '{"headline":"Card declined abroad","text":"Hello,\\nmy card failed in Lisbon"}\n');
+    put(cwd, 'b.jsonl', '{"summary":"Hello there,\\nthe app crashes"}\n');
+    const r = await ingest(['a.jsonl', 'b.jsonl'], {}, { cwd });
+    expect(r.docs.map((d) => d.title)).toEqual(['Card declined abroad', 'Hello there,']);
+    expect(r.titleColumns).toEqual([{ source: 'a.jsonl', column: 'headline' }]);
+  });
+});
