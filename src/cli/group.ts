@@ -137,6 +137,7 @@ export async function readInputs(
     const replaced = read.decoding.filter((d) => d.replaced > 0).length;
     notes.push(`sheaf: note: ${read.decoding.length} file(s) not in plain UTF-8 were decoded${replaced ? ` (${replaced} with damaged characters replaced)` : ''}; see decoding in run.json`);
   }
+  for (const t of read.titleColumns) notes.push(`sheaf: note: ${t.source}: titles taken from the column ${JSON.stringify(t.column)} (name another with --title)`);
   if (read.truncated.length > 0) notes.push(`sheaf: note: ${read.truncated.length} document(s) longer than --max-bytes were cut; see truncated in run.json`);
   const cleaned = mode === null ? cleanDocuments(read.docs, { mode: 'tickets' }, read.exportRows) : cleanDocuments(read.docs, { mode });
   const r = cleaned.report;

@@ -34,6 +34,8 @@ export interface CsvReadOptions {
 export interface ExportRead {
   readonly docs: DraftDoc[];
   readonly warnings: string[];
+  /** The column the titles came from when it was guessed (no `title` option), else absent. */
+  readonly titleColumn?: string;
 }
 
 const SNIFFED = [';', '\t', '|'];
@@ -151,6 +153,7 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
   let textIdx: number[] = [];
   let idIdx = -1;
   let titleIdx = -1;
+  let titleColumn: string | undefined;
   const short: number[] = [];
   const long: number[] = [];
   let row = 0;
@@ -169,6 +172,7 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
         textIdx = chosen.text.map((c) => names.indexOf(c));
         idIdx = chosen.id === null ? -1 : names.indexOf(chosen.id);
         titleIdx = chosen.title === null ? -1 : names.indexOf(chosen.title);
+        if (chosen.titleGuessed && chosen.title !== null) titleColumn = chosen.title;
         collector = new RowCollector(name, idIdx === -1);
         continue;
       }
@@ -214,5 +218,5 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
   }
   const c = collector as RowCollector;
   warnings.push(...c.warnings());
-  return { docs: c.docs, warnings };
+  return titleColumn === undefined ? { docs: c.docs, warnings } : { docs: c.docs, warnings, titleColumn };
 }

@@ -125,6 +125,12 @@ export interface IngestResult {
    * it is a document file (text, Markdown, HTML, PDF, Word, e-mail).
    */
   exportRows: Uint8Array;
+  /**
+   * Exports whose titles came from a title-like column that was guessed (no
+   * `title` option): `subject`, `title`, `headline`, `topic` or `summary`
+   * (see `TITLE_COLUMN_GUESSES`), one entry per export, in reading order.
+   */
+  titleColumns: { readonly source: string; readonly column: string }[];
 }
 
 /** Where ingest reads from. */
@@ -194,6 +200,8 @@ interface InputRead {
   readonly isExport: boolean;
   readonly decoding: DecodingNote[];
   readonly attachments: AttachmentNote[];
+  /** An export's guessed title column. */
+  readonly titleColumn?: string;
 }
 
 type Listing = Awaited<ReturnType<typeof listFolder>>;
@@ -258,7 +266,7 @@ async function readStreamInput(
   id: string,
   readAs: ReadAs | null,
   opts: IngestOptions,
-): Promise<{ docs: DraftDoc[]; skipped: Skipped[]; warnings: string[]; isExport: boolean }> {
+): Promise<{ docs: DraftDoc[]; skipped: Skipped[]; warnings: string[]; isExport: boolean; titleColumn?: string }> {
   let as = readAs;
   let all = chunks;
   if (as === null) {
@@ -271,12 +279,12 @@ async function readStreamInput(
     case 'csv':
     case 'tsv': {
       const r = await readCsv(all, name, as, opts);
-      return { docs: r.docs, skipped: [], warnings: r.warnings, isExport: true };
+      return { docs: r.docs, skipped: [], warnings: r.warnings, isExport: true, ...(r.titleColumn !== undefined ? { titleColumn: r.titleColumn } : {}) };
     }
     case 'jsonl':
     case 'json': {
       const r = await (as === 'jsonl' ? readJsonLines : readJsonArray)(all, name, opts);
-      return { docs: r.docs, skipped: r.skipped, warnings: r.warnings, isExport: true };
+      return { docs: r.docs, skipped: r.skipped, warnings: r.warnings, isExport: true, ...(r.titleColumn !== undefined ? { titleColumn: r.titleColumn } : {}) };
     }
     case 'document': {
       const { text, title } = readDocument(await collect(all), '');
@@ -742,6 +750,7 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     attachments: reads.flatMap((r) => r.attachments),
     filesNotRead: capped.notRead,
     exportRows,
+    titleColumns: reads.flatMap((r) => (r.titleColumn !== undefined ? [{ source: r.label, column: r.titleColumn }] : [])),
   };
 }
 

@@ -125,7 +125,7 @@ function lookup(obj: JsonObject, keys: readonly string[]): unknown {
   return v;
 }
 
-function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOptions): { docs: ExportRead['docs']; warnings: string[] } {
+function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOptions): { docs: ExportRead['docs']; warnings: string[]; titleColumn?: string } {
   const index = new PathIndex();
   for (const r of rows) index.add(r.obj);
   const chosen = chooseColumns(name, index.columns(), options);
@@ -147,7 +147,8 @@ function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOpti
       fields,
     );
   }
-  return { docs: collector.docs, warnings: collector.warnings() };
+  const out = { docs: collector.docs, warnings: collector.warnings() };
+  return chosen.titleGuessed && chosen.title !== null ? { ...out, titleColumn: chosen.title } : out;
 }
 
 /**
@@ -201,7 +202,7 @@ export async function readJsonLines(chunks: AsyncIterable<string>, name: string,
   }
   if (rows.length === 0) return { docs: [], warnings, skipped };
   const built = buildDocs(rows, name, options);
-  return { docs: built.docs, warnings: [...warnings, ...built.warnings], skipped };
+  return { ...built, warnings: [...warnings, ...built.warnings], skipped };
 }
 
 function describe(v: unknown): string {
