@@ -261,3 +261,53 @@ describe('titles from a title-like column (issue 12 item 5)', () => {
     expect(r.titleColumns).toEqual([{ source: 'a.jsonl', column: 'headline' }]);
   });
 });
+
+describe('rows merged by a stray quote (case 3)', () => {
+  /** 60 rows; the body of row 11 (line 12) opens a quote that a stray quote in row 30 (line 31) closes. */
+  function strayQuote(): string {
+    const lines = ['id,body,team'];
+    for (let i = 1; i <= 60; i++) {
+      if (i === 11) lines.push(`${i},"unterminated body ${i},billing`);
+      else if (i === 30) lines.push(`${i},stray quote",billing`);
+      else lines.push(`${i},Ticket body number ${i},billing`);
+    }
+    return lines.join('\n') + '\n';
+  }
+
+  it('warns with the line numbers, lists the record as data and counts rows in against documents out', async () => {
+    const cwd = tmp();
+    put(cwd, 't.csv', strayQuote());
+    const r = await ingest(['t.csv'], {}, { cwd });
+    expect(r.docs.length).toBe(41);
+    expect(r.warnings).toEqual([
+      't.csv: lines 12–31 were read as one record: a quoted field runs over 19 lines shaped like rows of their own (a stray or missing quote?)',
+      't.csv: 60 rows read as 41 documents',
+    ]);
+    expect(r.mergedRecords).toEqual([{ source: 't.csv', firstLine: 12, lastLine: 31, rowLike: 19 }]);
+    expect(r.exportCounts).toEqual([{ source: 't.csv', rows: 60, documents: 41 }]);
+  });
+
+  it('does not warn for ticket bodies with a few line breaks of prose', async () => {
+    const cwd = tmp();
+    put(
+      cwd,
+      't.csv',
+      'id,body,team\n' +
+        '1,"Hello,\nI tried twice, no luck.\nThe card, again, was refused\n\nThanks, Ana",billing\n' +
+        '2,"Hi team,\nthe app crashes on start\nregards",mobile\n' +
+        '3,one line body,billing\n',
+    );
+    const r = await ingest(['t.csv'], {}, { cwd });
+    expect(r.docs.map((d) => d.id)).toEqual(['1', '2', '3']);
+    expect(r.warnings).toEqual([]);
+    expect(r.mergedRecords).toEqual([]);
+    expect(r.exportCounts).toEqual([{ source: 't.csv', rows: 3, documents: 3 }]);
+  });
+
+  it('counts JSON Lines rows against documents, skipped rows included', async () => {
+    const cwd = tmp();
+    put(cwd, 'r.jsonl', '{"text":"one"}\nnot json\n{"text":"three"}\n');
+    const r = await ingest(['r.jsonl'], {}, { cwd });
+    expect(r.exportCounts).toEqual([{ source: 'r.jsonl', rows: 3, documents: 2 }]);
+  });
+});

@@ -493,6 +493,8 @@ export function readingRecord(read: IngestResult, clean: CleanReport): Record<st
     truncated: read.truncated,
     attachmentsNotRead: read.attachments,
     filesNotRead: read.filesNotRead,
+    exportCounts: read.exportCounts,
+    mergedRecords: read.mergedRecords,
     cleaning: clean,
   };
 }

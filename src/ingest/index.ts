@@ -39,7 +39,7 @@ import path from 'node:path';
 import type { Doc, Skipped } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { decodeBuffer, decodeStream, InputSkip, type DecodeStats } from './decode.js';
-import { readCsv } from './csv.js';
+import { readCsv, type MergedRecord } from './csv.js';
 import { readJsonArray, readJsonLines } from './json.js';
 import { htmlToText } from './html.js';
 import { readMarkdown, readPlainText } from './text.js';
@@ -131,6 +131,15 @@ export interface IngestResult {
    * (see `TITLE_COLUMN_GUESSES`), one entry per export, in reading order.
    */
   titleColumns: { readonly source: string; readonly column: string }[];
+  /**
+   * Per export, in reading order: rows seen against documents made ("60
+   * rows read as 40 documents"). Rows seen counts records (JSON: rows, also
+   * those skipped) plus, in a CSV, lines shaped like rows that a record with
+   * a stray or missing quote swallowed.
+   */
+  exportCounts: { readonly source: string; readonly rows: number; readonly documents: number }[];
+  /** CSV records that swallowed lines shaped like rows, by line range (each also a warning). */
+  mergedRecords: { readonly source: string; readonly firstLine: number; readonly lastLine: number; readonly rowLike: number }[];
 }
 
 /** Where ingest reads from. */
@@ -202,6 +211,10 @@ interface InputRead {
   readonly attachments: AttachmentNote[];
   /** An export's guessed title column. */
   readonly titleColumn?: string;
+  /** An export's rows seen (see `IngestResult.exportCounts`). */
+  readonly rowsSeen?: number;
+  /** A CSV's records that swallowed rows. */
+  readonly merged?: readonly MergedRecord[];
 }
 
 type Listing = Awaited<ReturnType<typeof listFolder>>;
@@ -255,6 +268,17 @@ async function collectBytes(chunks: AsyncIterable<Uint8Array | string>): Promise
   return Buffer.concat(parts);
 }
 
+/** What {@link readStreamInput} gives. */
+interface StreamRead {
+  docs: DraftDoc[];
+  skipped: Skipped[];
+  warnings: string[];
+  isExport: boolean;
+  titleColumn?: string;
+  rowsSeen?: number;
+  merged?: readonly MergedRecord[];
+}
+
 /**
  * Reads an export (or, for standard input with `format: text`, one
  * document) from a decoded stream. `name` names it in messages and
@@ -266,7 +290,7 @@ async function readStreamInput(
   id: string,
   readAs: ReadAs | null,
   opts: IngestOptions,
-): Promise<{ docs: DraftDoc[]; skipped: Skipped[]; warnings: string[]; isExport: boolean; titleColumn?: string }> {
+): Promise<StreamRead> {
   let as = readAs;
   let all = chunks;
   if (as === null) {
@@ -279,12 +303,12 @@ async function readStreamInput(
     case 'csv':
     case 'tsv': {
       const r = await readCsv(all, name, as, opts);
-      return { docs: r.docs, skipped: [], warnings: r.warnings, isExport: true, ...(r.titleColumn !== undefined ? { titleColumn: r.titleColumn } : {}) };
+      return { skipped: [], isExport: true, ...r };
     }
     case 'jsonl':
     case 'json': {
       const r = await (as === 'jsonl' ? readJsonLines : readJsonArray)(all, name, opts);
-      return { docs: r.docs, skipped: r.skipped, warnings: r.warnings, isExport: true, ...(r.titleColumn !== undefined ? { titleColumn: r.titleColumn } : {}) };
+      return { isExport: true, ...r };
     }
     case 'document': {
       const { text, title } = readDocument(await collect(all), '');
@@ -750,6 +774,8 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     attachments: reads.flatMap((r) => r.attachments),
     filesNotRead: capped.notRead,
     exportRows,
+    exportCounts: reads.flatMap((r) => (r.isExport && r.rowsSeen !== undefined ? [{ source: r.label, rows: r.rowsSeen, documents: r.docs.length }] : [])),
+    mergedRecords: reads.flatMap((r) => (r.merged ?? []).map((m) => ({ source: r.label, ...m }))),
     titleColumns: reads.flatMap((r) => (r.titleColumn !== undefined ? [{ source: r.label, column: r.titleColumn }] : [])),
   };
 }

@@ -200,9 +200,9 @@ export async function readJsonLines(chunks: AsyncIterable<string>, name: string,
     warnings.push(`${name} has no rows`);
     return { docs: [], warnings, skipped };
   }
-  if (rows.length === 0) return { docs: [], warnings, skipped };
+  if (rows.length === 0) return { docs: [], warnings, skipped, rowsSeen: row };
   const built = buildDocs(rows, name, options);
-  return { ...built, warnings: [...warnings, ...built.warnings], skipped };
+  return { ...built, warnings: [...warnings, ...built.warnings], skipped, rowsSeen: row };
 }
 
 function describe(v: unknown): string {
@@ -262,7 +262,7 @@ export async function readJsonArray(chunks: AsyncIterable<string>, name: string,
     else skipped.push({ source: `${name}#${i + 1}`, reason: `not a JSON object (${describe(v)})` });
   });
   if (value.length === 0) return { docs: [], warnings: [`${name} has no rows`], skipped };
-  if (rows.length === 0) return { docs: [], warnings: [], skipped };
+  if (rows.length === 0) return { docs: [], warnings: [], skipped, rowsSeen: value.length };
   const built = buildDocs(rows, name, options);
-  return { ...built, skipped };
+  return { ...built, skipped, rowsSeen: value.length };
 }
