@@ -311,3 +311,38 @@ describe('rows merged by a stray quote (case 3)', () => {
     expect(r.exportCounts).toEqual([{ source: 'r.jsonl', rows: 3, documents: 2 }]);
   });
 });
+
+describe('NUL bytes in row exports (case 17)', () => {
+  it('removes NULs early and late alike from a CSV, keeps every row and says how many', async () => {
+    const cwd = tmp();
+    const filler = Array.from({ length: 400 }, (_, i) => `${i + 3},filler row number ${i + 3}`).join('\n'); // pushes row 403 past 8 KiB
+    put(cwd, 't.csv', `id,text\n1,early\u0000 nul\n2,plain row\n${filler}\n403,late\u0000\u0000 nul\n`);
+    const r = await ingest(['t.csv'], {}, { cwd });
+    expect(r.skipped).toEqual([]);
+    expect(r.docs.length).toBe(403);
+    expect(r.docs[0]?.text).toBe('early nul');
+    expect(r.docs[402]?.text).toBe('late nul');
+    expect(r.docs.some((d) => d.text.includes('\u0000'))).toBe(false);
+    expect(r.warnings).toEqual(['t.csv: 3 NUL character(s) removed from the text (a NUL ends text in many programs)']);
+  });
+
+  it('does the same for JSON Lines on standard input', async () => {
+    const stdin = Readable.from([Buffer.from('{"text":"a\u0000b"}\n{"text":"cd"}\n')]);
+    const r = await ingest(['-'], {}, { cwd: tmp(), stdin });
+    expect(r.docs.map((d) => d.text)).toEqual(['ab', 'cd']);
+    expect(r.warnings).toEqual(['stdin: 1 NUL character(s) removed from the text (a NUL ends text in many programs)']);
+  });
+
+  it('still skips a file that is truly binary', async () => {
+    const cwd = tmp();
+    const bytes = Buffer.alloc(9000);
+    for (let i = 0; i < bytes.length; i++) bytes[i] = (i * 37 + 11) % 256;
+    put(cwd, 'noise.csv', bytes);
+    put(cwd, 'zeros.csv', Buffer.alloc(9000));
+    put(cwd, 'ok.csv', 'id,text\n1,fine\n');
+    const r = await ingest(['noise.csv', 'zeros.csv', 'ok.csv'], {}, { cwd });
+    expect(r.docs.map((d) => d.text)).toEqual(['fine']);
+    expect(r.skipped.map((s) => s.source)).toEqual(['noise.csv', 'zeros.csv']);
+    expect(r.skipped[1]?.reason).toBe('binary: 100% control characters in the first 8 KiB');
+  });
+});

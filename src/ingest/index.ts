@@ -190,6 +190,12 @@ function posixPath(p: string): string {
   return n.startsWith('./') ? n.slice(2) : n;
 }
 
+/** A warning when NUL characters were removed from an export's text. */
+function nulWarning(source: string, stats: DecodeStats | null): string[] {
+  const n = stats?.nul ?? 0;
+  return n > 0 ? [`${source}: ${n} NUL character(s) removed from the text (a NUL ends text in many programs)`] : [];
+}
+
 function replacedWarning(source: string, stats: { encoding: string; replaced: number }): string[] {
   if (stats.replaced === 0) return [];
   if (stats.encoding === 'utf-8') return [`${source}: ${stats.replaced} invalid UTF-8 sequence(s) replaced with U+FFFD`];
@@ -423,7 +429,7 @@ async function readStreamedExport(
   opts: IngestOptions,
 ): Promise<InputRead> {
   let stats: DecodeStats | null = null;
-  const chunks = decodeStream(bytes, (s) => (stats = s), { forced: opts.encoding });
+  const chunks = decodeStream(bytes, (s) => (stats = s), { forced: opts.encoding, nul: 'clean' });
   const r = await readStreamInput(chunks, given, posixPath(given), readAs, opts);
   const s = stats as DecodeStats | null;
   const note = s ? noteOf(s) : null;
@@ -431,7 +437,7 @@ async function readStreamedExport(
   return {
     label: given,
     ...r,
-    warnings: [...(note ? replacedWarning(given, note) : []), ...r.warnings],
+    warnings: [...(note ? replacedWarning(given, note) : []), ...nulWarning(given, s), ...r.warnings],
     digest: s ? { path: given, kind: 'file', bytes: s.bytes, sha256: s.sha256 } : null,
     decoding,
     attachments: [],
@@ -469,7 +475,7 @@ function skippedInput(source: string, reason: string): InputRead {
 
 async function readStdinInput(opts: IngestOptions, stdin: NodeJS.ReadableStream): Promise<InputRead> {
   let stats: DecodeStats | null = null;
-  const chunks = decodeStream(capStream(streamOf(stdin), opts.maxStreamBytes), (s) => (stats = s), { forced: opts.encoding });
+  const chunks = decodeStream(capStream(streamOf(stdin), opts.maxStreamBytes), (s) => (stats = s), { forced: opts.encoding, nul: 'clean' });
   const readAs: ReadAs | null = opts.format === 'auto' ? null : opts.format === 'text' ? 'document' : opts.format;
   try {
     const r = await readStreamInput(chunks, 'stdin', 'stdin', readAs, opts);
@@ -478,7 +484,7 @@ async function readStdinInput(opts: IngestOptions, stdin: NodeJS.ReadableStream)
     return {
       label: 'stdin',
       ...r,
-      warnings: [...(note ? replacedWarning('stdin', note) : []), ...r.warnings],
+      warnings: [...(note ? replacedWarning('stdin', note) : []), ...nulWarning('stdin', s), ...r.warnings],
       digest: s ? { path: '-', kind: 'stdin', bytes: s.bytes, sha256: s.sha256 } : null,
       decoding: note ? [{ source: 'stdin', ...note }] : [],
       attachments: [],
