@@ -346,3 +346,16 @@ describe('NUL bytes in row exports (case 17)', () => {
     expect(r.skipped[1]?.reason).toBe('binary: 100% control characters in the first 8 KiB');
   });
 });
+
+describe('--max-stream-bytes on the command line (case 8)', () => {
+  it('caps standard input and says so in one line, exit 2', async () => {
+    const r = await sheaf(['group', '-', '--groups', '2', '--out', 'out', '--max-stream-bytes', '2048'], {
+      cwd: tmp(),
+      stdin: 'id,text\n' + '1,a row of text\n'.repeat(300),
+    });
+    expect(r.code).toBe(2);
+    expect(r.stderr.trim().split('\n').at(-1)).toBe(
+      'sheaf: no readable documents in -; skipped stdin: stopped after 2048 bytes: a stream (standard input or a pipe) is read up to --max-stream-bytes (2048 bytes); save it to a file to read it whole',
+    );
+  });
+});

@@ -55,6 +55,7 @@ export interface GroupFlags {
   encoding?: string;
   maxBytes?: string;
   maxFiles?: string;
+  maxStreamBytes?: string;
   lang?: string;
   stopwords?: string;
   stem: boolean;
@@ -97,7 +98,8 @@ export function addInputFlags(cmd: Command): Command {
     .option('--clean <mode>', 'tickets (drop quoted replies, signatures, greetings, repeated boilerplate; fold links, addresses, numbers) or none; default: tickets for export rows, none for document files')
     .option('--encoding <name>', 'read every file in this character encoding (default: detect)')
     .option('--max-bytes <n>', 'longest document text kept, in bytes (longer ones are cut, and listed in run.json)')
-    .option('--max-files <n>', 'read at most this many files from folders');
+    .option('--max-files <n>', 'read at most this many files from folders')
+    .option('--max-stream-bytes <n>', 'most bytes read from standard input or a pipe (default 4 GiB)');
 }
 
 /** Documents as read and then cleaned, with what both steps report. */
@@ -251,6 +253,7 @@ export function ingestOptionsFromFlags(flags: GroupFlags): IngestOptions {
     encoding: flags.encoding ?? null,
     ...(flags.maxBytes !== undefined ? { maxBytes: wholeNumber(flags.maxBytes, 'maxBytes') } : {}),
     ...(flags.maxFiles !== undefined ? { maxFiles: wholeNumber(flags.maxFiles, 'maxFiles') } : {}),
+    ...(flags.maxStreamBytes !== undefined ? { maxStreamBytes: wholeNumber(flags.maxStreamBytes, 'maxStreamBytes') } : {}),
     text: list(flags.text) ?? null,
     id: flags.id ?? null,
     title: flags.title ?? null,
