@@ -95,7 +95,8 @@ describe('CSV exports (RFC 4180 §2)', () => {
     const r = await ingest(['g.csv'], {}, { cwd: dir });
     expect(r.docs[0]?.text).toBe('b1'); // body is preferred over summary
     expect(r.docs[0]?.id).toBe('1'); // no id column: the row number
-    expect(r.docs[0]?.title).toBe('b1');
+    expect(r.docs[0]?.title).toBe('s1'); // a summary that is not the text is a title-like column
+    expect(r.titleColumns).toEqual([{ source: 'g.csv', column: 'Summary' }]);
   });
 
   it('names the missing columns exactly', async () => {

@@ -101,6 +101,10 @@ describe('folders', () => {
     expect(r.skipped).toEqual([
       { source: 'notes/bin.txt', reason: 'binary: NUL bytes in the first 8 KiB' },
       { source: 'notes/broken.md', reason: 'unreadable: missing, or a link to nothing (ENOENT)' },
+      {
+        source: 'notes/data.csv',
+        reason: "not a format sheaf reads; to read it, add a pattern such as --include '**/*' (unknown extensions are read as plain text)",
+      },
       { source: 'notes/only-markup.html', reason: 'no text: only markup or white space' },
       { source: 'notes/zero.md', reason: 'empty (0 bytes)' },
     ]);

@@ -27,6 +27,7 @@ describe('resolveIngestOptions', () => {
       encoding: null,
       maxBytes: 5 * 1024 * 1024,
       maxFiles: null,
+      maxStreamBytes: 4 * 1024 * 1024 * 1024,
     });
     expect(resolveIngestOptions({ text: undefined, format: undefined })).toEqual(DEFAULT_INGEST_OPTIONS);
   });
@@ -84,6 +85,7 @@ describe('resolveIngestOptions', () => {
       [{ maxBytes: null }, 'maxBytes must be a whole number of bytes >= 1024; got null', 'maxBytes'],
       [{ maxFiles: 0 }, 'maxFiles must be a whole number >= 1, or null for no cap; got 0', 'maxFiles'],
       [{ maxFiles: Number.NaN }, 'maxFiles must be a whole number >= 1, or null for no cap; got NaN', 'maxFiles'],
+      [{ maxStreamBytes: 1023 }, 'maxStreamBytes must be a whole number of bytes >= 1024; got 1023', 'maxStreamBytes'],
     );
     for (const [partial, message, option] of cases) {
       const e = fails(partial);

@@ -13,6 +13,7 @@ import { evaluationLines } from './render.js';
 import { DOCUMENT_COLUMNS, evaluateLabels, evaluationJson, jsonText } from '../report/outputs.js';
 import { visible, visibleJson } from './visible.js';
 import { UsageError } from '../util/errors.js';
+import { checkInputKind } from '../ingest/index.js';
 
 interface EvaluateFlags {
   truth: string;
@@ -37,8 +38,10 @@ export function registerEvaluate(program: Command, io: CliIo, setExit: (code: nu
 async function runEvaluate(file: string, flags: EvaluateFlags, io: CliIo): Promise<number> {
   let bytes: Buffer;
   try {
+    await checkInputKind(path.resolve(io.cwd, file), file); // a device such as /dev/zero never ends
     bytes = await readFile(path.resolve(io.cwd, file));
   } catch (err) {
+    if (err instanceof UsageError) throw err;
     const code = (err as { code?: string }).code;
     throw new UsageError(code === 'ENOENT' ? `no such file: ${file}` : `cannot read ${file} (${code ?? 'error'})`);
   }

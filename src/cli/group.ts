@@ -58,6 +58,7 @@ export interface GroupFlags {
   encoding?: string;
   maxBytes?: string;
   maxFiles?: string;
+  maxStreamBytes?: string;
   lang?: string;
   stopwords?: string;
   stem: boolean;
@@ -100,7 +101,8 @@ export function addInputFlags(cmd: Command): Command {
     .option('--clean <mode>', 'tickets (drop quoted replies, signatures, greetings, repeated boilerplate; fold links, addresses, numbers) or none; default: tickets for export rows, none for document files')
     .option('--encoding <name>', 'read every file in this character encoding (default: detect)')
     .option('--max-bytes <n>', 'longest document text kept, in bytes (longer ones are cut, and listed in run.json)')
-    .option('--max-files <n>', 'read at most this many files from folders');
+    .option('--max-files <n>', 'read at most this many files from folders')
+    .option('--max-stream-bytes <n>', 'most bytes read from standard input or a pipe (default 4 GiB)');
 }
 
 /** Documents as read and then cleaned, with what both steps report. */
@@ -140,6 +142,7 @@ export async function readInputs(
     const replaced = read.decoding.filter((d) => d.replaced > 0).length;
     notes.push(`sheaf: note: ${read.decoding.length} file(s) not in plain UTF-8 were decoded${replaced ? ` (${replaced} with damaged characters replaced)` : ''}; see decoding in run.json`);
   }
+  for (const t of read.titleColumns) notes.push(`sheaf: note: ${t.source}: titles taken from the column ${JSON.stringify(t.column)} (name another with --title)`);
   if (read.truncated.length > 0) notes.push(`sheaf: note: ${read.truncated.length} document(s) longer than --max-bytes were cut; see truncated in run.json`);
   const cleaned = mode === null ? cleanDocuments(read.docs, { mode: 'tickets' }, read.exportRows) : cleanDocuments(read.docs, { mode });
   const r = cleaned.report;
@@ -253,6 +256,7 @@ export function ingestOptionsFromFlags(flags: GroupFlags): IngestOptions {
     encoding: flags.encoding ?? null,
     ...(flags.maxBytes !== undefined ? { maxBytes: wholeNumber(flags.maxBytes, 'maxBytes') } : {}),
     ...(flags.maxFiles !== undefined ? { maxFiles: wholeNumber(flags.maxFiles, 'maxFiles') } : {}),
+    ...(flags.maxStreamBytes !== undefined ? { maxStreamBytes: wholeNumber(flags.maxStreamBytes, 'maxStreamBytes') } : {}),
     text: list(flags.text) ?? null,
     id: flags.id ?? null,
     title: flags.title ?? null,
@@ -495,6 +499,8 @@ export function readingRecord(read: IngestResult, clean: CleanReport): Record<st
     truncated: read.truncated,
     attachmentsNotRead: read.attachments,
     filesNotRead: read.filesNotRead,
+    exportCounts: read.exportCounts,
+    mergedRecords: read.mergedRecords,
     cleaning: clean,
   };
 }

@@ -34,6 +34,57 @@ export interface CsvReadOptions {
 export interface ExportRead {
   readonly docs: DraftDoc[];
   readonly warnings: string[];
+  /** The column the titles came from when it was guessed (no `title` option), else absent. */
+  readonly titleColumn?: string;
+  /**
+   * Rows seen: records read, plus the lines that look like rows of their own
+   * inside records that swallowed them (see {@link swallowedRows}). Against
+   * `docs.length` it says "60 rows read as 40 documents".
+   */
+  readonly rowsSeen?: number;
+  /** Records that swallowed lines shaped like rows (a stray or missing quote), by line range. */
+  readonly merged?: readonly MergedRecord[];
+}
+
+/** A record read from several lines, many of which look like records of their own. */
+export interface MergedRecord {
+  /** The line the record starts on (1-based). */
+  readonly firstLine: number;
+  /** The line it ends on. */
+  readonly lastLine: number;
+  /** Lines after the first that have exactly the header's number of fields by themselves. */
+  readonly rowLike: number;
+}
+
+/** Fields in one line read by itself: delimiters outside double quotes, plus one. */
+function fieldsInLine(line: string, delimiter: string): number {
+  let n = 1;
+  let quoted = false;
+  for (const ch of line) {
+    if (ch === '"') quoted = !quoted;
+    else if (ch === delimiter && !quoted) n++;
+  }
+  return n;
+}
+
+/**
+ * How many lines after the first of a multi-line record (its raw text) are
+ * shaped like records of their own (exactly `width` fields), or 0 when that
+ * is not most of the lines between the first and the last, or fewer than 2:
+ * a quoted ticket body with a few line breaks has lines of prose, not of
+ * rows. The last line (its quotes not counted) is added to a flagged record.
+ */
+export function swallowedRows(raw: string, delimiter: string, width: number): number {
+  if (width < 2) return 0;
+  const lines = raw.split(/\r\n|\n|\r/).slice(1).filter((l) => l.trim() !== '');
+  // The last line holds the closing quote and the record's other fields, so it is shaped like a row
+  // in a sound record too: only the lines between decide; the last counts once a record is flagged.
+  const middle = lines.slice(0, -1);
+  let rowLike = 0;
+  for (const l of middle) if (fieldsInLine(l, delimiter) === width) rowLike++;
+  if (rowLike < 2 || rowLike * 2 < middle.length) return 0;
+  const last = lines[lines.length - 1] as string;
+  return rowLike + (last.split(delimiter).length === width ? 1 : 0);
 }
 
 const SNIFFED = [';', '\t', '|'];
@@ -99,6 +150,10 @@ interface ParsedItem {
   readonly startLine: number;
   /** An empty line, not a record. */
   readonly blank: boolean;
+  /** The line on which the record ends. */
+  readonly endLine: number;
+  /** The record's text as in the file. */
+  readonly raw: string;
 }
 
 /**
@@ -138,7 +193,7 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
       crlf += countCrlf(record);
       const startLine = lastEnd + 1;
       lastEnd = context.lines - crlf;
-      return { record, startLine, blank: record.length === 1 && raw.trim() === '' };
+      return { record, startLine, endLine: lastEnd, raw, blank: record.length === 1 && raw.trim() === '' };
     },
   };
   const parser = parse(csvOptions as unknown as Options);
@@ -151,13 +206,16 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
   let textIdx: number[] = [];
   let idIdx = -1;
   let titleIdx = -1;
+  let titleColumn: string | undefined;
   const short: number[] = [];
   const long: number[] = [];
   let row = 0;
+  const merged: MergedRecord[] = [];
+  let rowsSeen = 0;
 
   try {
     for await (const item of parser as AsyncIterable<ParsedItem>) {
-      const { record, startLine, blank } = item;
+      const { record, startLine, endLine, raw, blank } = item;
       if (blank) continue;
       if (header === null) {
         const { names, renamed } = headerNames(record);
@@ -169,10 +227,19 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
         textIdx = chosen.text.map((c) => names.indexOf(c));
         idIdx = chosen.id === null ? -1 : names.indexOf(chosen.id);
         titleIdx = chosen.title === null ? -1 : names.indexOf(chosen.title);
+        if (chosen.titleGuessed && chosen.title !== null) titleColumn = chosen.title;
         collector = new RowCollector(name, idIdx === -1);
         continue;
       }
       row++;
+      rowsSeen++;
+      if (endLine > startLine + 1) {
+        const rowLike = swallowedRows(raw, delimiter, width);
+        if (rowLike > 0) {
+          merged.push({ firstLine: startLine, lastLine: endLine, rowLike });
+          rowsSeen += rowLike;
+        }
+      }
       if (record.length < width) short.push(startLine);
       else if (record.length > width) long.push(startLine);
       const fields = new Map<string, string>();
@@ -212,7 +279,13 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
       `${name}: ${long.length} row(s) have more fields than the header's ${width}; the extra ones are dropped (lines ${listNumbers(long)})`,
     );
   }
+  for (const m of merged) {
+    warnings.push(
+      `${name}: lines ${m.firstLine}–${m.lastLine} were read as one record: a quoted field runs over ${m.rowLike} lines shaped like rows of their own (a stray or missing quote?)`,
+    );
+  }
+  if (merged.length > 0) warnings.push(`${name}: ${rowsSeen} rows read as ${row} documents`);
   const c = collector as RowCollector;
   warnings.push(...c.warnings());
-  return { docs: c.docs, warnings };
+  return { docs: c.docs, warnings, rowsSeen, merged, ...(titleColumn === undefined ? {} : { titleColumn }) };
 }

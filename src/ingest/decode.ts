@@ -59,6 +59,8 @@ export interface DecodeStats {
   basis: EncodingBasis;
   /** A declared encoding that was not used because the bytes are valid UTF-8. */
   ignoredDeclaration?: string;
+  /** NUL characters removed from the text (only with {@link DecodeOptions.nul} `clean`). */
+  nul?: number;
 }
 
 /** Options of {@link InputDecoder}. */
@@ -69,6 +71,14 @@ export interface DecodeOptions {
   readonly forced?: string | null;
   /** Finds the encoding the content declares (canonical) from its first bytes, e.g. an HTML `<meta charset>`. */
   readonly declared?: ((head: Uint8Array) => string | null) | null;
+  /**
+   * NUL bytes: `refuse` (default) makes an input with one in its first
+   * {@link SNIFF_BYTES} binary and leaves later ones in the text; `clean`
+   * (row exports) judges binary by the share of control characters and NULs
+   * alone and removes every NUL from the text, counting them in
+   * {@link DecodeStats.nul}, wherever they are.
+   */
+  readonly nul?: 'refuse' | 'clean';
 }
 
 const REPLACEMENT = '\uFFFD';
@@ -140,10 +150,10 @@ function isControl(c: number): boolean {
  * Why the first bytes of an input make it binary, or `null`. An input with
  * a byte order mark is text by its own word.
  */
-function binaryReason(sample: Buffer, choice: EncodingChoice, complete: boolean): string | null {
+function binaryReason(sample: Buffer, choice: EncodingChoice, complete: boolean, cleanNul: boolean): string | null {
   if (choice.basis === 'bom') return null;
   const sixteen = choice.encoding.startsWith('utf-16') || choice.encoding.startsWith('utf-32') || choice.encoding.startsWith('ucs');
-  if (!sixteen && sample.includes(0)) return 'binary: NUL bytes in the first 8 KiB';
+  if (!sixteen && !cleanNul && sample.includes(0)) return 'binary: NUL bytes in the first 8 KiB';
   let probe: string;
   try {
     const inner = innerDecoder(choice.encoding);
@@ -159,7 +169,7 @@ function binaryReason(sample: Buffer, choice: EncodingChoice, complete: boolean)
     if (isControl(c)) controls++;
     else if (c === 0) nul++;
   }
-  if (sixteen && nul > 0) return 'binary: NUL characters in the first 8 KiB';
+  if (sixteen && !cleanNul && nul > 0) return 'binary: NUL characters in the first 8 KiB';
   if ((controls + nul) / probe.length > BINARY_CONTROL_SHARE) {
     return `binary: ${Math.round((100 * (controls + nul)) / probe.length)}% control characters in the first 8 KiB`;
   }
@@ -189,12 +199,15 @@ export class InputDecoder {
   private genuine: PatternCounter | null = null;
   private bytes = 0;
   private replaced = 0;
+  private readonly cleanNul: boolean;
+  private nul = 0;
 
   /** See {@link DecodeOptions}. */
   constructor(options: DecodeOptions = {}) {
     this.hash = options.hash === false ? null : createHash('sha256');
     this.forced = options.forced ?? null;
     this.declared = options.declared ?? null;
+    this.cleanNul = options.nul === 'clean';
   }
 
   /** Adds bytes; returns the text decoded so far (possibly empty). */
@@ -235,7 +248,7 @@ export class InputDecoder {
       if (this.headBytes === 0) throw new InputSkip('empty (0 bytes)');
       text = this.start(true);
     }
-    const rest = (this.inner as Inner).end();
+    const rest = this.dropNul((this.inner as Inner).end());
     this.replaced += countChar(rest, REPLACEMENT);
     return text + rest;
   }
@@ -250,6 +263,7 @@ export class InputDecoder {
       basis: this.choice.basis,
     };
     if (this.choice.ignoredDeclaration !== undefined) s.ignoredDeclaration = this.choice.ignoredDeclaration;
+    if (this.cleanNul) s.nul = this.nul;
     return s;
   }
 
@@ -261,7 +275,7 @@ export class InputDecoder {
     let declared: string | null = null;
     if (this.declared) declared = this.declared(sample);
     this.choice = chooseEncoding(sample, { forced: this.forced, declared, complete });
-    const why = binaryReason(head.subarray(0, SNIFF_BYTES), this.choice, complete && head.length <= SNIFF_BYTES);
+    const why = binaryReason(head.subarray(0, SNIFF_BYTES), this.choice, complete && head.length <= SNIFF_BYTES, this.cleanNul);
     if (why !== null) throw new InputSkip(why);
     this.inner = innerDecoder(this.choice.encoding);
     const pattern = genuinePattern(this.choice.encoding);
@@ -271,9 +285,16 @@ export class InputDecoder {
 
   private decode(buf: Buffer): string {
     this.genuine?.feed(buf);
-    const text = (this.inner as Inner).write(buf);
+    const text = this.dropNul((this.inner as Inner).write(buf));
     this.replaced += countChar(text, REPLACEMENT);
     return text;
+  }
+
+  /** With `nul: 'clean'`, the text without its NUL characters (counted). */
+  private dropNul(text: string): string {
+    if (!this.cleanNul || !text.includes('\0')) return text;
+    this.nul += countChar(text, '\0');
+    return text.replaceAll('\0', '');
   }
 }
 

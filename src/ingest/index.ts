@@ -39,21 +39,21 @@ import path from 'node:path';
 import type { Doc, Skipped } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { decodeBuffer, decodeStream, InputSkip, type DecodeStats } from './decode.js';
-import { readCsv } from './csv.js';
+import { readCsv, type MergedRecord } from './csv.js';
 import { readJsonArray, readJsonLines } from './json.js';
 import { htmlToText } from './html.js';
 import { readMarkdown, readPlainText } from './text.js';
-import { listFolder } from './folder.js';
+import { listFolder, NOT_A_FORMAT_REASON, rawNamePath, type ReaddirFailure } from './folder.js';
 import { firstSignificant, peekBytes, peekText } from './peek.js';
 import { isFsError, unreadableReason } from './io-errors.js';
 import { listNames, type DraftDoc } from './table.js';
-import { resolveIngestOptions, type IngestFormat, type IngestOptions } from './options.js';
+import { DEFAULT_INCLUDE, resolveIngestOptions, type IngestFormat, type IngestOptions } from './options.js';
 import { DOCUMENT_EXTENSIONS, noteOf, readDocumentBytes, type DecodingNote, type DocumentKind } from './documents.js';
 import { looksLikePdf } from './pdf.js';
 import { looksLikeZip } from './zip.js';
 import { looksLikeOle } from './docx.js';
 
-export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, DEFAULT_MAX_BYTES, INGEST_FORMATS, resolveIngestOptions } from './options.js';
+export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, DEFAULT_MAX_BYTES, DEFAULT_MAX_STREAM_BYTES, INGEST_FORMATS, resolveIngestOptions } from './options.js';
 export type { IngestFormat, IngestOptions } from './options.js';
 export { DOCUMENT_EXTENSIONS, readDocumentBytes, chooseReader, type DecodingNote, type DocumentKind, type DocumentRead } from './documents.js';
 export { canonicalEncoding, chooseEncoding, type EncodingBasis, type EncodingChoice } from './charset.js';
@@ -125,6 +125,21 @@ export interface IngestResult {
    * it is a document file (text, Markdown, HTML, PDF, Word, e-mail).
    */
   exportRows: Uint8Array;
+  /**
+   * Exports whose titles came from a title-like column that was guessed (no
+   * `title` option): `subject`, `title`, `headline`, `topic` or `summary`
+   * (see `TITLE_COLUMN_GUESSES`), one entry per export, in reading order.
+   */
+  titleColumns: { readonly source: string; readonly column: string }[];
+  /**
+   * Per export, in reading order: rows seen against documents made ("60
+   * rows read as 40 documents"). Rows seen counts records (JSON: rows, also
+   * those skipped) plus, in a CSV, lines shaped like rows that a record with
+   * a stray or missing quote swallowed.
+   */
+  exportCounts: { readonly source: string; readonly rows: number; readonly documents: number }[];
+  /** CSV records that swallowed lines shaped like rows, by line range (each also a warning). */
+  mergedRecords: { readonly source: string; readonly firstLine: number; readonly lastLine: number; readonly rowLike: number }[];
 }
 
 /** Where ingest reads from. */
@@ -139,6 +154,11 @@ export interface IngestIo {
    * for virtual file systems; folder listing still uses the file system.
    */
   readonly open?: (absolutePath: string) => AsyncIterable<Uint8Array>;
+  /**
+   * A seam for tests (unreadable folders when running as root): the error
+   * listing an absolute folder fails with, or `null` to list it normally.
+   */
+  readonly readdirFailure?: ReaddirFailure;
 }
 
 type ReadAs = 'csv' | 'tsv' | 'jsonl' | 'json' | 'document';
@@ -170,6 +190,12 @@ function posixPath(p: string): string {
   return n.startsWith('./') ? n.slice(2) : n;
 }
 
+/** A warning when NUL characters were removed from an export's text. */
+function nulWarning(source: string, stats: DecodeStats | null): string[] {
+  const n = stats?.nul ?? 0;
+  return n > 0 ? [`${source}: ${n} NUL character(s) removed from the text (a NUL ends text in many programs)`] : [];
+}
+
 function replacedWarning(source: string, stats: { encoding: string; replaced: number }): string[] {
   if (stats.replaced === 0) return [];
   if (stats.encoding === 'utf-8') return [`${source}: ${stats.replaced} invalid UTF-8 sequence(s) replaced with U+FFFD`];
@@ -189,18 +215,51 @@ interface InputRead {
   readonly isExport: boolean;
   readonly decoding: DecodingNote[];
   readonly attachments: AttachmentNote[];
+  /** An export's guessed title column. */
+  readonly titleColumn?: string;
+  /** An export's rows seen (see `IngestResult.exportCounts`). */
+  readonly rowsSeen?: number;
+  /** A CSV's records that swallowed rows. */
+  readonly merged?: readonly MergedRecord[];
 }
 
 type Listing = Awaited<ReturnType<typeof listFolder>>;
 
 type Planned =
   | { readonly kind: 'stdin' }
-  | { readonly kind: 'file'; readonly given: string; readonly abs: string }
+  | { readonly kind: 'file'; readonly given: string; readonly abs: string; readonly pipe: boolean }
   | { readonly kind: 'folder'; readonly given: string; readonly abs: string; readonly listing: Listing }
   | { readonly kind: 'unreadable'; readonly given: string; readonly reason: string };
 
 async function* streamOf(source: NodeJS.ReadableStream | AsyncIterable<Uint8Array>): AsyncGenerator<Uint8Array | string, void, undefined> {
   for await (const chunk of source as AsyncIterable<Uint8Array | string>) yield chunk;
+}
+
+/** Passes a stream through, giving it up (InputSkip) past `limit` bytes. */
+async function* capStream(source: AsyncIterable<Uint8Array | string>, limit: number): AsyncGenerator<Uint8Array | string, void, undefined> {
+  let n = 0;
+  for await (const c of source) {
+    n += typeof c === 'string' ? Buffer.byteLength(c, 'utf8') : c.byteLength;
+    if (n > limit) {
+      throw new InputSkip(
+        `stopped after ${limit} bytes: a stream (standard input or a pipe) is read up to maxStreamBytes (${limit} bytes); save it to a file to read it whole`,
+      );
+    }
+    yield c;
+  }
+}
+
+/**
+ * Throws {@link UsageError} (`not a regular file, folder or pipe: x`) for a
+ * path that names a device, socket or the like (`/dev/zero` never ends).
+ * Returns whether it is a pipe, to be read under `maxStreamBytes`.
+ */
+export async function checkInputKind(absolutePath: string, given: string): Promise<{ pipe: boolean; folder: boolean }> {
+  const st = await stat(absolutePath);
+  if (st.isDirectory()) return { pipe: false, folder: true };
+  if (st.isFile()) return { pipe: false, folder: false };
+  if (st.isFIFO()) return { pipe: true, folder: false };
+  throw new UsageError(`not a regular file, folder or pipe: ${given}`);
 }
 
 async function collect(chunks: AsyncIterable<string>): Promise<string> {
@@ -215,6 +274,17 @@ async function collectBytes(chunks: AsyncIterable<Uint8Array | string>): Promise
   return Buffer.concat(parts);
 }
 
+/** What {@link readStreamInput} gives. */
+interface StreamRead {
+  docs: DraftDoc[];
+  skipped: Skipped[];
+  warnings: string[];
+  isExport: boolean;
+  titleColumn?: string;
+  rowsSeen?: number;
+  merged?: readonly MergedRecord[];
+}
+
 /**
  * Reads an export (or, for standard input with `format: text`, one
  * document) from a decoded stream. `name` names it in messages and
@@ -226,7 +296,7 @@ async function readStreamInput(
   id: string,
   readAs: ReadAs | null,
   opts: IngestOptions,
-): Promise<{ docs: DraftDoc[]; skipped: Skipped[]; warnings: string[]; isExport: boolean }> {
+): Promise<StreamRead> {
   let as = readAs;
   let all = chunks;
   if (as === null) {
@@ -239,12 +309,12 @@ async function readStreamInput(
     case 'csv':
     case 'tsv': {
       const r = await readCsv(all, name, as, opts);
-      return { docs: r.docs, skipped: [], warnings: r.warnings, isExport: true };
+      return { skipped: [], isExport: true, ...r };
     }
     case 'jsonl':
     case 'json': {
       const r = await (as === 'jsonl' ? readJsonLines : readJsonArray)(all, name, opts);
-      return { docs: r.docs, skipped: r.skipped, warnings: r.warnings, isExport: true };
+      return { isExport: true, ...r };
     }
     case 'document': {
       const { text, title } = readDocument(await collect(all), '');
@@ -359,7 +429,7 @@ async function readStreamedExport(
   opts: IngestOptions,
 ): Promise<InputRead> {
   let stats: DecodeStats | null = null;
-  const chunks = decodeStream(bytes, (s) => (stats = s), { forced: opts.encoding });
+  const chunks = decodeStream(bytes, (s) => (stats = s), { forced: opts.encoding, nul: 'clean' });
   const r = await readStreamInput(chunks, given, posixPath(given), readAs, opts);
   const s = stats as DecodeStats | null;
   const note = s ? noteOf(s) : null;
@@ -367,17 +437,18 @@ async function readStreamedExport(
   return {
     label: given,
     ...r,
-    warnings: [...(note ? replacedWarning(given, note) : []), ...r.warnings],
+    warnings: [...(note ? replacedWarning(given, note) : []), ...nulWarning(given, s), ...r.warnings],
     digest: s ? { path: given, kind: 'file', bytes: s.bytes, sha256: s.sha256 } : null,
     decoding,
     attachments: [],
   };
 }
 
-async function readFileInput(given: string, abs: string, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
+async function readFileInput(given: string, abs: string, pipe: boolean, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
   const ext = path.extname(abs).toLowerCase();
   const readAs = readAsFor(opts.format, ext);
-  const source = streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 }));
+  const opened = streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 }));
+  const source = pipe ? capStream(opened, opts.maxStreamBytes) : opened;
   try {
     if (readAs !== null && readAs !== 'document') return await readStreamedExport(given, source, readAs, opts);
     let all: AsyncIterable<Uint8Array | string> = source;
@@ -404,7 +475,7 @@ function skippedInput(source: string, reason: string): InputRead {
 
 async function readStdinInput(opts: IngestOptions, stdin: NodeJS.ReadableStream): Promise<InputRead> {
   let stats: DecodeStats | null = null;
-  const chunks = decodeStream(streamOf(stdin), (s) => (stats = s), { forced: opts.encoding });
+  const chunks = decodeStream(capStream(streamOf(stdin), opts.maxStreamBytes), (s) => (stats = s), { forced: opts.encoding, nul: 'clean' });
   const readAs: ReadAs | null = opts.format === 'auto' ? null : opts.format === 'text' ? 'document' : opts.format;
   try {
     const r = await readStreamInput(chunks, 'stdin', 'stdin', readAs, opts);
@@ -413,7 +484,7 @@ async function readStdinInput(opts: IngestOptions, stdin: NodeJS.ReadableStream)
     return {
       label: 'stdin',
       ...r,
-      warnings: [...(note ? replacedWarning('stdin', note) : []), ...r.warnings],
+      warnings: [...(note ? replacedWarning('stdin', note) : []), ...nulWarning('stdin', s), ...r.warnings],
       digest: s ? { path: '-', kind: 'stdin', bytes: s.bytes, sha256: s.sha256 } : null,
       decoding: note ? [{ source: 'stdin', ...note }] : [],
       attachments: [],
@@ -447,19 +518,33 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
   type One = OneFile & { sha: string | null; bytes: number };
   const results = await mapPool(listing.files, READ_CONCURRENCY, async (rel): Promise<One> => {
     const source = shown(rel);
-    let buf: Buffer;
+    let buf: Buffer | null = null;
+    let reason = '';
     try {
       buf = await readAllBytes(path.join(abs, rel), io);
     } catch (err) {
       if (!isFsError(err)) throw err;
-      return { doc: null, skip: { source, reason: unreadableReason(err) }, warnings: [], decoding: null, attachments: null, sha: null, bytes: 0 };
+      reason = unreadableReason(err);
+      if ((err as { code?: unknown }).code === 'ENOENT' && rel.includes('\uFFFD') && !io.open) {
+        // A name that is not valid UTF-8: listed with U+FFFD, so read it by its raw bytes.
+        const raw = await rawNamePath(abs, rel);
+        if (raw !== null) {
+          try {
+            buf = await readFile(raw);
+          } catch (e2) {
+            if (!isFsError(e2)) throw e2;
+            reason = unreadableReason(e2);
+          }
+        } else reason = 'unreadable: its name is not valid UTF-8 and could not be matched to one file (rename it)';
+      }
     }
+    if (buf === null) return { doc: null, skip: { source, reason }, warnings: [], decoding: null, attachments: null, sha: null, bytes: 0 };
     const sha = createHash('sha256').update(buf).digest('hex');
     const one = await readOneFile(buf, source, rel, path.extname(rel).toLowerCase(), opts);
     return { ...one, sha, bytes: buf.length };
   });
   const docs: DraftDoc[] = [];
-  const skipped: Skipped[] = [...listing.skipped];
+  const skipped: Skipped[] = [...listing.skipped, ...listing.notIncluded.map((rel) => ({ source: shown(rel), reason: NOT_A_FORMAT_REASON }))];
   const warnings: string[] = listing.linkedFolders.map((f) => `${f}: a link to a folder; not followed`);
   const decoding: DecodingNote[] = [];
   const attachments: AttachmentNote[] = [];
@@ -625,21 +710,23 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     }
     let st;
     try {
-      st = await stat(key);
+      st = await checkInputKind(key, given);
     } catch (err) {
+      if (err instanceof UsageError) throw err;
       const code = (err as { code?: unknown }).code;
       if (code === 'ENOENT' || code === 'ENOTDIR') throw new UsageError(`no such file or folder: ${given}`);
       planned.push({ kind: 'unreadable', given, reason: unreadableReason(err) });
       continue;
     }
-    if (st.isDirectory()) {
-      const listing = await listFolder(key, given, opts.include, opts.exclude);
+    if (st.folder) {
+      const listing = await listFolder(key, given, opts.include, opts.exclude, io.readdirFailure ?? null, opts.include.length === 1 && opts.include[0] === DEFAULT_INCLUDE);
       if (listing.files.length === 0 && listing.skipped.length === 0) {
-        throw new UsageError(`no documents in folder ${given} (${describeLooked(opts)})`);
+        const others = listing.notIncluded.length === 0 ? '' : `; ${listing.notIncluded.length} file(s) of other formats not read, such as ${listing.notIncluded[0]}: add --include '**/*' to read them as text`;
+        throw new UsageError(`no documents in folder ${given} (${describeLooked(opts)})${others}`);
       }
       planned.push({ kind: 'folder', given, abs: key, listing });
     } else {
-      planned.push({ kind: 'file', given, abs: key });
+      planned.push({ kind: 'file', given, abs: key, pipe: st.pipe });
     }
   }
 
@@ -650,7 +737,7 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
   const reads: InputRead[] = [];
   for (const p of capped.planned) {
     if (p.kind === 'stdin') reads.push(await readStdinInput(opts, io.stdin as NodeJS.ReadableStream));
-    else if (p.kind === 'file') reads.push(await readFileInput(p.given, p.abs, opts, io));
+    else if (p.kind === 'file') reads.push(await readFileInput(p.given, p.abs, p.pipe, opts, io));
     else if (p.kind === 'folder') reads.push(await readFolderInput(p.given, p.abs, p.listing, opts, io));
     else reads.push(skippedInput(p.given, p.reason));
   }
@@ -693,6 +780,9 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     attachments: reads.flatMap((r) => r.attachments),
     filesNotRead: capped.notRead,
     exportRows,
+    exportCounts: reads.flatMap((r) => (r.isExport && r.rowsSeen !== undefined ? [{ source: r.label, rows: r.rowsSeen, documents: r.docs.length }] : [])),
+    mergedRecords: reads.flatMap((r) => (r.merged ?? []).map((m) => ({ source: r.label, ...m }))),
+    titleColumns: reads.flatMap((r) => (r.titleColumn !== undefined ? [{ source: r.label, column: r.titleColumn }] : [])),
   };
 }
 

@@ -30,6 +30,36 @@ interface JsonRow {
 /** How deep nested objects are searched for dotted paths. */
 const MAX_DEPTH = 8;
 
+/**
+ * Rows nested deeper than this (objects and arrays counted alike) are
+ * skipped: writing their cells back as JSON (`JSON.stringify`) would
+ * overflow the call stack. Real exports nest a handful of levels.
+ */
+export const MAX_NESTING = 256;
+
+/** Reason a row nested past {@link MAX_NESTING} is skipped with. */
+export const TOO_DEEP = `nested deeper than ${MAX_NESTING} levels`;
+
+/** True when `v` nests objects or arrays deeper than `limit` levels (checked without recursion). */
+export function nestedDeeper(v: unknown, limit: number = MAX_NESTING): boolean {
+  const stack: unknown[] = [v];
+  const depths: number[] = [1];
+  while (stack.length > 0) {
+    const x = stack.pop();
+    const d = depths.pop() as number;
+    if (typeof x !== 'object' || x === null) continue;
+    if (d > limit) return true;
+    const children = Array.isArray(x) ? x : Object.values(x as JsonObject);
+    for (const c of children) {
+      if (typeof c === 'object' && c !== null) {
+        stack.push(c);
+        depths.push(d + 1);
+      }
+    }
+  }
+  return false;
+}
+
 function isObject(v: unknown): v is JsonObject {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
@@ -95,7 +125,7 @@ function lookup(obj: JsonObject, keys: readonly string[]): unknown {
   return v;
 }
 
-function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOptions): { docs: ExportRead['docs']; warnings: string[] } {
+function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOptions): { docs: ExportRead['docs']; warnings: string[]; titleColumn?: string } {
   const index = new PathIndex();
   for (const r of rows) index.add(r.obj);
   const chosen = chooseColumns(name, index.columns(), options);
@@ -117,7 +147,8 @@ function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOpti
       fields,
     );
   }
-  return { docs: collector.docs, warnings: collector.warnings() };
+  const out = { docs: collector.docs, warnings: collector.warnings() };
+  return chosen.titleGuessed && chosen.title !== null ? { ...out, titleColumn: chosen.title } : out;
 }
 
 /**
@@ -148,6 +179,10 @@ export async function readJsonLines(chunks: AsyncIterable<string>, name: string,
       skipped.push({ source: `${name}:${lineNo}`, reason: `not a JSON object (${describe(v)})` });
       return;
     }
+    if (nestedDeeper(v)) {
+      skipped.push({ source: `${name}:${lineNo}`, reason: TOO_DEEP });
+      return;
+    }
     rows.push({ obj: v, row });
   };
   for await (const chunk of chunks) {
@@ -165,9 +200,9 @@ export async function readJsonLines(chunks: AsyncIterable<string>, name: string,
     warnings.push(`${name} has no rows`);
     return { docs: [], warnings, skipped };
   }
-  if (rows.length === 0) return { docs: [], warnings, skipped };
+  if (rows.length === 0) return { docs: [], warnings, skipped, rowsSeen: row };
   const built = buildDocs(rows, name, options);
-  return { docs: built.docs, warnings: [...warnings, ...built.warnings], skipped };
+  return { ...built, warnings: [...warnings, ...built.warnings], skipped, rowsSeen: row };
 }
 
 function describe(v: unknown): string {
@@ -222,11 +257,12 @@ export async function readJsonArray(chunks: AsyncIterable<string>, name: string,
   const rows: JsonRow[] = [];
   const skipped: Skipped[] = [];
   value.forEach((v: unknown, i) => {
-    if (isObject(v)) rows.push({ obj: v, row: i + 1 });
+    if (isObject(v) && nestedDeeper(v)) skipped.push({ source: `${name}#${i + 1}`, reason: TOO_DEEP });
+    else if (isObject(v)) rows.push({ obj: v, row: i + 1 });
     else skipped.push({ source: `${name}#${i + 1}`, reason: `not a JSON object (${describe(v)})` });
   });
   if (value.length === 0) return { docs: [], warnings: [`${name} has no rows`], skipped };
-  if (rows.length === 0) return { docs: [], warnings: [], skipped };
+  if (rows.length === 0) return { docs: [], warnings: [], skipped, rowsSeen: value.length };
   const built = buildDocs(rows, name, options);
-  return { ...built, skipped };
+  return { ...built, skipped, rowsSeen: value.length };
 }

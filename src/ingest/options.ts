@@ -60,6 +60,12 @@ export interface IngestOptions {
    * file. Files past the cap are counted in `IngestResult.filesNotRead`.
    */
   readonly maxFiles: number | null;
+  /**
+   * Most bytes read from one stream (standard input, a named pipe) before it
+   * is given up and listed in `skipped`: a stream has no size to check
+   * first, and one such as `yes` never ends. Files and folders are not capped.
+   */
+  readonly maxStreamBytes: number;
 }
 
 /** Default folder pattern: the document extensions read one file per document (matched case-insensitively). */
@@ -67,6 +73,9 @@ export const DEFAULT_INCLUDE = '**/*.{txt,md,markdown,html,htm,pdf,docx,eml}';
 
 /** Default {@link IngestOptions.maxBytes}: 5 MiB of text per document (a long book is about 1–2 MiB). */
 export const DEFAULT_MAX_BYTES = 5 * 1024 * 1024;
+
+/** Default {@link IngestOptions.maxStreamBytes}: 4 GiB, past any export that fits in memory once read. */
+export const DEFAULT_MAX_STREAM_BYTES = 4 * 1024 * 1024 * 1024;
 
 /** Defaults of {@link IngestOptions}: guess the text column, number the rows, read the usual document files. */
 export const DEFAULT_INGEST_OPTIONS: IngestOptions = Object.freeze({
@@ -80,6 +89,7 @@ export const DEFAULT_INGEST_OPTIONS: IngestOptions = Object.freeze({
   encoding: null,
   maxBytes: DEFAULT_MAX_BYTES,
   maxFiles: null,
+  maxStreamBytes: DEFAULT_MAX_STREAM_BYTES,
 });
 
 function columnName(value: unknown, option: 'id' | 'title'): string | null {
@@ -125,6 +135,7 @@ function patterns(value: unknown, option: 'include' | 'exclude'): readonly strin
  *   Windows-1252 (WHATWG Encoding Standard).
  * - `maxBytes`: a whole number >= 1024.
  * - `maxFiles`: `null`, or a whole number >= 1.
+ * - `maxStreamBytes`: a whole number >= 1024.
  */
 export function resolveIngestOptions(partial: Partial<IngestOptions> = {}): IngestOptions {
   const d = DEFAULT_INGEST_OPTIONS;
@@ -184,6 +195,11 @@ export function resolveIngestOptions(partial: Partial<IngestOptions> = {}): Inge
     throw new UsageError(`maxFiles must be a whole number >= 1, or null for no cap; got ${show(maxFiles)}`, 'maxFiles');
   }
 
+  const maxStreamBytes = pick('maxStreamBytes');
+  if (typeof maxStreamBytes !== 'number' || !Number.isSafeInteger(maxStreamBytes) || maxStreamBytes < 1024) {
+    throw new UsageError(`maxStreamBytes must be a whole number of bytes >= 1024; got ${show(maxStreamBytes)}`, 'maxStreamBytes');
+  }
+
   return Object.freeze({
     text,
     id: columnName(pick('id'), 'id'),
@@ -195,5 +211,6 @@ export function resolveIngestOptions(partial: Partial<IngestOptions> = {}): Inge
     encoding,
     maxBytes,
     maxFiles: maxFiles as number | null,
+    maxStreamBytes,
   });
 }

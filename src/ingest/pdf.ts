@@ -12,6 +12,7 @@
  */
 import { createRequire } from 'node:module';
 import path from 'node:path';
+import { createInflate } from 'node:zlib';
 import { InputSkip } from './decode.js';
 import { capTitle, firstLine } from './text.js';
 
@@ -23,6 +24,68 @@ export const PDF_HEADER_WINDOW = 1024;
 
 /** A line of page 1 is heading-like when its font is at least this many times the page's median line height. */
 export const HEADING_RATIO = 1.15;
+
+/**
+ * Most bytes the Flate-compressed streams of a PDF (images aside) may
+ * unpack to, in all; the same bound as a Word file's `word/document.xml`
+ * (`DOCX_XML_MAX`). Checked before pdf.js reads the file, so a stream that
+ * inflates to gigabytes is refused without holding it in memory.
+ */
+export const PDF_INFLATED_MAX = 512 * 1024 * 1024;
+
+/** Most characters of text read from one PDF; past it the file is skipped (its text would be cut to `maxBytes` anyway). */
+export const PDF_TEXT_MAX = 256 * 1024 * 1024;
+
+/** Bytes `data` inflates to, counting chunk by chunk and stopping past `budget` (then returns `budget + 1`); damaged data counts what came out. */
+function inflatedBytes(data: Buffer, budget: number): Promise<number> {
+  return new Promise((resolve) => {
+    const z = createInflate({ chunkSize: 1 << 16 });
+    let n = 0;
+    let done = false;
+    const finish = (v: number): void => {
+      if (done) return;
+      done = true;
+      z.destroy();
+      resolve(v);
+    };
+    z.on('data', (c: Buffer) => {
+      n += c.length;
+      if (n > budget) finish(budget + 1);
+    });
+    z.on('end', () => finish(n));
+    z.on('error', () => finish(n));
+    z.end(data);
+  });
+}
+
+/**
+ * True when the Flate-compressed streams of `bytes` (those whose dictionary
+ * does not say `/Image`) unpack to more than `limit` bytes in all. Streams
+ * are found as `stream` … `endstream`, their dictionary in the 4 KiB before.
+ */
+export async function pdfInflatesPast(bytes: Uint8Array, limit: number): Promise<boolean> {
+  const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  let total = 0;
+  let at = 0;
+  for (;;) {
+    const s = buf.indexOf('stream', at, 'latin1');
+    if (s === -1) return false;
+    at = s + 6;
+    if (s >= 3 && buf.toString('latin1', s - 3, s) === 'end') continue;
+    let start = s + 6;
+    if (buf[start] === 0x0d) start++;
+    if (buf[start] === 0x0a) start++;
+    if (start === s + 6) continue; // `stream` must end its line
+    let end = buf.indexOf('endstream', start, 'latin1');
+    if (end === -1) end = buf.length;
+    const before = buf.toString('latin1', Math.max(0, s - 4096), s);
+    const dict = before.slice(Math.max(0, before.lastIndexOf(' obj') + 1));
+    at = end;
+    if (!/\/(FlateDecode|Fl)\b/.test(dict) || /\/Image\b/.test(dict)) continue;
+    total += await inflatedBytes(buf.subarray(start, end), limit - total);
+    if (total > limit) return true;
+  }
+}
 
 /** True when `b` has `%PDF-` in its first {@link PDF_HEADER_WINDOW} bytes. */
 export function looksLikePdf(b: Uint8Array): boolean {
@@ -147,9 +210,17 @@ export function joinHyphenated(text: string): string {
 /**
  * Reads a PDF's text. Never throws anything but {@link InputSkip}, whose
  * reasons are `encrypted PDF (password needed)`, `broken PDF: …` (pdf.js's
- * message), `no text: …` (no pages, or no text layer: a scan without OCR).
+ * message), `no text: …` (no pages, or no text layer: a scan without OCR),
+ * `PDF too large: …` (compressed streams unpacking past `limits.inflatedMax`,
+ * default {@link PDF_INFLATED_MAX}, checked before pdf.js reads anything; or
+ * text past `limits.textMax`, default {@link PDF_TEXT_MAX}).
  */
-export async function readPdf(bytes: Uint8Array): Promise<PdfText> {
+export async function readPdf(bytes: Uint8Array, limits: { readonly inflatedMax?: number; readonly textMax?: number } = {}): Promise<PdfText> {
+  const inflatedMax = limits.inflatedMax ?? PDF_INFLATED_MAX;
+  const textMax = limits.textMax ?? PDF_TEXT_MAX;
+  if (await pdfInflatesPast(bytes, inflatedMax)) {
+    throw new InputSkip(`PDF too large: its compressed streams unpack to more than ${inflatedMax} bytes (limit ${inflatedMax})`);
+  }
   const pdfjs = await loadPdfjs();
   const folder = pdfjsFolder();
   const params: Record<string, unknown> = {
@@ -184,15 +255,22 @@ export async function readPdf(bytes: Uint8Array): Promise<PdfText> {
     let firstLines: Line[] = [];
     let failed = 0;
     let firstFailure = '';
+    let chars = 0;
     for (let n = 1; n <= pages; n++) {
       try {
         const page = await doc.getPage(n);
         const content = await page.getTextContent();
         const lines = itemsToLines(content.items);
         if (n === 1) firstLines = lines;
-        if (lines.length > 0) pageTexts.push(lines.map((l) => l.text).join('\n'));
+        if (lines.length > 0) {
+          const t = lines.map((l) => l.text).join('\n');
+          pageTexts.push(t);
+          chars += t.length;
+        }
         page.cleanup();
+        if (chars > textMax) throw new InputSkip(`PDF too large: its text passes ${textMax} characters by page ${n} (limit ${textMax})`);
       } catch (err) {
+        if (err instanceof InputSkip) throw err;
         failed++;
         if (firstFailure === '') firstFailure = `page ${n}: ${oneLine(err)}`;
       }

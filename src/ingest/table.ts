@@ -16,6 +16,12 @@ export const TEXT_COLUMN_GUESSES: readonly string[] = Object.freeze([
   'text', 'body', 'content', 'description', 'message', 'comment', 'summary', 'abstract',
 ]);
 
+/**
+ * Column names taken as the title when none is named, in order of preference
+ * (matched case-insensitively, top-level columns only, never a text column).
+ */
+export const TITLE_COLUMN_GUESSES: readonly string[] = Object.freeze(['subject', 'title', 'headline', 'topic', 'summary']);
+
 /** A document before ids are made unique across all inputs. */
 export interface DraftDoc {
   id: string;
@@ -40,6 +46,8 @@ export interface ChosenColumns {
   readonly text: readonly string[];
   readonly id: string | null;
   readonly title: string | null;
+  /** True when `title` was guessed from {@link TITLE_COLUMN_GUESSES}, not named. */
+  readonly titleGuessed: boolean;
 }
 
 const LIST_CAP = 40;
@@ -72,8 +80,10 @@ function lastSegment(p: string): string {
  * exact names first, then a case-insensitive match. With `text` null the
  * first of {@link TEXT_COLUMN_GUESSES} found among the top-level columns is
  * used, else (JSON) the first path whose last segment is one of them.
- * Throws {@link UsageError} for a named column that does not exist or when
- * no text column can be guessed.
+ * With `title` null, the first of {@link TITLE_COLUMN_GUESSES} among the
+ * top-level columns (not a text or id column) is the title column, and
+ * `titleGuessed` says so. Throws {@link UsageError} for a named column that
+ * does not exist or when no text column can be guessed.
  */
 export function chooseColumns(
   name: string,
@@ -111,11 +121,17 @@ export function chooseColumns(
     }
     text = [guess];
   }
-  return {
-    text,
-    id: options.id === null ? null : need(options.id, 'id'),
-    title: options.title === null ? null : need(options.title, 'title'),
-  };
+  const id = options.id === null ? null : need(options.id, 'id');
+  if (options.title !== null) return { text, id, title: need(options.title, 'title'), titleGuessed: false };
+  let title: string | null = null;
+  for (const g of TITLE_COLUMN_GUESSES) {
+    const found = cols.top.find((c) => c.toLowerCase() === g && !text.includes(c) && c !== id);
+    if (found !== undefined) {
+      title = found;
+      break;
+    }
+  }
+  return { text, id, title, titleGuessed: title !== null };
 }
 
 /**
