@@ -37,7 +37,7 @@ import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copie
 import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
 import { modelToJson } from '../model/index.js';
 import { renderReport } from '../report/html.js';
-import { reportFromRun } from '../report/report-from-run.js';
+import { choiceTable, reportFromRun } from '../report/report-from-run.js';
 import { UsageError } from '../util/errors.js';
 import { CLEAN_MODES, cleanDocuments, resolveCleanOptions, type CleanMode, type CleanReport } from '../clean/index.js';
 import type { Doc } from '../types.js';
@@ -376,6 +376,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
       )
     : null;
   for (const line of notes) note(line);
+  for (const w of result.choice?.warnings ?? []) note(`sheaf: warning: ${w}`);
   if (result.emptyRows.length > 0) {
     note(
       `sheaf: note: ${result.emptyRows.length} document(s) have no terms after analysis; they are in no group ` +
@@ -557,7 +558,9 @@ function runJson(x: RunJsonInput): unknown {
           chosen: result.choice.chosen,
           treeLeaves: result.choice.treeLeaves,
           sampled: result.choice.sampled,
-          tried: result.choice.tried.map((t) => ({ groups: t.groups, silhouette: Number.isFinite(t.silhouette) ? round(t.silhouette, 6) : null })),
+          rule: result.choice.rule ?? null,
+          warnings: result.choice.warnings,
+          tried: choiceTable(result.choice),
         }
       : null,
     quality: {

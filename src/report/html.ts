@@ -24,6 +24,7 @@ import { groupHref, groupName, mapChart, sizesChart, termsChart, treeChart, tree
 import { reportPayload } from './html-payload.js';
 import { REPORT_CSS } from './html-styles.js';
 import { REPORT_SCRIPT } from './html-client.js';
+import { choiceSection } from './html-quality.js';
 
 type Group = ReportData['groups'][number];
 
@@ -201,6 +202,7 @@ function overviewView(
       ),
     );
   }
+  body.push(...choiceSection(data));
   body.push('<h3>Settings</h3>');
   if (data.settings.length === 0) body.push('<p>No settings were recorded.</p>');
   else {

@@ -43,6 +43,19 @@ export interface ReportData {
     readonly x: number;
     readonly y: number;
   }[];
+  /** How the number of groups was chosen automatically (knee of the objective over the tree's cuts), when it was. */
+  readonly choice?: {
+    readonly chosen: number;
+    readonly treeLeaves: number;
+    readonly warnings: readonly string[];
+    readonly tried: readonly {
+      readonly groups: number;
+      readonly objective: number;
+      readonly knee: number;
+      readonly silhouette: number | null;
+      readonly chosen: boolean;
+    }[];
+  };
   /** Tree over the groups (leaves 0..groups-1, node groups+i made by merge i), when built. */
   readonly tree?: {
     readonly merges: readonly { readonly left: number; readonly right: number; readonly similarity: number; readonly size: number }[];

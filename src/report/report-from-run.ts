@@ -4,7 +4,7 @@
  *
  * @module
  */
-import type { GroupResult } from '../pipeline.js';
+import type { GroupChoice, GroupResult } from '../pipeline.js';
 import type { DuplicateRun } from '../near-copies.js';
 import type { ReportData } from './report-data.js';
 import { groupMap } from './map.js';
@@ -75,6 +75,9 @@ export function reportFromRun(
         size: tree.size[i],
       })),
     },
+    ...(result.choice && result.choice.by === 'knee'
+      ? { choice: { chosen: result.choice.chosen, treeLeaves: result.choice.treeLeaves, warnings: result.choice.warnings, tried: choiceTable(result.choice) } }
+      : {}),
     documents: Array.from(result.inputOrder, (r) => ({
       id: rows[r].id,
       title: rows[r].title,
@@ -103,4 +106,16 @@ export function reportFromRun(
         }
       : {}),
   };
+}
+
+/** The score table of an automatic choice (run.json and the report): one row per number of groups tried; NaN becomes null. */
+export function choiceTable(choice: GroupChoice): { groups: number; objective: number; knee: number; silhouette: number | null; chosen: boolean }[] {
+  const r6 = (v: number): number => Math.round(v * 1e6) / 1e6;
+  return choice.tried.map((t) => ({
+    groups: t.groups,
+    objective: r6(t.objective),
+    knee: r6(t.knee),
+    silhouette: Number.isFinite(t.silhouette) ? r6(t.silhouette) : null,
+    chosen: t.groups === choice.chosen,
+  }));
 }
