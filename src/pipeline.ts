@@ -40,6 +40,7 @@ import {
   type LabelOptions,
 } from './label/index.js';
 import { UsageError, show } from './util/errors.js';
+import { guardNames, nameStopwords } from './label/names.js';
 
 /** How groups are formed. */
 export type GroupMethod = 'kmeans' | 'agglomerative';
@@ -345,7 +346,7 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
       { matrix, assignments: partition.assignments, fit: partition.fit, groups: k, centroids: partition.centroids, terms: vocabulary.terms },
       resolved.label,
     );
-    return readableLabels(stemmed, docs, analyzer, resolved.label);
+    return guardNames(readableLabels(stemmed, docs, analyzer, resolved.label), nameStopwords(resolved.analyzer), resolved.label);
   });
 
   return {
