@@ -310,7 +310,7 @@ function groupView(
   if (g.exemplars.length === 0) body.push('<p>No exemplars.</p>');
   else {
     body.push(
-      '<p>The documents closest to the group’s centre, closest first.</p><ol class="exemplars">',
+      '<p>Documents close to the group’s centre and unlike each other (maximal marginal relevance), the closest first; never two near-copies.</p><ol class="exemplars">',
       ...g.exemplars.map((x) => {
         const title = titleById.get(x);
         return `<li>${title !== undefined && title !== '' ? `${e(title)} ` : ''}<code>${e(x)}</code></li>`;
