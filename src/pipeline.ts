@@ -27,6 +27,7 @@ import {
   type TreeOptions,
 } from './cluster/tree.js';
 import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
+import { refineGroups, resolveRefineOptions, type RefineOptions } from './cluster/unsorted.js';
 import { chooseFromTree, type CutChoice, type CutScore, type TreeChoice } from './cluster/choose.js';
 import { canonicalGroups, partitionFromAssignments, type Partition } from './cluster/partition.js';
 import { stripUndefined } from './util/options.js';
@@ -77,6 +78,8 @@ export interface GroupOptions {
   readonly kmeans?: Partial<Omit<KMeansOptions, 'groups'>> & { readonly groups?: number | 'auto' };
   readonly tree?: Partial<TreeOptions>;
   readonly label?: Partial<LabelOptions>;
+  /** Unsorted share, mixed groups and their splitting (cluster/unsorted.ts). */
+  readonly refine?: Partial<RefineOptions>;
 }
 
 /** Every stage's options after defaults were merged and values validated. */
@@ -90,6 +93,7 @@ export interface ResolvedGroupOptions {
   readonly kmeans: Omit<KMeansOptions, 'groups'>;
   readonly tree: TreeOptions;
   readonly label: LabelOptions;
+  readonly refine: RefineOptions;
 }
 
 /** Hooks the edges pass in; all optional. */
@@ -158,6 +162,10 @@ export interface GroupResult {
   readonly groups: readonly GroupLabel[];
   /** Rows (document indices) with no terms left after analysis and pruning; they are in no group. */
   readonly emptyRows: Int32Array;
+  /** Rows set apart as unsorted (fit below the pile's threshold; assignment -1, fit kept), and that threshold (NaN when off). */
+  readonly unsorted: { readonly rows: Int32Array; readonly threshold: number };
+  /** Per group: 1 when flagged as mixed (cohesion low relative to the others). */
+  readonly mixed: Uint8Array;
   readonly timings: readonly StageTiming[];
 }
 
@@ -215,6 +223,7 @@ export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions
     kmeans,
     tree,
     label,
+    refine: resolveRefineOptions(options.refine ?? {}),
   };
 }
 
@@ -331,7 +340,8 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   const formed =
     resolved.method === 'kmeans' ? yield* formByKMeans(matrix, nonEmpty, resolved, hooks) : formByDocumentTree(matrix, nonEmpty, resolved);
   timings.push({ stage: resolved.method === 'kmeans' ? 'k-means' : 'agglomerative', ms: now() - tForm, items: nonEmpty });
-  const { partition } = formed;
+  const refined = refineGroups(matrix, formed.partition, resolved.refine, resolved.kmeans);
+  const { partition } = refined;
   const k = partition.groups;
 
   const tree = time('tree', nonEmpty, () => groupAverageLink(matrix, partition.assignments, k));
@@ -364,6 +374,8 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
     quality,
     groups,
     emptyRows: Int32Array.from(empty),
+    unsorted: { rows: refined.unsorted, threshold: refined.threshold },
+    mixed: refined.mixed,
     timings,
   };
 }

@@ -15,7 +15,7 @@ export function groupTable(result: GroupResult, width: number): string[] {
   const rows = result.groups.map((g) => [
     String(g.id),
     String(g.size),
-    g.label,
+    result.mixed[g.id] === 1 ? `${g.label} (mixed)` : g.label,
     fixed(g.cohesion, 2),
     g.exemplars
       .slice(0, 2)

@@ -1,11 +1,22 @@
 /**
  * Report sections about the quality of the grouping: the table of the numbers
- * of groups tried when the number was chosen automatically, with its warnings.
+ * of groups tried when the number was chosen automatically, with its warnings;
+ * the unsorted count and the mixed flag.
  *
  * @module
  */
 import type { ReportData } from './report-data.js';
 import { escapeHtml as e, formatCount, formatFixed } from './html-escape.js';
+
+/** `unsorted: N` for the overview's counts, when documents were set apart. */
+export function unsortedCounts(data: ReportData): [string, string][] {
+  return data.counts.unsorted === undefined ? [] : [['Unsorted (fit no group well)', formatCount(data.counts.unsorted)]];
+}
+
+/** The "mixed" line of a group's statistics, when it is flagged. */
+export function mixedStat(g: ReportData['groups'][number]): string[] {
+  return g.mixed ? ['<li><strong>mixed</strong>: cohesion well below the other groups’ (it may hold several themes)</li>'] : [];
+}
 
 /** The "Number of groups" section of the overview: empty when the number was given. */
 export function choiceSection(data: ReportData): string[] {

@@ -25,6 +25,8 @@ export interface ReportData {
     readonly documents: number;
     readonly grouped: number;
     readonly withoutTerms: number;
+    /** Documents set apart as unsorted (absent when that option was off). */
+    readonly unsorted?: number;
     readonly skipped: number;
     readonly terms: number;
   };
@@ -37,6 +39,8 @@ export interface ReportData {
     /** Highest cosine between this group's centroid and another's, when known. */
     readonly separation?: number;
     readonly terms: readonly { readonly term: string; readonly weight: number }[];
+    /** True when the group's cohesion is low relative to the others. */
+    readonly mixed?: boolean;
     /** Exemplar document ids, closest first. */
     readonly exemplars: readonly string[];
     /** Position on the 2-D map of groups. */

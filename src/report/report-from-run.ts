@@ -33,6 +33,7 @@ export function reportFromRun(
   const map = groupMap(p.centroids, result.matrix.cols, k);
   const tree = result.tree;
   const o = result.options;
+  const unsortedSet = new Set(result.unsorted.rows);
   const settings = [
     { name: 'method', value: o.method === 'kmeans' ? 'spherical k-means' : 'average-link over documents' },
     { name: 'groups', value: result.choice ? `${k} (chosen by ${result.choice.by})` : String(k) },
@@ -51,8 +52,9 @@ export function reportFromRun(
     settings,
     counts: {
       documents: rows.length,
-      grouped: rows.length - result.emptyRows.length,
+      grouped: rows.length - result.emptyRows.length - result.unsorted.rows.length,
       withoutTerms: result.emptyRows.length,
+      ...(o.refine.unsorted ? { unsorted: result.unsorted.rows.length } : {}),
       skipped: context.skipped,
       terms: result.matrix.cols,
     },
@@ -64,6 +66,7 @@ export function reportFromRun(
       ...(Number.isFinite(result.quality.separation[g.id]) ? { separation: result.quality.separation[g.id] } : {}),
       terms: g.terms.map((t) => ({ term: t.term, weight: t.weight })),
       exemplars: g.exemplars.map((r) => rows[r].id),
+      ...(result.mixed[g.id] === 1 ? { mixed: true } : {}),
       x: map.x[g.id],
       y: map.y[g.id],
     })),
@@ -82,7 +85,7 @@ export function reportFromRun(
       id: rows[r].id,
       title: rows[r].title,
       group: p.assignments[r],
-      fit: p.assignments[r] >= 0 ? p.fit[r] : Number.NaN,
+      fit: p.assignments[r] >= 0 || unsortedSet.has(r) ? p.fit[r] : Number.NaN,
       duplicateSet: near ? near.setOf[r] : -1,
     })),
     ...(near && nearSettings
