@@ -41,7 +41,10 @@ function naiveMmr(m: Csr, assignments: Int32Array, fit: Float32Array, groups: nu
   const cos = (a: number, b: number) => dense[a].reduce((s, v, j) => s + v * dense[b][j], 0);
   const out: number[][] = [];
   for (let g = 0; g < groups; g++) {
-    const pool = [...assignments.keys()].filter((r) => assignments[r] === g);
+    const all = [...assignments.keys()].filter((r) => assignments[r] === g);
+    const sorted = all.map((r) => fit[r]).sort((a, b) => a - b);
+    const quartile = sorted[Math.floor((sorted.length - 1) / 4)];
+    const pool = all.filter((r) => fit[r] >= quartile);
     const chosen: number[] = [];
     while (chosen.length < count) {
       let best = -1;
@@ -82,6 +85,21 @@ describe('diverseExemplars', () => {
     expect(diverseExemplars(m, a, fit, 1, { count: 3, relevance: 1, nearCopy: 0.9 })).toEqual([[0, 2, 3]]);
     // A threshold above every cosine lets row 1 back in where its fit wins.
     expect(diverseExemplars(m, a, fit, 1, { count: 2, relevance: 1, nearCopy: 1.01 })).toEqual([[0, 1]]);
+  });
+
+  it('a hand case: a far-off member below the lower quartile of fit is not taken for being different', () => {
+    // Cosines to row 0: rows 1 and 2 0.85, row 3 0.852, row 4 0. With λ 0.7 the second pick would score
+    // 0.7·0.6 − 0.3·0.85 = 0.165 for rows 1 and 2 but 0.7·0.3 − 0 = 0.21 for row 4; the lower quartile of the
+    // fits (0.3, 0.55, 0.6, 0.6, 0.9; sorted position ⌊4/4⌋ = 1: 0.55) leaves row 4 out, so row 1 is taken.
+    const m = csrFromDense([
+      [1, 0, 0, 0],
+      [0.85, 0.527, 0, 0],
+      [0.85, 0, 0.527, 0],
+      [0.85, 0.37, 0.37, 0],
+      [0, 0, 0, 1],
+    ]);
+    const fit = Float32Array.from([0.9, 0.6, 0.6, 0.55, 0.3]);
+    expect(diverseExemplars(m, new Int32Array(5), fit, 1, { count: 2, relevance: 0.7, nearCopy: 0.9 })).toEqual([[0, 1]]);
   });
 
   it('equals the naive reference on random inputs, and never picks two near-copies (fast-check)', () => {

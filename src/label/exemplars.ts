@@ -8,8 +8,11 @@
  * redundancy is the highest cosine to an exemplar already chosen. A member
  * whose cosine to a chosen exemplar is at or above the near-copy threshold is
  * never taken (our rule), so no two exemplars of a group are near-copies; a
- * group may then have fewer exemplars than asked for. Ties go to the lower
- * row. λ = 0.7 by default is our choice.
+ * group may then have fewer exemplars than asked for. Candidates are the
+ * group's central three quarters: members whose fit is at least the group's
+ * lower quartile of fit, the value at sorted position ⌊(n − 1) / 4⌋ (our rule;
+ * without it, MMR favours far-off members that barely belong).
+ * Ties go to the lower row. λ = 0.7 by default is our choice.
  *
  * @module
  */
@@ -44,11 +47,17 @@ export function diverseExemplars(matrix: Csr, assignments: Int32Array, fit: Floa
   const redundancy = new Float64Array(rows);
   const taken = new Uint8Array(rows);
   const out: number[][] = [];
+  const fits = new Float64Array(members.length);
   for (let g = 0; g < groups; g++) {
     const chosen: number[] = [];
     const from = start[g];
     const to = start[g + 1];
-    for (let i = from; i < to; i++) redundancy[members[i]] = -Infinity;
+    // The group's lower quartile of fit: members below it are not candidates.
+    const f = fits.subarray(0, to - from);
+    for (let i = from; i < to; i++) f[i - from] = fit[members[i]];
+    f.sort();
+    const floor = f.length === 0 ? 0 : f[(f.length - 1) >> 2];
+    for (let i = from; i < to; i++) redundancy[members[i]] = fit[members[i]] >= floor ? -Infinity : Infinity;
     while (chosen.length < s.count) {
       let best = -1;
       let bestScore = -Infinity;
