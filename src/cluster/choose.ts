@@ -76,13 +76,17 @@ export function kneedle(x: ArrayLike<number>, y: ArrayLike<number>, s = 1): Knee
   return { index: best > 0 && difference[best] > 0 ? best : -1, detected: false, difference };
 }
 
+/** Most values (doubles) in the dense leaf sums of the Gram path: 2^24, 128 MiB. */
+export const GRAM_SUMS_LIMIT = 1 << 24;
+
 /**
  * The spherical k-means objective Σ_g ‖Σ_{i∈g} x_i‖ of each cut of a tree
  * over leaf groups. `leafOf[r]` is the leaf of row r (-1: in no group); `cuts`
  * are numbers of groups. Uses the Gram matrix of the leaf sums, O(Σ_t z_t² +
  * cuts · leaves²) for z_t leaves using term t, when there are at most
- * `gramLimit` leaves; otherwise sums the rows of each cut directly,
- * O(cuts · (nnz + cols · k)).
+ * `gramLimit` leaves and the dense leaf sums (cols × leaves doubles) stay
+ * within {@link GRAM_SUMS_LIMIT}; otherwise sums the rows of each cut
+ * directly, O(cuts · (nnz + cols · k)).
  */
 export function objectiveForCuts(
   matrix: Csr,
@@ -93,7 +97,7 @@ export function objectiveForCuts(
 ): Float64Array {
   const leaves = tree.leaves;
   const out = new Float64Array(cuts.length);
-  if (leaves <= gramLimit) {
+  if (leaves <= gramLimit && matrix.cols * leaves <= GRAM_SUMS_LIMIT) {
     const gram = leafGram(matrix, leafOf, leaves);
     const norm2 = new Float64Array(leaves);
     for (let c = 0; c < cuts.length; c++) {
