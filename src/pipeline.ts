@@ -26,7 +26,9 @@ import {
   type Dendrogram,
   type TreeOptions,
 } from './cluster/tree.js';
-import { groupCohesion, groupSeparation, sampledSilhouette, silhouetteForCuts, type SilhouetteResult } from './cluster/quality.js';
+import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
+import { refineGroups, resolveRefineOptions, type RefineOptions } from './cluster/unsorted.js';
+import { chooseFromTree, type CutChoice, type CutScore, type TreeChoice } from './cluster/choose.js';
 import { canonicalGroups, partitionFromAssignments, type Partition } from './cluster/partition.js';
 import { stripUndefined } from './util/options.js';
 import { PLACEHOLDERS } from './clean/index.js';
@@ -39,6 +41,7 @@ import {
   type LabelOptions,
 } from './label/index.js';
 import { UsageError, show } from './util/errors.js';
+import { guardNames, nameStopwords } from './label/names.js';
 
 /** How groups are formed. */
 export type GroupMethod = 'kmeans' | 'agglomerative';
@@ -62,7 +65,7 @@ export const DEFAULT_CHOOSE_OPTIONS: Readonly<ChooseOptions> = Object.freeze({
 
 /** Options for {@link groupDocuments}, one object per stage. */
 export interface GroupOptions {
-  /** A number of groups, or `'auto'` to choose one by silhouette. Not with `minSimilarity`. */
+  /** A number of groups, or `'auto'` to choose one at the knee of the objective over the tree's cuts. Not with `minSimilarity`. */
   readonly groups?: number | 'auto';
   /** Cut the tree where average similarity drops below this, instead of giving `groups`. */
   readonly minSimilarity?: number;
@@ -75,6 +78,8 @@ export interface GroupOptions {
   readonly kmeans?: Partial<Omit<KMeansOptions, 'groups'>> & { readonly groups?: number | 'auto' };
   readonly tree?: Partial<TreeOptions>;
   readonly label?: Partial<LabelOptions>;
+  /** Unsorted share, mixed groups and their splitting (cluster/unsorted.ts). */
+  readonly refine?: Partial<RefineOptions>;
 }
 
 /** Every stage's options after defaults were merged and values validated. */
@@ -88,6 +93,7 @@ export interface ResolvedGroupOptions {
   readonly kmeans: Omit<KMeansOptions, 'groups'>;
   readonly tree: TreeOptions;
   readonly label: LabelOptions;
+  readonly refine: RefineOptions;
 }
 
 /** Hooks the edges pass in; all optional. */
@@ -108,15 +114,19 @@ export interface StageTiming {
 
 /** How the number of groups was chosen, when it was. */
 export interface GroupChoice {
-  /** `silhouette` for `groups: 'auto'`, `similarity` for `minSimilarity`. */
-  readonly by: 'silhouette' | 'similarity';
+  /** `knee` for `groups: 'auto'` (Kneedle on the objective of the tree's cuts, see cluster/choose.ts), `similarity` for `minSimilarity`. */
+  readonly by: 'knee' | 'similarity';
   readonly chosen: number;
   /** Leaves of the tree that was cut (over-clustering groups, or documents). */
   readonly treeLeaves: number;
-  /** Mean silhouette of each cut tried (by silhouette only). */
-  readonly tried: readonly { readonly groups: number; readonly silhouette: number }[];
+  /** Scores of each cut tried (by knee only): objective, knee difference, silhouette. */
+  readonly tried: readonly CutScore[];
   /** Rows in the silhouette sample. */
   readonly sampled: number;
+  /** How the knee was taken (by knee only). */
+  readonly rule?: CutChoice['rule'];
+  /** Sentences for the person when the choice sits on an edge of the range or is unclear; empty otherwise. */
+  readonly warnings: readonly string[];
 }
 
 /** Internal quality of the final grouping. */
@@ -152,6 +162,10 @@ export interface GroupResult {
   readonly groups: readonly GroupLabel[];
   /** Rows (document indices) with no terms left after analysis and pruning; they are in no group. */
   readonly emptyRows: Int32Array;
+  /** Rows set apart as unsorted (fit below the pile's threshold; assignment -1, fit kept), and that threshold (NaN when off). */
+  readonly unsorted: { readonly rows: Int32Array; readonly threshold: number };
+  /** Per group: 1 when flagged as mixed (cohesion low relative to the others). */
+  readonly mixed: Uint8Array;
   readonly timings: readonly StageTiming[];
 }
 
@@ -209,6 +223,7 @@ export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions
     kmeans,
     tree,
     label,
+    refine: resolveRefineOptions(options.refine ?? {}),
   };
 }
 
@@ -325,7 +340,8 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   const formed =
     resolved.method === 'kmeans' ? yield* formByKMeans(matrix, nonEmpty, resolved, hooks) : formByDocumentTree(matrix, nonEmpty, resolved);
   timings.push({ stage: resolved.method === 'kmeans' ? 'k-means' : 'agglomerative', ms: now() - tForm, items: nonEmpty });
-  const { partition } = formed;
+  const refined = refineGroups(matrix, formed.partition, resolved.refine, resolved.kmeans);
+  const { partition } = refined;
   const k = partition.groups;
 
   const tree = time('tree', nonEmpty, () => groupAverageLink(matrix, partition.assignments, k));
@@ -340,7 +356,7 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
       { matrix, assignments: partition.assignments, fit: partition.fit, groups: k, centroids: partition.centroids, terms: vocabulary.terms },
       resolved.label,
     );
-    return readableLabels(stemmed, docs, analyzer, resolved.label);
+    return guardNames(readableLabels(stemmed, docs, analyzer, resolved.label), nameStopwords(resolved.analyzer), resolved.label);
   });
 
   return {
@@ -358,6 +374,8 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
     quality,
     groups,
     emptyRows: Int32Array.from(empty),
+    unsorted: { rows: refined.unsorted, threshold: refined.threshold },
+    mixed: refined.mixed,
     timings,
   };
 }
@@ -374,17 +392,9 @@ function kmeansPartition(km: KMeansResult): Partition {
   return { groups: km.groups, assignments: km.assignments, centroids: km.centroids, fit: km.fit, objective: km.objective };
 }
 
-/** Picks the cut with the best mean silhouette; ties go to fewer groups. */
-function bestCut(cuts: readonly { groups: number; mean: number }[]): number {
-  let best = -1;
-  let bestScore = -Infinity;
-  for (const c of cuts) {
-    if (Number.isFinite(c.mean) && c.mean > bestScore) {
-      bestScore = c.mean;
-      best = c.groups;
-    }
-  }
-  return best;
+/** The record of a choice by knee. */
+function kneeChoice(c: TreeChoice, treeLeaves: number): GroupChoice {
+  return { by: 'knee', chosen: c.chosen, treeLeaves, tried: c.tried, sampled: c.sampled, rule: c.rule, warnings: c.warnings };
 }
 
 function cutRange(resolved: ResolvedGroupOptions, leaves: number): number[] {
@@ -425,22 +435,12 @@ function* formByKMeans(
   if (resolved.minSimilarity !== null) {
     leafClusters = cutAtSimilarity(overTree, resolved.minSimilarity);
     chosen = countGroups(leafClusters);
-    choice = { by: 'similarity', chosen, treeLeaves: over, tried: [], sampled: 0 };
+    choice = { by: 'similarity', chosen, treeLeaves: over, tried: [], sampled: 0, warnings: [] };
   } else {
-    const cuts = cutRange(resolved, over);
-    const scored = silhouetteForCuts(matrix, first.assignments, overTree, cuts, {
-      sampleSize: resolved.choose.sampleSize,
-      seed: resolved.kmeans.seed,
-    });
-    chosen = bestCut(scored.cuts);
-    leafClusters = scored.cuts.find((c) => c.groups === chosen)?.leafClusters ?? cutToGroups(overTree, chosen);
-    choice = {
-      by: 'silhouette',
-      chosen,
-      treeLeaves: over,
-      tried: scored.cuts.map((c) => ({ groups: c.groups, silhouette: c.mean })),
-      sampled: scored.sampled,
-    };
+    const picked = chooseFromTree(matrix, first.assignments, overTree, cutRange(resolved, over), resolved.choose.range, { sampleSize: resolved.choose.sampleSize, seed: resolved.kmeans.seed });
+    chosen = picked.chosen;
+    leafClusters = picked.leafClusters;
+    choice = kneeChoice(picked, over);
   }
   if (chosen < 2) {
     throw new UsageError(`minSimilarity ${resolved.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
@@ -470,20 +470,12 @@ function formByDocumentTree(matrix: Csr, nonEmpty: number, resolved: ResolvedGro
     leafClusters = cutAtSimilarity(docTree, resolved.minSimilarity);
     const chosen = countGroups(leafClusters);
     if (chosen < 2) throw new UsageError(`minSimilarity ${resolved.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
-    choice = { by: 'similarity', chosen, treeLeaves: nonEmpty, tried: [], sampled: 0 };
+    choice = { by: 'similarity', chosen, treeLeaves: nonEmpty, tried: [], sampled: 0, warnings: [] };
   } else {
-    const cuts = cutRange(resolved, nonEmpty);
     const identity = Int32Array.from({ length: nonEmpty }, (_, i) => i);
-    const scored = silhouetteForCuts(sub, identity, docTree, cuts, { sampleSize: resolved.choose.sampleSize, seed: resolved.kmeans.seed });
-    const chosen = bestCut(scored.cuts);
-    leafClusters = cutToGroups(docTree, chosen);
-    choice = {
-      by: 'silhouette',
-      chosen,
-      treeLeaves: nonEmpty,
-      tried: scored.cuts.map((c) => ({ groups: c.groups, silhouette: c.mean })),
-      sampled: scored.sampled,
-    };
+    const picked = chooseFromTree(sub, identity, docTree, cutRange(resolved, nonEmpty), resolved.choose.range, { sampleSize: resolved.choose.sampleSize, seed: resolved.kmeans.seed });
+    leafClusters = picked.leafClusters;
+    choice = kneeChoice(picked, nonEmpty);
   }
   const k = countGroups(leafClusters);
   const raw = new Int32Array(matrix.rows).fill(-1);

@@ -290,13 +290,34 @@ describe('the tree, the number of groups, and known labels', () => {
     const run = await sheaf(['group', demoCsv, '--text', 'subject,body', '--id', 'ticket_id', '--groups', 'auto', '--range', '4..12', '--out', out, '--quiet']);
     expect(run.code).toBe(0);
     const r = JSON.parse(readFileSync(path.join(out, 'run.json'), 'utf8'));
-    expect(r.choice.by).toBe('silhouette');
+    expect(r.choice.by).toBe('knee');
     expect(r.choice.tried.map((t: { groups: number }) => t.groups)).toEqual([4, 5, 6, 7, 8, 9, 10, 11, 12]);
-    const best = Math.max(...r.choice.tried.map((t: { silhouette: number }) => t.silhouette));
-    expect(r.choice.tried.find((t: { groups: number }) => t.groups === r.choice.chosen).silhouette).toBe(best);
+    // The knee is the highest point of Kneedle's difference curve (0 at both ends); silhouette stays a column.
+    const best = Math.max(...r.choice.tried.map((t: { knee: number }) => t.knee));
+    const chosenRow = r.choice.tried.find((t: { groups: number }) => t.groups === r.choice.chosen);
+    expect(chosenRow.knee).toBe(best);
+    expect(chosenRow.chosen).toBe(true);
+    expect(r.choice.tried[0].knee).toBe(0);
+    expect(r.choice.tried[8].knee).toBe(0);
+    expect(r.choice.tried.every((t: { silhouette: number }) => t.silhouette > 0)).toBe(true);
     expect(r.counts.groups).toBe(r.choice.chosen);
-    expect(run.stdout).toMatch(new RegExp(`^Chose ${r.choice.chosen} groups: the highest mean silhouette`));
-    expect(run.stdout).toMatch(new RegExp(`\\n\\s+${r.choice.chosen}\\s+\\d\\.\\d{3}\\s+◀ chosen\\n`));
+    expect(run.stdout).toMatch(new RegExp(`^Chose ${r.choice.chosen} groups at the knee of the objective`));
+    expect(run.stdout).toMatch(new RegExp(`\\n\\s+${r.choice.chosen}\\s+\\d+\\.\\d{2}\\s+\\d\\.\\d{3}\\s+\\d\\.\\d{3}\\s+◀ chosen\\n`));
+    const html = readFileSync(path.join(out, 'report.html'), 'utf8');
+    expect(html).toContain(`<h3>Number of groups</h3>`);
+    expect(html).toContain(`<tr class="chosen"><td class="num">${r.choice.chosen}</td>`);
+  });
+
+  it('--groups auto warns on stderr, in run.json and in the report when the choice sits on the edge of --range', async () => {
+    const out = path.join(tempDir(), 'auto-edge');
+    const run = await sheaf(['group', demoCsv, '--text', 'subject,body', '--id', 'ticket_id', '--groups', 'auto', '--range', '2..4', '--out', out]);
+    expect(run.code).toBe(0);
+    const warning = 'the choice sits at the top of the range 2..4; try --range 2..8';
+    expect(run.stderr).toContain(`sheaf: warning: ${warning}\n`);
+    expect(run.stdout).toContain(`Warning: ${warning}.\n`);
+    const r = JSON.parse(readFileSync(path.join(out, 'run.json'), 'utf8'));
+    expect(r.choice.warnings).toContain(warning);
+    expect(readFileSync(path.join(out, 'report.html'), 'utf8')).toContain(`<p class="notice">${warning}</p>`);
   });
 
   it('writes the tree in groups.json and tree.nwk with group labels as leaf names', async () => {

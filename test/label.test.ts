@@ -77,11 +77,24 @@ describe('labelGroups', () => {
     expect(labels[0].terms[0].outside).toBe(0);
   });
 
-  it('reports cohesion as the mean fit and exemplars by fit', () => {
-    const labels = labelGroups({ matrix: m, assignments, fit, groups: 2, centroids, terms });
+  it('reports cohesion as the mean fit and exemplars by fit when diversity is off', () => {
+    // λ = 1 and a near-copy threshold of 1 turn maximal marginal relevance into the closest-first rule.
+    const labels = labelGroups({ matrix: m, assignments, fit, groups: 2, centroids, terms }, { exemplarRelevance: 1, nearCopy: 1 });
     expect(labels[0].cohesion).toBeCloseTo((fit[0] + fit[1] + fit[2]) / 3, 6);
     const order = [0, 1, 2].sort((a, b) => fit[b] - fit[a] || a - b);
     expect(labels[0].exemplars).toEqual(order);
+  });
+
+  it('by default leaves out exemplars that are near-copies of one already taken', () => {
+    const labels = labelGroups({ matrix: m, assignments, fit, groups: 2, centroids, terms });
+    const order = [0, 1, 2].sort((a, b) => fit[b] - fit[a] || a - b);
+    expect(labels[0].exemplars[0]).toBe(order[0]);
+    for (const r of labels[0].exemplars.slice(1)) {
+      let dot = 0;
+      for (let p = m.indptr[r]; p < m.indptr[r + 1]; p++)
+        for (let q = m.indptr[order[0]]; q < m.indptr[order[0] + 1]; q++) if (m.indices[p] === m.indices[q]) dot += m.values[p] * m.values[q];
+      expect(dot).toBeLessThan(0.9);
+    }
   });
 
   it('treats terms such as __proto__ and constructor as ordinary words', () => {

@@ -48,12 +48,12 @@ describe('groupDocuments', () => {
     expect(Array.from(b.inputOrder, (r) => b.docs[r].id)).toEqual(shuffled.map((d) => d.id));
   });
 
-  it('auto: picks the cut with the best silhouette, and k-means from that cut never lowers its objective', () => {
+  it('auto: picks the cut at the knee of the objective, and k-means from that cut never lowers its objective', () => {
     const r = groupDocuments(demo, { groups: 'auto', choose: { range: [4, 10] } });
     const c = r.choice!;
-    expect(c.by).toBe('silhouette');
-    const best = Math.max(...c.tried.map((t) => t.silhouette));
-    expect(c.tried.find((t) => t.groups === c.chosen)!.silhouette).toBe(best);
+    expect(c.by).toBe('knee');
+    const best = Math.max(...c.tried.map((t) => t.knee));
+    expect(c.tried.find((t) => t.groups === c.chosen)!.knee).toBe(best);
     expect(r.partition.groups).toBe(c.chosen);
     // Rebuild the cut the refinement started from: over-cluster, tree, cut (same seed, same code path).
     const over = groupDocuments(demo, { groups: c.treeLeaves });

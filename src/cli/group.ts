@@ -40,7 +40,7 @@ import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copie
 import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from '../report/duplicates.js';
 import { modelToJson } from '../model/index.js';
 import { renderReport } from '../report/html.js';
-import { reportFromRun } from '../report/report-from-run.js';
+import { choiceTable, reportFromRun } from '../report/report-from-run.js';
 import { UsageError } from '../util/errors.js';
 import { CLEAN_MODES, cleanDocuments, resolveCleanOptions, type CleanMode, type CleanReport } from '../clean/index.js';
 import type { Doc } from '../types.js';
@@ -80,6 +80,8 @@ export interface GroupFlags {
   truth?: string;
   threads?: string;
   memory?: string;
+  unsorted?: boolean;
+  splitMixed?: boolean;
   duplicates?: string | false;
   report?: boolean;
   out: string;
@@ -183,6 +185,8 @@ export function addGroupingFlags(cmd: Command, groupsHelp: string): Command {
     .option('--terms <n>', 'terms listed per group')
     .option('--truth <field>', 'compare the groups with a column of known labels')
     .option('--threads <n>', 'threads for k-means on large inputs (default: up to 2, the cores there are)')
+    .option('--unsorted', 'set apart documents that fit no group well (fit below a threshold learned from the pile) as unsorted')
+    .option('--split-mixed', 'split each group flagged as mixed (low cohesion) in two by bisecting k-means')
     .option('--memory <size>', 'refuse to start what would need more memory than this, like 8G (default: 60% of the machine)');
 }
 
@@ -305,6 +309,7 @@ export async function groupOptionsFromFlags(
       seed: wholeNumber(flags.seed, 'seed'),
     },
     label: { terms: wholeNumber(flags.terms, 'terms') },
+    refine: { unsorted: flags.unsorted, splitMixed: flags.splitMixed },
   };
   try {
     resolveGroupOptions(group);
@@ -374,14 +379,17 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   } finally {
     progress.done();
   }
+  const unsortedSet = new Set(result.unsorted.rows);
   const evaluation = flags.truth
     ? evaluateLabels(
         flags.truth,
         result.docs.map((d) => d.fields.get(flags.truth as string) ?? ''),
-        Array.from(result.partition.assignments, (g) => (g >= 0 ? String(g) : '')),
+        // Unsorted documents are scored as a class of their own, not left out.
+        Array.from(result.partition.assignments, (g, r) => (g >= 0 ? String(g) : unsortedSet.has(r) ? 'unsorted' : '')),
       )
     : null;
   for (const line of notes) note(line);
+  for (const w of result.choice?.warnings ?? []) note(`sheaf: warning: ${w}`);
   if (result.emptyRows.length > 0) {
     note(
       `sheaf: note: ${result.emptyRows.length} document(s) have no terms after analysis; they are in no group ` +
@@ -474,7 +482,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   }
   out.push(
     `${read.docs.length} documents (${read.skipped.length} skipped, ${result.emptyRows.length} without terms) ` +
-      `in ${result.groups.length} groups; ${result.vocabulary.terms.length} terms; ` +
+      `in ${result.groups.length} groups${unsortedNote(result)}; ${result.vocabulary.terms.length} terms; ` +
       `mean silhouette ${Number.isFinite(result.quality.silhouette.mean) ? result.quality.silhouette.mean.toFixed(3) : '–'}.`,
     'Wrote:',
     ...shownWritten.map((p) => `  ${p}`),
@@ -549,13 +557,16 @@ function runJson(x: RunJsonInput): unknown {
       kmeans: o.kmeans,
       threads: x.threads,
       label: o.label,
+      refine: o.refine,
       out: x.flags.out,
     },
     counts: {
       documents: read.docs.length,
       skipped: read.skipped.length,
-      grouped: read.docs.length - result.emptyRows.length,
+      grouped: read.docs.length - result.emptyRows.length - result.unsorted.rows.length,
       withoutTerms: result.emptyRows.length,
+      unsorted: result.unsorted.rows.length,
+      mixedGroups: result.mixed.reduce((a, b) => a + b, 0),
       groups: result.partition.groups,
       terms: result.vocabulary.terms.length,
       nonZeros: result.matrix.indptr[result.matrix.rows],
@@ -566,7 +577,9 @@ function runJson(x: RunJsonInput): unknown {
           chosen: result.choice.chosen,
           treeLeaves: result.choice.treeLeaves,
           sampled: result.choice.sampled,
-          tried: result.choice.tried.map((t) => ({ groups: t.groups, silhouette: Number.isFinite(t.silhouette) ? round(t.silhouette, 6) : null })),
+          rule: result.choice.rule ?? null,
+          warnings: result.choice.warnings,
+          tried: choiceTable(result.choice),
         }
       : null,
     quality: {
@@ -598,4 +611,9 @@ function runJson(x: RunJsonInput): unknown {
       documentsPerSecond: t.ms > 0 ? Math.round((t.items / t.ms) * 1000) : null,
     })),
   };
+}
+
+/** `, unsorted: N` for the summary line when documents were set apart; empty otherwise. */
+function unsortedNote(result: GroupResult): string {
+  return result.options.refine.unsorted ? ` (unsorted: ${result.unsorted.rows.length})` : '';
 }

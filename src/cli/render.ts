@@ -16,7 +16,7 @@ export function groupTable(result: GroupResult, width: number): string[] {
   const rows = result.groups.map((g) => [
     String(g.id),
     String(g.size),
-    g.label,
+    result.mixed[g.id] === 1 ? `${g.label} (mixed)` : g.label,
     fixed(g.cohesion, 2),
     g.exemplars
       .slice(0, 2)
@@ -74,7 +74,7 @@ export function treeOutline(result: GroupResult, width: number, depth = 4): stri
   return lines;
 }
 
-/** The silhouette of each number of groups tried, the chosen one marked. */
+/** The scores of each number of groups tried (objective, knee, silhouette), the chosen one marked, and any warning. */
 export function choiceLines(result: GroupResult): string[] {
   const c = result.choice;
   if (!c) return [];
@@ -83,13 +83,20 @@ export function choiceLines(result: GroupResult): string[] {
       `Cut the tree over ${c.treeLeaves} ${result.options.method === 'kmeans' ? 'groups' : 'documents'} where average similarity falls below ${result.options.minSimilarity}: ${c.chosen} groups.`,
     ];
   }
-  const best = c.tried.find((t) => t.groups === c.chosen)?.silhouette ?? NaN;
   const lines = [
-    `Chose ${c.chosen} groups: the highest mean silhouette (${fixed(best, 3)}, cosine, on ${c.sampled} sampled documents) ` +
-      `among the cuts of a tree over ${c.treeLeaves} ${result.options.method === 'kmeans' ? 'k-means groups' : 'documents'}:`,
+    `Chose ${c.chosen} groups at the knee of the objective (Σ cosine to the group centre) over the cuts of a tree over ${c.treeLeaves} ` +
+      `${result.options.method === 'kmeans' ? 'k-means groups' : 'documents'} (silhouette on ${c.sampled} sampled documents):`,
   ];
-  const rows = c.tried.map((t) => [String(t.groups), Number.isFinite(t.silhouette) ? fixed(t.silhouette, 3) : '–', t.groups === c.chosen ? '◀ chosen' : '']);
-  lines.push(...renderTable([{ heading: 'groups', align: 'right' }, { heading: 'silhouette', align: 'right' }, { heading: '' }], rows, 40));
+  const rows = c.tried.map((t) => [
+    String(t.groups),
+    fixed(t.objective, 2),
+    fixed(t.knee, 3),
+    Number.isFinite(t.silhouette) ? fixed(t.silhouette, 3) : '–',
+    t.groups === c.chosen ? '◀ chosen' : '',
+  ]);
+  const headings = ['groups', 'objective', 'knee', 'silhouette'].map((heading) => ({ heading, align: 'right' as const }));
+  lines.push(...renderTable([...headings, { heading: '' }], rows, 60));
+  for (const w of c.warnings) lines.push(`Warning: ${w}.`);
   return lines;
 }
 

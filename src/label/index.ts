@@ -13,6 +13,7 @@
 import type { Csr } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { stripUndefined } from '../util/options.js';
+import { diverseExemplars } from './exemplars.js';
 
 /** Options for {@link labelGroups}. */
 export interface LabelOptions {
@@ -20,8 +21,12 @@ export interface LabelOptions {
   terms: number;
   /** Terms joined into the group's name. */
   nameTerms: number;
-  /** Exemplar documents per group (closest to the centroid). */
+  /** Exemplar documents per group: central and unlike each other (maximal marginal relevance, see exemplars.ts). */
   exemplars: number;
+  /** λ of maximal marginal relevance for exemplars, 0 to 1: 1 takes the closest to the centre only. */
+  exemplarRelevance: number;
+  /** Cosine at or above which two documents are near-copies: never both exemplars of a group (0 to 1). */
+  nearCopy: number;
   /** Centroid terms considered as candidates before scoring distinctiveness. */
   candidates: number;
 }
@@ -32,6 +37,8 @@ export const DEFAULT_LABEL_OPTIONS: Readonly<LabelOptions> = Object.freeze({
   nameTerms: 3,
   exemplars: 3,
   candidates: 60,
+  exemplarRelevance: 0.7,
+  nearCopy: 0.9,
 });
 
 /** Merges defaults once and validates every value; throws {@link UsageError}. */
@@ -42,6 +49,10 @@ export function resolveLabelOptions(partial: Partial<LabelOptions> = {}): LabelO
     if (!Number.isInteger(v) || v < 1 || v > 1000) {
       throw new UsageError(`${key} must be a whole number from 1 to 1000; got ${show(v)}`, key);
     }
+  }
+  for (const key of ['exemplarRelevance', 'nearCopy'] as const) {
+    const v = o[key];
+    if (typeof v !== 'number' || !(v >= 0 && v <= 1)) throw new UsageError(`${key} must be a number from 0 to 1; got ${show(v)}`, key);
   }
   if (o.nameTerms > o.terms) {
     throw new UsageError(`nameTerms must not exceed terms (${o.terms}); got ${o.nameTerms}`, 'nameTerms');
@@ -70,7 +81,7 @@ export interface GroupLabel {
   readonly size: number;
   /** Mean cosine of members to the centroid. */
   readonly cohesion: number;
-  /** Row indices of the members closest to the centroid, closest first. */
+  /** Row indices of exemplar members, in the order maximal marginal relevance chose them (the closest to the centroid first). */
   readonly exemplars: readonly number[];
 }
 
@@ -189,8 +200,8 @@ export function labelGroups(input: LabelInput, options: Partial<LabelOptions> = 
     });
   }
 
-  // Exemplars: highest fit within each group, ties by row index.
-  const best = exemplarRows(assignments, fit, k, o.exemplars);
+  // Exemplars: central and unlike each other (maximal marginal relevance), never two near-copies.
+  const best = diverseExemplars(matrix, assignments, fit, k, { count: o.exemplars, relevance: o.exemplarRelevance, nearCopy: o.nearCopy });
   return out.map((g) => ({ ...g, exemplars: best[g.id] }));
 }
 

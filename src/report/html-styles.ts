@@ -51,6 +51,7 @@ section.view > h2 { margin-top: 1.25rem; overflow-wrap: anywhere; }
 h3 { margin-top: 1.75rem; }
 .js section.view[hidden] { display: none; }
 .notice { border-left: 4px solid var(--focus); padding: .5rem .75rem; background: var(--panel); }
+table.choice tr.chosen td { font-weight: 700; }
 .muted { color: var(--muted); }
 dl.counts { display: grid; grid-template-columns: repeat(auto-fill, minmax(11rem, 1fr)); gap: .5rem 1rem; margin: 0; }
 dl.counts div { background: var(--panel); border: 1px solid var(--line); border-radius: 6px; padding: .5rem .75rem; }

@@ -24,6 +24,7 @@ import { groupHref, groupName, mapChart, sizesChart, termsChart, treeChart, tree
 import { reportPayload } from './html-payload.js';
 import { REPORT_CSS } from './html-styles.js';
 import { REPORT_SCRIPT } from './html-client.js';
+import { choiceSection, mixedStat, unsortedCounts } from './html-quality.js';
 
 type Group = ReportData['groups'][number];
 
@@ -106,7 +107,9 @@ export function renderReport(data: ReportData): string {
   if (ungrouped > 0) {
     parts.push(
       view('ungrouped', 'Not grouped', [
-        `<p>${e(formatCount(ungrouped))} documents had no usable terms after analysis, so they belong to no group.</p>`,
+        `<p>${e(formatCount(ungrouped))} documents belong to no group: ${e(formatCount(data.counts.withoutTerms))} had no usable terms after analysis` +
+          (data.counts.unsorted ? `, ${e(formatCount(data.counts.unsorted))} fit no group well (unsorted; their fit is kept)` : '') +
+          '.</p>',
         mountPoint('ungrouped', ''),
       ]),
     );
@@ -167,6 +170,7 @@ function overviewView(
     ['Groups', formatCount(data.groups.length)],
     ['In a group', formatCount(c.grouped)],
     ['Without usable terms', formatCount(c.withoutTerms)],
+    ...unsortedCounts(data),
     ['Inputs skipped', formatCount(c.skipped)],
     ['Terms in the vocabulary', formatCount(c.terms)],
   ];
@@ -191,7 +195,7 @@ function overviewView(
         'Documents, share and cohesion per group, largest first',
         ['Group', 'Documents', 'Share', 'Cohesion', ...(hasSeparation ? ['Separation'] : [])],
         bySize.map((g) => [
-          groupLinkHtml(g),
+          groupLinkHtml(g) + (g.mixed ? ' (mixed)' : ''),
           e(formatCount(g.size)),
           e(formatShare(g.size, grouped)),
           e(formatFixed(g.cohesion, 3)),
@@ -201,6 +205,7 @@ function overviewView(
       ),
     );
   }
+  body.push(...choiceSection(data));
   body.push('<h3>Settings</h3>');
   if (data.settings.length === 0) body.push('<p>No settings were recorded.</p>');
   else {
@@ -288,6 +293,7 @@ function groupView(
   const stats = [
     `<li><strong>${e(formatCount(g.size))}</strong> documents (${e(formatShare(g.size, grouped))} of those grouped)</li>`,
     `<li>cohesion <strong>${e(formatFixed(g.cohesion, 3))}</strong></li>`,
+    ...mixedStat(g),
   ];
   if (g.separation !== undefined) stats.push(`<li>separation <strong>${e(formatFixed(g.separation, 3))}</strong></li>`);
   const body: string[] = [`<ul class="stats">${stats.join('')}</ul>`, '<h3>Terms that name it</h3>'];
@@ -308,7 +314,7 @@ function groupView(
   if (g.exemplars.length === 0) body.push('<p>No exemplars.</p>');
   else {
     body.push(
-      '<p>The documents closest to the group’s centre, closest first.</p><ol class="exemplars">',
+      '<p>Documents close to the group’s centre and unlike each other (maximal marginal relevance), the closest first; never two near-copies.</p><ol class="exemplars">',
       ...g.exemplars.map((x) => {
         const title = titleById.get(x);
         return `<li>${title !== undefined && title !== '' ? `${e(title)} ` : ''}<code>${e(x)}</code></li>`;

@@ -13,6 +13,9 @@ import { csvChunks, fixed } from './csv.js';
 /** Columns sheaf puts first in `documents.csv`. */
 export const DOCUMENT_COLUMNS = ['id', 'group', 'label', 'fit', 'duplicate_set'] as const;
 
+/** The label column of an unsorted document in `documents.csv` (its group column is empty, its fit kept). */
+export const UNSORTED_LABEL = '(unsorted)';
+
 /** Per-document extras other stages may add (for example near-duplicate set ids). */
 export interface DocumentExtras {
   /** Near-duplicate set per row, -1 for none. */
@@ -46,6 +49,7 @@ export function documentsCsvChunks(result: GroupResult, extras: DocumentExtras =
   const { assignments, fit } = result.partition;
   const labels = result.groups.map((g) => g.label);
   const dup = extras.duplicateSet;
+  const unsorted = new Set(result.unsorted.rows);
   function* rows(): Generator<string[]> {
     for (let k = 0; k < result.inputOrder.length; k++) {
       const i = result.inputOrder[k];
@@ -54,8 +58,8 @@ export function documentsCsvChunks(result: GroupResult, extras: DocumentExtras =
       const row = [
         doc.id,
         g >= 0 ? String(g) : '',
-        g >= 0 ? labels[g] : '',
-        g >= 0 ? fixed(fit[i]) : '',
+        g >= 0 ? labels[g] : unsorted.has(i) ? UNSORTED_LABEL : '',
+        g >= 0 || unsorted.has(i) ? fixed(fit[i]) : '',
         dup && dup[i] >= 0 ? String(dup[i]) : '',
       ];
       for (const c of userColumns) row.push(doc.fields.get(c) ?? '');
@@ -78,7 +82,11 @@ export interface GroupsJson {
     /** Mean silhouette of the group's sampled members (null when none was sampled). */
     silhouette: number | null;
     exemplars: string[];
+    /** True when the group's cohesion is low relative to the others (see cluster/unsorted.ts). */
+    mixed: boolean;
   }[];
+  /** Documents set apart as unsorted (fit below the pile's threshold), and that threshold (null when off). */
+  readonly unsorted: { count: number; threshold: number | null };
   /** Average-link tree over the groups: leaves are group ids, node `groups + i` is made by merge `i`. */
   readonly tree: {
     method: string;
@@ -107,7 +115,9 @@ export function groupsJson(result: GroupResult, extra: Record<string, unknown> =
       separation: finiteOrNull(result.quality.separation[g.id]),
       silhouette: finiteOrNull(result.quality.silhouette.perGroup[g.id]),
       exemplars: g.exemplars.map((r) => result.docs[r].id),
+      mixed: result.mixed[g.id] === 1,
     })),
+    unsorted: { count: result.unsorted.rows.length, threshold: finiteOrNull(result.unsorted.threshold) },
     tree: {
       method: 'average-link (UPGMA) on cosine over the groups',
       leaves: tree.leaves,

@@ -25,6 +25,8 @@ export interface ReportData {
     readonly documents: number;
     readonly grouped: number;
     readonly withoutTerms: number;
+    /** Documents set apart as unsorted (absent when that option was off). */
+    readonly unsorted?: number;
     readonly skipped: number;
     readonly terms: number;
   };
@@ -37,12 +39,27 @@ export interface ReportData {
     /** Highest cosine between this group's centroid and another's, when known. */
     readonly separation?: number;
     readonly terms: readonly { readonly term: string; readonly weight: number }[];
+    /** True when the group's cohesion is low relative to the others. */
+    readonly mixed?: boolean;
     /** Exemplar document ids, closest first. */
     readonly exemplars: readonly string[];
     /** Position on the 2-D map of groups. */
     readonly x: number;
     readonly y: number;
   }[];
+  /** How the number of groups was chosen automatically (knee of the objective over the tree's cuts), when it was. */
+  readonly choice?: {
+    readonly chosen: number;
+    readonly treeLeaves: number;
+    readonly warnings: readonly string[];
+    readonly tried: readonly {
+      readonly groups: number;
+      readonly objective: number;
+      readonly knee: number;
+      readonly silhouette: number | null;
+      readonly chosen: boolean;
+    }[];
+  };
   /** Tree over the groups (leaves 0..groups-1, node groups+i made by merge i), when built. */
   readonly tree?: {
     readonly merges: readonly { readonly left: number; readonly right: number; readonly similarity: number; readonly size: number }[];

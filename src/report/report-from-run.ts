@@ -4,7 +4,7 @@
  *
  * @module
  */
-import type { GroupResult } from '../pipeline.js';
+import type { GroupChoice, GroupResult } from '../pipeline.js';
 import type { DuplicateRun } from '../near-copies.js';
 import type { ReportData } from './report-data.js';
 import { groupMap } from './map.js';
@@ -33,6 +33,7 @@ export function reportFromRun(
   const map = groupMap(p.centroids, result.matrix.cols, k);
   const tree = result.tree;
   const o = result.options;
+  const unsortedSet = new Set(result.unsorted.rows);
   const settings = [
     { name: 'method', value: o.method === 'kmeans' ? 'spherical k-means' : 'average-link over documents' },
     { name: 'groups', value: result.choice ? `${k} (chosen by ${result.choice.by})` : String(k) },
@@ -51,8 +52,9 @@ export function reportFromRun(
     settings,
     counts: {
       documents: rows.length,
-      grouped: rows.length - result.emptyRows.length,
+      grouped: rows.length - result.emptyRows.length - result.unsorted.rows.length,
       withoutTerms: result.emptyRows.length,
+      ...(o.refine.unsorted ? { unsorted: result.unsorted.rows.length } : {}),
       skipped: context.skipped,
       terms: result.matrix.cols,
     },
@@ -64,6 +66,7 @@ export function reportFromRun(
       ...(Number.isFinite(result.quality.separation[g.id]) ? { separation: result.quality.separation[g.id] } : {}),
       terms: g.terms.map((t) => ({ term: t.term, weight: t.weight })),
       exemplars: g.exemplars.map((r) => rows[r].id),
+      ...(result.mixed[g.id] === 1 ? { mixed: true } : {}),
       x: map.x[g.id],
       y: map.y[g.id],
     })),
@@ -75,11 +78,14 @@ export function reportFromRun(
         size: tree.size[i],
       })),
     },
+    ...(result.choice && result.choice.by === 'knee'
+      ? { choice: { chosen: result.choice.chosen, treeLeaves: result.choice.treeLeaves, warnings: result.choice.warnings, tried: choiceTable(result.choice) } }
+      : {}),
     documents: Array.from(result.inputOrder, (r) => ({
       id: rows[r].id,
       title: rows[r].title,
       group: p.assignments[r],
-      fit: p.assignments[r] >= 0 ? p.fit[r] : Number.NaN,
+      fit: p.assignments[r] >= 0 || unsortedSet.has(r) ? p.fit[r] : Number.NaN,
       duplicateSet: near ? near.setOf[r] : -1,
     })),
     ...(near && nearSettings
@@ -103,4 +109,16 @@ export function reportFromRun(
         }
       : {}),
   };
+}
+
+/** The score table of an automatic choice (run.json and the report): one row per number of groups tried; NaN becomes null. */
+export function choiceTable(choice: GroupChoice): { groups: number; objective: number; knee: number; silhouette: number | null; chosen: boolean }[] {
+  const r6 = (v: number): number => Math.round(v * 1e6) / 1e6;
+  return choice.tried.map((t) => ({
+    groups: t.groups,
+    objective: r6(t.objective),
+    knee: r6(t.knee),
+    silhouette: Number.isFinite(t.silhouette) ? r6(t.silhouette) : null,
+    chosen: t.groups === choice.chosen,
+  }));
 }
