@@ -43,7 +43,7 @@ export * from './label/index.js';
 export * from './evaluate/index.js';
 export * from './model/index.js';
 export { applyModel, type ModelApplication } from './model/apply.js';
-export { kmeansRunner, PARALLEL_MIN_ROWS } from './parallel/runner.js';
+export { kmeansRunner, vectorizeRunner, PARALLEL_MIN_ROWS, PARALLEL_ANALYZE_MIN_CHARS } from './parallel/runners.js';
 export { sphericalKMeansParallel, resolveParallelOptions, type ParallelOptions } from './parallel/kmeans-parallel.js';
 export {
   groupDocuments,

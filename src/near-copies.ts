@@ -23,7 +23,9 @@ import {
   type DuplicatesOptions,
   type SimilarPairs,
 } from './duplicates/index.js';
-import { canonicalOrder, selectRows, type PipelineHooks, type StageTiming } from './pipeline.js';
+import type { PipelineHooks, StageTiming } from './types.js';
+import { canonicalOrder } from './util/id-order.js';
+import { selectRows } from './util/csr.js';
 import { UsageError, show } from './util/errors.js';
 
 /** What two documents are compared by. */

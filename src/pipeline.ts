@@ -6,9 +6,8 @@
  *
  * @module
  */
-import type { Csr, Doc } from './types.js';
+import type { Csr, Doc, PipelineHooks, StageTiming } from './types.js';
 import { createAnalyzer, resolveAnalyzerOptions, type AnalyzerOptions, type AnalyzerSettings } from './analyze/index.js';
-import type { VectorizeRequest, VectorizeRunner } from './parallel/analyze-runner.js';
 import {
   fitTfidf,
   type TfidfFit,
@@ -16,7 +15,10 @@ import {
   type VectorizeOptions,
   type Vocabulary,
 } from './vectorize/index.js';
-import { resolveKMeansOptions, sphericalKMeans, type KMeansOptions, type KMeansResult } from './cluster/kmeans.js';
+import { resolveKMeansOptions, type KMeansOptions, type KMeansResult } from './cluster/kmeans.js';
+import { fitHere, kmeansHere, type KMeansRequest, type PipelineRunners, type VectorizeRequest } from './runners.js';
+import { canonicalOrder } from './util/id-order.js';
+import { rowsWithEntries, rowsWithoutEntries, selectRows } from './util/csr.js';
 import {
   cutAtSimilarity,
   cutToGroups,
@@ -39,6 +41,11 @@ import {
   type LabelOptions,
 } from './label/index.js';
 import { UsageError, show } from './util/errors.js';
+
+export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
+export type { PipelineHooks, StageTiming } from './types.js';
+export { canonicalOrder, compareIds } from './util/id-order.js';
+export { selectRows } from './util/csr.js';
 
 /** How groups are formed. */
 export type GroupMethod = 'kmeans' | 'agglomerative';
@@ -88,22 +95,6 @@ export interface ResolvedGroupOptions {
   readonly kmeans: Omit<KMeansOptions, 'groups'>;
   readonly tree: TreeOptions;
   readonly label: LabelOptions;
-}
-
-/** Hooks the edges pass in; all optional. */
-export interface PipelineHooks {
-  /** Milliseconds from some fixed point (for stage timings). Without it, timings are 0. */
-  readonly now?: () => number;
-  /** Called as a stage makes progress. */
-  readonly progress?: (stage: string, done: number, total: number) => void;
-}
-
-/** Wall time of one stage. */
-export interface StageTiming {
-  readonly stage: string;
-  readonly ms: number;
-  /** How many documents the stage handled. */
-  readonly items: number;
 }
 
 /** How the number of groups was chosen, when it was. */
@@ -224,43 +215,9 @@ export function groupDocuments(input: readonly Doc[], options: GroupOptions, hoo
   let next = steps.next();
   while (!next.done) {
     const req = next.value;
-    next = steps.next(req.kind === 'kmeans' ? sphericalKMeans(req.matrix, req.options) : fitOnThisThread(req));
+    next = steps.next(req.kind === 'kmeans' ? kmeansHere(req) : fitHere(req));
   }
   return next.value;
-}
-
-/** Analysis streamed into the TF-IDF fit on the calling thread (no list of term lists is ever held). */
-function fitOnThisThread(req: VectorizeStep): TfidfFit {
-  const analyzer = createAnalyzer(req.analyzer);
-  const n = req.texts.length;
-  const step = Math.max(1, Math.floor(n / 100));
-  function* termLists(): Generator<string[]> {
-    for (let i = 0; i < n; i++) {
-      if (req.onProgress && i % step === 0) req.onProgress(i, n);
-      yield analyzer.analyze(req.texts[i]);
-    }
-    req.onProgress?.(n, n);
-  }
-  return fitTfidf(termLists(), req.vectorize);
-}
-
-/** A k-means run the pipeline needs; the driver decides on how many threads it runs. */
-export interface KMeansRequest {
-  readonly matrix: Csr;
-  readonly options: Partial<KMeansOptions> & { readonly groups: number };
-}
-
-/** Runs a k-means request, on the calling thread or on several (same result either way). */
-export type KMeansRunner = (request: KMeansRequest) => Promise<KMeansResult>;
-
-/** The work the pipeline hands to its driver: k-means runs and the analyze+vectorize step. */
-type Step = ({ readonly kind: 'kmeans' } & KMeansRequest) | ({ readonly kind: 'vectorize' } & VectorizeStep);
-type VectorizeStep = VectorizeRequest & { readonly analyzer: AnalyzerSettings };
-
-/** The runners of {@link groupDocumentsAsync}; a missing one runs on the calling thread. */
-export interface PipelineRunners {
-  readonly kmeans?: KMeansRunner;
-  readonly vectorize?: VectorizeRunner;
 }
 
 /**
@@ -279,8 +236,8 @@ export async function groupDocumentsAsync(
   let next = steps.next();
   while (!next.done) {
     const req = next.value;
-    if (req.kind === 'kmeans') next = steps.next(await (runners.kmeans ? runners.kmeans(req) : sphericalKMeans(req.matrix, req.options)));
-    else next = steps.next(await (runners.vectorize ? runners.vectorize(req) : fitOnThisThread(req)));
+    if (req.kind === 'kmeans') next = steps.next(await (runners.kmeans ? runners.kmeans(req) : kmeansHere(req)));
+    else next = steps.next(await (runners.vectorize ? runners.vectorize(req) : fitHere(req)));
   }
   return next.value;
 }
@@ -315,8 +272,7 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   const { vocabulary, matrix } = fitted;
   timings.push({ stage: 'analyze+vectorize', ms: now() - tFit, items: n });
 
-  const empty: number[] = [];
-  for (let r = 0; r < matrix.rows; r++) if (matrix.indptr[r + 1] === matrix.indptr[r]) empty.push(r);
+  const empty = rowsWithoutEntries(matrix);
   const nonEmpty = n - empty.length;
   if (typeof resolved.groups === 'number') resolveKMeansOptions({ ...resolved.kmeans, groups: resolved.groups }, nonEmpty);
   else resolveKMeansOptions({ ...resolved.kmeans, groups: 2 }, nonEmpty);
@@ -357,7 +313,7 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
     choice: formed.choice,
     quality,
     groups,
-    emptyRows: Int32Array.from(empty),
+    emptyRows: empty,
     timings,
   };
 }
@@ -458,8 +414,7 @@ function countGroups(leafClusters: Int32Array): number {
 }
 
 function formByDocumentTree(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOptions): Formed {
-  const rows = new Int32Array(nonEmpty);
-  for (let r = 0, a = 0; r < matrix.rows; r++) if (matrix.indptr[r + 1] > matrix.indptr[r]) rows[a++] = r;
+  const rows = rowsWithEntries(matrix);
   const sub = selectRows(matrix, rows);
   const docTree = documentAverageLink(sub, resolved.tree);
   let leafClusters: Int32Array;
@@ -492,22 +447,6 @@ function formByDocumentTree(matrix: Csr, nonEmpty: number, resolved: ResolvedGro
   return { partition, kmeans: null, documentTree: docTree, treeRows: rows, choice };
 }
 
-/** The given rows of a CSR matrix, as a new CSR matrix (values shared by copy). */
-export function selectRows(matrix: Csr, rows: Int32Array): Csr {
-  const indptr = new Int32Array(rows.length + 1);
-  for (let i = 0; i < rows.length; i++) indptr[i + 1] = indptr[i] + matrix.indptr[rows[i] + 1] - matrix.indptr[rows[i]];
-  const nnz = indptr[rows.length];
-  const indices = new Int32Array(nnz);
-  const values = new Float32Array(nnz);
-  for (let i = 0; i < rows.length; i++) {
-    const from = matrix.indptr[rows[i]];
-    const to = matrix.indptr[rows[i] + 1];
-    indices.set(matrix.indices.subarray(from, to), indptr[i]);
-    values.set(matrix.values.subarray(from, to), indptr[i]);
-  }
-  return { rows: rows.length, cols: matrix.cols, indptr, indices, values };
-}
-
 /** Most documents re-read to find the surface words behind stemmed label terms. */
 export const SURFACE_SAMPLE = 20_000;
 
@@ -535,42 +474,6 @@ function readableLabels(
   return withDisplayForms(labels, display, options);
 }
 
-/**
- * Compares ids with runs of digits taken as numbers ("row 2" before "row 10"),
- * then by code units, so the order is total and locale-free.
- */
-export function compareIds(a: string, b: string): number {
-  const ra = a.match(/\d+|\D+/g) ?? [];
-  const rb = b.match(/\d+|\D+/g) ?? [];
-  const n = Math.min(ra.length, rb.length);
-  for (let i = 0; i < n; i++) {
-    const x = ra[i];
-    const y = rb[i];
-    if (x === y) continue;
-    const dx = x.charCodeAt(0) >= 48 && x.charCodeAt(0) <= 57;
-    const dy = y.charCodeAt(0) >= 48 && y.charCodeAt(0) <= 57;
-    if (dx && dy) {
-      const nx = x.replace(/^0+/, '');
-      const ny = y.replace(/^0+/, '');
-      if (nx.length !== ny.length) return nx.length - ny.length;
-      if (nx !== ny) return nx < ny ? -1 : 1;
-      continue;
-    }
-    return x < y ? -1 : 1;
-  }
-  if (ra.length !== rb.length) return ra.length - rb.length;
-  return a < b ? -1 : a > b ? 1 : 0;
-}
-
-/**
- * Puts documents in id order so the result does not depend on the order the
- * inputs were given in (ids are unique after ingest; equal ids keep their order).
- */
-export function canonicalOrder(input: readonly Doc[]): { docs: Doc[]; inputOrder: Int32Array } {
-  const order = Array.from(input.keys()).sort((i, j) => compareIds(input[i].id, input[j].id) || i - j);
-  const inputOrder = new Int32Array(input.length);
-  order.forEach((original, row) => {
-    inputOrder[original] = row;
-  });
-  return { docs: order.map((i) => input[i]), inputOrder };
-}
+/** The work the pipeline hands to its driver: k-means runs and the analyze+vectorize step. */
+type Step = ({ readonly kind: 'kmeans' } & KMeansRequest) | ({ readonly kind: 'vectorize' } & VectorizeStep);
+type VectorizeStep = VectorizeRequest & { readonly analyzer: AnalyzerSettings };

@@ -37,3 +37,19 @@ export interface Skipped {
   readonly source: string;
   readonly reason: string;
 }
+
+/** Hooks the edges pass in; all optional. */
+export interface PipelineHooks {
+  /** Milliseconds from some fixed point (for stage timings). Without it, timings are 0. */
+  readonly now?: () => number;
+  /** Called as a stage makes progress. */
+  readonly progress?: (stage: string, done: number, total: number) => void;
+}
+
+/** Wall time of one stage. */
+export interface StageTiming {
+  readonly stage: string;
+  readonly ms: number;
+  /** How many documents the stage handled. */
+  readonly items: number;
+}

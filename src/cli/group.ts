@@ -16,8 +16,7 @@ import { choiceLines, evaluationLines, groupTable, treeOutline } from './render.
 import { ingest, resolveIngestOptions, type IngestOptions, type IngestResult } from '../ingest/index.js';
 import { groupDocumentsAsync, resolveGroupOptions, type GroupOptions, type GroupResult, type StageTiming } from '../pipeline.js';
 import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
-import { kmeansRunner } from '../parallel/runner.js';
-import { vectorizeRunner } from '../parallel/analyze-runner.js';
+import { kmeansRunner, vectorizeRunner } from '../parallel/runners.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
 import { availableParallelism } from 'node:os';
 import {
