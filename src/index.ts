@@ -58,7 +58,12 @@ export {
   type ResolvedGroupOptions,
   type PipelineHooks,
   type StageTiming,
+  type GroupResultCommon,
+  type PipelineRunners,
 } from './pipeline.js';
+export { METHODS, METHOD_NAMES, findMethod, methodOf, DEFAULT_CHOOSE_OPTIONS, type GroupMethod, type GroupingMethod, type MethodOutcome, type MethodInput, type Formed, type ChooseOptions, type GroupChoice, type MethodSettings } from './methods/index.js';
+export type { KMeansOutcome } from './methods/kmeans.js';
+export type { AgglomerativeOutcome } from './methods/agglomerative.js';
 export { ingest, resolveIngestOptions, DEFAULT_INGEST_OPTIONS, type IngestOptions, type IngestResult, type IngestIo, type InputDigest } from './ingest/index.js';
 export { cleanDocuments, resolveCleanOptions, DEFAULT_CLEAN_OPTIONS, PLACEHOLDERS, type CleanOptions, type CleanReport, type CleanMode } from './clean/index.js';
 export { findDuplicates, nearCopiesOfVectors, resolveFindDuplicatesOptions, type FindDuplicatesOptions, type DuplicateRun, type CompareBy } from './near-copies.js';

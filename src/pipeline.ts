@@ -7,108 +7,25 @@
  * @module
  */
 import type { Csr, Doc, PipelineHooks, StageTiming } from './types.js';
-import { createAnalyzer, resolveAnalyzerOptions, type AnalyzerOptions, type AnalyzerSettings } from './analyze/index.js';
-import {
-  fitTfidf,
-  type TfidfFit,
-  resolveVectorizeOptions,
-  type VectorizeOptions,
-  type Vocabulary,
-} from './vectorize/index.js';
-import { resolveKMeansOptions, type KMeansOptions, type KMeansResult } from './cluster/kmeans.js';
-import { fitHere, kmeansHere, type KMeansRequest, type PipelineRunners, type VectorizeRequest } from './runners.js';
+import { createAnalyzer } from './analyze/index.js';
+import type { TfidfFit, Vocabulary } from './vectorize/index.js';
+import { fitHere, kmeansHere, type PipelineRunners, type PipelineStep, type StepReply } from './runners.js';
 import { canonicalOrder } from './util/id-order.js';
-import { rowsWithEntries, rowsWithoutEntries, selectRows } from './util/csr.js';
-import {
-  cutAtSimilarity,
-  cutToGroups,
-  documentAverageLink,
-  groupAverageLink,
-  resolveTreeOptions,
-  type Dendrogram,
-  type TreeOptions,
-} from './cluster/tree.js';
-import { groupCohesion, groupSeparation, sampledSilhouette, silhouetteForCuts, type SilhouetteResult } from './cluster/quality.js';
-import { canonicalGroups, partitionFromAssignments, type Partition } from './cluster/partition.js';
-import { stripUndefined } from './util/options.js';
+import { rowsWithoutEntries } from './util/csr.js';
+import { groupAverageLink, type Dendrogram } from './cluster/tree.js';
+import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
+import type { Partition } from './cluster/partition.js';
 import { PLACEHOLDERS } from './clean/index.js';
-import {
-  labelGroups,
-  resolveLabelOptions,
-  surfaceForms,
-  withDisplayForms,
-  type GroupLabel,
-  type LabelOptions,
-} from './label/index.js';
-import { UsageError, show } from './util/errors.js';
+import { labelGroups, surfaceForms, withDisplayForms, type GroupLabel, type LabelOptions } from './label/index.js';
+import { findMethod, type GroupChoice, type GroupingMethod, type MethodOutcome } from './methods/index.js';
+import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
 
 export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
 export type { PipelineHooks, StageTiming } from './types.js';
 export { canonicalOrder, compareIds } from './util/id-order.js';
 export { selectRows } from './util/csr.js';
-
-/** How groups are formed. */
-export type GroupMethod = 'kmeans' | 'agglomerative';
-
-/** Settings for choosing the number of groups (`groups: 'auto'`). */
-export interface ChooseOptions {
-  /** Smallest and largest number of groups tried. */
-  readonly range: readonly [number, number];
-  /** Rows sampled for the silhouette (seeded; cost grows with its square, not with n²). */
-  readonly sampleSize: number;
-  /** Groups of the over-clustering whose tree is cut; null = max(2 × range end, 40), capped by the documents. */
-  readonly overGroups: number | null;
-}
-
-/** Defaults of {@link ChooseOptions}. */
-export const DEFAULT_CHOOSE_OPTIONS: Readonly<ChooseOptions> = Object.freeze({
-  range: Object.freeze([2, 20]) as readonly [number, number],
-  sampleSize: 2000,
-  overGroups: null,
-});
-
-/** Options for {@link groupDocuments}, one object per stage. */
-export interface GroupOptions {
-  /** A number of groups, or `'auto'` to choose one by silhouette. Not with `minSimilarity`. */
-  readonly groups?: number | 'auto';
-  /** Cut the tree where average similarity drops below this, instead of giving `groups`. */
-  readonly minSimilarity?: number;
-  /** `kmeans` (default; any size) or `agglomerative` (document-level average-link, within a memory limit). */
-  readonly method?: GroupMethod;
-  readonly choose?: Partial<Omit<ChooseOptions, 'range'>> & { readonly range?: readonly [number, number] };
-  readonly analyzer?: Partial<AnalyzerOptions>;
-  readonly vectorize?: Partial<VectorizeOptions>;
-  /** k-means settings; `groups` here is accepted as the number of groups too. */
-  readonly kmeans?: Partial<Omit<KMeansOptions, 'groups'>> & { readonly groups?: number | 'auto' };
-  readonly tree?: Partial<TreeOptions>;
-  readonly label?: Partial<LabelOptions>;
-}
-
-/** Every stage's options after defaults were merged and values validated. */
-export interface ResolvedGroupOptions {
-  readonly groups: number | 'auto' | null;
-  readonly minSimilarity: number | null;
-  readonly method: GroupMethod;
-  readonly choose: ChooseOptions;
-  readonly analyzer: AnalyzerSettings;
-  readonly vectorize: VectorizeOptions;
-  readonly kmeans: Omit<KMeansOptions, 'groups'>;
-  readonly tree: TreeOptions;
-  readonly label: LabelOptions;
-}
-
-/** How the number of groups was chosen, when it was. */
-export interface GroupChoice {
-  /** `silhouette` for `groups: 'auto'`, `similarity` for `minSimilarity`. */
-  readonly by: 'silhouette' | 'similarity';
-  readonly chosen: number;
-  /** Leaves of the tree that was cut (over-clustering groups, or documents). */
-  readonly treeLeaves: number;
-  /** Mean silhouette of each cut tried (by silhouette only). */
-  readonly tried: readonly { readonly groups: number; readonly silhouette: number }[];
-  /** Rows in the silhouette sample. */
-  readonly sampled: number;
-}
+export { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
+export { METHODS, METHOD_NAMES, type GroupMethod, type GroupChoice, type ChooseOptions, DEFAULT_CHOOSE_OPTIONS } from './methods/index.js';
 
 /** Internal quality of the final grouping. */
 export interface GroupQuality {
@@ -120,8 +37,8 @@ export interface GroupQuality {
   readonly silhouette: SilhouetteResult;
 }
 
-/** Everything a grouping run produced. */
-export interface GroupResult {
+/** Everything a grouping run produced, whatever the method. */
+export interface GroupResultCommon {
   /** The documents in canonical order (by id, digits compared as numbers); row `r` of every array is `docs[r]`. */
   readonly docs: readonly Doc[];
   /** Row of each document in the order it was given: `docs[inputOrder[i]]` is the i-th input document. */
@@ -131,13 +48,8 @@ export interface GroupResult {
   readonly matrix: Csr;
   /** The final groups: assignments, unit centroids, fits. */
   readonly partition: Partition;
-  /** The final k-means run (method kmeans), or null. */
-  readonly kmeans: KMeansResult | null;
   /** Average-link tree over the final groups (leaf g = group g). */
   readonly tree: Dendrogram;
-  /** Method agglomerative: the document-level tree; leaf i is row `treeRows[i]`. */
-  readonly documentTree: Dendrogram | null;
-  readonly treeRows: Int32Array | null;
   readonly choice: GroupChoice | null;
   readonly quality: GroupQuality;
   readonly groups: readonly GroupLabel[];
@@ -146,62 +58,12 @@ export interface GroupResult {
   readonly timings: readonly StageTiming[];
 }
 
-const METHODS: readonly GroupMethod[] = ['kmeans', 'agglomerative'];
-
 /**
- * Validates every stage's options before any heavy work. Bounds that depend
- * on the data (groups up to the number of non-empty documents) are checked
- * once the vectors exist.
+ * Everything a grouping run produced: the common fields and, tagged by
+ * `method`, the method's own (`kmeans` for method kmeans; `documentTree` and
+ * `treeRows` for method agglomerative).
  */
-export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions {
-  const analyzer = resolveAnalyzerOptions(options.analyzer ?? {});
-  const vectorize = resolveVectorizeOptions(options.vectorize ?? {});
-  const { groups: kmGroups, ...kmRest } = options.kmeans ?? {};
-  const groupsRaw = options.groups ?? kmGroups;
-  const minSimilarity = options.minSimilarity ?? null;
-  if (groupsRaw !== undefined && minSimilarity !== null) {
-    throw new UsageError(`give either groups or minSimilarity, not both; got groups ${show(groupsRaw)} and minSimilarity ${minSimilarity}`, 'minSimilarity');
-  }
-  if (groupsRaw === undefined && minSimilarity === null) {
-    throw new UsageError('groups is required: a whole number of at least 2, or auto (or give minSimilarity)', 'groups');
-  }
-  if (minSimilarity !== null && !(typeof minSimilarity === 'number' && minSimilarity > -1 && minSimilarity < 1)) {
-    throw new UsageError(`minSimilarity must be a number between -1 and 1; got ${show(minSimilarity)}`, 'minSimilarity');
-  }
-  if (groupsRaw !== undefined && groupsRaw !== 'auto') {
-    resolveKMeansOptions({ ...kmRest, groups: groupsRaw as number }, Infinity);
-  }
-  const kmeansFull = resolveKMeansOptions({ ...kmRest, groups: 2 }, Infinity);
-  const { groups: _unused, ...kmeans } = kmeansFull;
-  const method = options.method ?? 'kmeans';
-  if (!METHODS.includes(method)) {
-    throw new UsageError(`method must be one of ${METHODS.join(', ')}; got ${show(method)}`, 'method');
-  }
-  const c = { ...DEFAULT_CHOOSE_OPTIONS, ...stripUndefined(options.choose ?? {}) };
-  const [lo, hi] = c.range;
-  if (!Number.isInteger(lo) || !Number.isInteger(hi) || lo < 2 || hi < lo) {
-    throw new UsageError(`range must be two whole numbers from 2 up, the first not above the second (like 4..40); got ${show(c.range)}`, 'range');
-  }
-  if (!Number.isInteger(c.sampleSize) || c.sampleSize < 2) {
-    throw new UsageError(`sampleSize must be a whole number >= 2; got ${show(c.sampleSize)}`, 'sampleSize');
-  }
-  if (c.overGroups !== null && (!Number.isInteger(c.overGroups) || c.overGroups < hi)) {
-    throw new UsageError(`overGroups must be a whole number no smaller than the range end (${hi}); got ${show(c.overGroups)}`, 'overGroups');
-  }
-  const tree = resolveTreeOptions(options.tree ?? {});
-  const label = resolveLabelOptions(options.label ?? {});
-  return {
-    groups: (groupsRaw ?? null) as number | 'auto' | null,
-    minSimilarity,
-    method,
-    choose: { range: [lo, hi], sampleSize: c.sampleSize, overGroups: c.overGroups },
-    analyzer,
-    vectorize,
-    kmeans,
-    tree,
-    label,
-  };
-}
+export type GroupResult = GroupResultCommon & MethodOutcome;
 
 /**
  * Groups documents: analyze, vectorize (TF-IDF, L2 rows), form groups
@@ -247,7 +109,7 @@ export async function groupDocumentsAsync(
  * step it needs and receives the results, so one body serves the sync and the
  * async drivers.
  */
-function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks): Generator<Step, GroupResult, KMeansResult | TfidfFit> {
+function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks): Generator<PipelineStep, GroupResult, StepReply> {
   const resolved = resolveGroupOptions(options);
   const { docs, inputOrder } = canonicalOrder(input);
   const now = hooks.now ?? (() => 0);
@@ -274,13 +136,12 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
 
   const empty = rowsWithoutEntries(matrix);
   const nonEmpty = n - empty.length;
-  if (typeof resolved.groups === 'number') resolveKMeansOptions({ ...resolved.kmeans, groups: resolved.groups }, nonEmpty);
-  else resolveKMeansOptions({ ...resolved.kmeans, groups: 2 }, nonEmpty);
+  const method = findMethod(resolved.method) as GroupingMethod<string, object>;
+  method.checkData?.(resolved, nonEmpty);
 
   const tForm = now();
-  const formed =
-    resolved.method === 'kmeans' ? yield* formByKMeans(matrix, nonEmpty, resolved, hooks) : formByDocumentTree(matrix, nonEmpty, resolved);
-  timings.push({ stage: resolved.method === 'kmeans' ? 'k-means' : 'agglomerative', ms: now() - tForm, items: nonEmpty });
+  const formed = yield* method.form({ matrix, nonEmpty, settings: resolved, hooks });
+  timings.push({ stage: method.stage, ms: now() - tForm, items: nonEmpty });
   const { partition } = formed;
   const k = partition.groups;
 
@@ -288,7 +149,7 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   const quality = time('quality', nonEmpty, () => ({
     cohesion: groupCohesion(matrix, partition.assignments, k, partition.centroids),
     separation: groupSeparation(partition.centroids, matrix.cols, k),
-    silhouette: sampledSilhouette(matrix, partition.assignments, k, { sampleSize: resolved.choose.sampleSize, seed: resolved.kmeans.seed }),
+    silhouette: sampledSilhouette(matrix, partition.assignments, k, { sampleSize: resolved.choose.sampleSize, seed: resolved.seed }),
   }));
 
   const groups = time('label', nonEmpty, () => {
@@ -300,151 +161,21 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   });
 
   return {
+    ...formed.outcome,
+    method: resolved.method,
     docs,
     inputOrder,
     options: resolved,
     vocabulary,
     matrix,
     partition,
-    kmeans: formed.kmeans,
     tree,
-    documentTree: formed.documentTree,
-    treeRows: formed.treeRows,
     choice: formed.choice,
     quality,
     groups,
     emptyRows: empty,
     timings,
-  };
-}
-
-interface Formed {
-  partition: Partition;
-  kmeans: KMeansResult | null;
-  documentTree: Dendrogram | null;
-  treeRows: Int32Array | null;
-  choice: GroupChoice | null;
-}
-
-function kmeansPartition(km: KMeansResult): Partition {
-  return { groups: km.groups, assignments: km.assignments, centroids: km.centroids, fit: km.fit, objective: km.objective };
-}
-
-/** Picks the cut with the best mean silhouette; ties go to fewer groups. */
-function bestCut(cuts: readonly { groups: number; mean: number }[]): number {
-  let best = -1;
-  let bestScore = -Infinity;
-  for (const c of cuts) {
-    if (Number.isFinite(c.mean) && c.mean > bestScore) {
-      bestScore = c.mean;
-      best = c.groups;
-    }
-  }
-  return best;
-}
-
-function cutRange(resolved: ResolvedGroupOptions, leaves: number): number[] {
-  const [lo, hi] = resolved.choose.range;
-  const top = Math.min(hi, leaves);
-  if (top < lo) {
-    throw new UsageError(`range starts at ${lo} groups but there are only ${leaves} to split into; lower the range`, 'range');
-  }
-  const cuts: number[] = [];
-  for (let c = lo; c <= top; c++) cuts.push(c);
-  return cuts;
-}
-
-function* formByKMeans(
-  matrix: Csr,
-  nonEmpty: number,
-  resolved: ResolvedGroupOptions,
-  hooks: PipelineHooks,
-): Generator<Step, Formed, KMeansResult | TfidfFit> {
-  function* run(groups: number, initialAssignments?: Int32Array): Generator<Step, KMeansResult, KMeansResult | TfidfFit> {
-    hooks.progress?.('group', 0, 1);
-    const km = (yield { kind: 'kmeans', matrix, options: { ...resolved.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) } }) as KMeansResult;
-    hooks.progress?.('group', 1, 1);
-    return km;
-  }
-  if (typeof resolved.groups === 'number') {
-    const km = yield* run(resolved.groups);
-    return { partition: kmeansPartition(km), kmeans: km, documentTree: null, treeRows: null, choice: null };
-  }
-  // Over-cluster, build the tree over those groups, cut it, then refine the cut with k-means.
-  const [, hi] = resolved.choose.range;
-  const over = Math.min(nonEmpty, resolved.choose.overGroups ?? Math.max(2 * hi, 40));
-  const first = yield* run(over);
-  const overTree = groupAverageLink(matrix, first.assignments, over);
-  let chosen: number;
-  let choice: GroupChoice;
-  let leafClusters: Int32Array;
-  if (resolved.minSimilarity !== null) {
-    leafClusters = cutAtSimilarity(overTree, resolved.minSimilarity);
-    chosen = countGroups(leafClusters);
-    choice = { by: 'similarity', chosen, treeLeaves: over, tried: [], sampled: 0 };
-  } else {
-    const cuts = cutRange(resolved, over);
-    const scored = silhouetteForCuts(matrix, first.assignments, overTree, cuts, {
-      sampleSize: resolved.choose.sampleSize,
-      seed: resolved.kmeans.seed,
-    });
-    chosen = bestCut(scored.cuts);
-    leafClusters = scored.cuts.find((c) => c.groups === chosen)?.leafClusters ?? cutToGroups(overTree, chosen);
-    choice = {
-      by: 'silhouette',
-      chosen,
-      treeLeaves: over,
-      tried: scored.cuts.map((c) => ({ groups: c.groups, silhouette: c.mean })),
-      sampled: scored.sampled,
-    };
-  }
-  if (chosen < 2) {
-    throw new UsageError(`minSimilarity ${resolved.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
-  }
-  // Refine the chosen cut: k-means started from the partition the cut gives (each row in its over-group's cluster).
-  const initial = first.assignments.map((g) => (g < 0 ? -1 : leafClusters[g]));
-  const km = yield* run(chosen, initial);
-  return { partition: kmeansPartition(km), kmeans: km, documentTree: null, treeRows: null, choice };
-}
-
-function countGroups(leafClusters: Int32Array): number {
-  let max = -1;
-  for (let i = 0; i < leafClusters.length; i++) if (leafClusters[i] > max) max = leafClusters[i];
-  return max + 1;
-}
-
-function formByDocumentTree(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOptions): Formed {
-  const rows = rowsWithEntries(matrix);
-  const sub = selectRows(matrix, rows);
-  const docTree = documentAverageLink(sub, resolved.tree);
-  let leafClusters: Int32Array;
-  let choice: GroupChoice | null = null;
-  if (typeof resolved.groups === 'number') {
-    leafClusters = cutToGroups(docTree, resolved.groups);
-  } else if (resolved.minSimilarity !== null) {
-    leafClusters = cutAtSimilarity(docTree, resolved.minSimilarity);
-    const chosen = countGroups(leafClusters);
-    if (chosen < 2) throw new UsageError(`minSimilarity ${resolved.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
-    choice = { by: 'similarity', chosen, treeLeaves: nonEmpty, tried: [], sampled: 0 };
-  } else {
-    const cuts = cutRange(resolved, nonEmpty);
-    const identity = Int32Array.from({ length: nonEmpty }, (_, i) => i);
-    const scored = silhouetteForCuts(sub, identity, docTree, cuts, { sampleSize: resolved.choose.sampleSize, seed: resolved.kmeans.seed });
-    const chosen = bestCut(scored.cuts);
-    leafClusters = cutToGroups(docTree, chosen);
-    choice = {
-      by: 'silhouette',
-      chosen,
-      treeLeaves: nonEmpty,
-      tried: scored.cuts.map((c) => ({ groups: c.groups, silhouette: c.mean })),
-      sampled: scored.sampled,
-    };
-  }
-  const k = countGroups(leafClusters);
-  const raw = new Int32Array(matrix.rows).fill(-1);
-  for (let i = 0; i < nonEmpty; i++) raw[rows[i]] = leafClusters[i];
-  const partition = partitionFromAssignments(matrix, canonicalGroups(raw, k), k);
-  return { partition, kmeans: null, documentTree: docTree, treeRows: rows, choice };
+  } as unknown as GroupResult;
 }
 
 /** Most documents re-read to find the surface words behind stemmed label terms. */
@@ -474,6 +205,3 @@ function readableLabels(
   return withDisplayForms(labels, display, options);
 }
 
-/** The work the pipeline hands to its driver: k-means runs and the analyze+vectorize step. */
-type Step = ({ readonly kind: 'kmeans' } & KMeansRequest) | ({ readonly kind: 'vectorize' } & VectorizeStep);
-type VectorizeStep = VectorizeRequest & { readonly analyzer: AnalyzerSettings };

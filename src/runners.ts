@@ -61,3 +61,11 @@ export function fitHere(req: VectorizeRequest): TfidfFit {
   }
   return fitTfidf(termLists(), req.vectorize);
 }
+
+/** The work the pipeline hands to its driver: k-means runs and the analyze+vectorize step. */
+export type PipelineStep =
+  | ({ readonly kind: 'kmeans' } & KMeansRequest)
+  | ({ readonly kind: 'vectorize' } & VectorizeRequest & { readonly analyzer: AnalyzerSettings });
+
+/** What the driver sends back for a {@link PipelineStep}. */
+export type StepReply = KMeansResult | TfidfFit;

@@ -21,7 +21,6 @@ import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
 import { availableParallelism } from 'node:os';
 import {
   documentsCsvChunks,
-  documentTreeNewick,
   evaluateLabels,
   evaluationJson,
   groupsJson,
@@ -40,6 +39,7 @@ import { reportFromRun } from '../report/report-from-run.js';
 import { UsageError } from '../util/errors.js';
 import { CLEAN_MODES, cleanDocuments, resolveCleanOptions, type CleanMode, type CleanReport } from '../clean/index.js';
 import type { Doc } from '../types.js';
+import { methodOf } from '../methods/index.js';
 
 /** Raw flag values as commander hands them over. */
 export interface GroupFlags {
@@ -294,8 +294,8 @@ export async function groupOptionsFromFlags(
     kmeans: {
       restarts: wholeNumber(flags.restarts, 'restarts'),
       maxIterations: wholeNumber(flags.maxIterations, 'maxIterations'),
-      seed: wholeNumber(flags.seed, 'seed'),
     },
+    seed: wholeNumber(flags.seed, 'seed'),
     label: { terms: wholeNumber(flags.terms, 'terms') },
   };
   try {
@@ -429,8 +429,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     files.set('tree.json', jsonText({ tree: groupsDoc.tree, groups: groupsDoc.groups.map((g) => ({ id: g.id, label: g.label, size: g.size })) }));
   }
   files.set('tree.nwk', treeNewick(result));
-  const docTree = documentTreeNewick(result);
-  if (docTree !== null) files.set('documents.nwk', docTree);
+  for (const [name, content] of methodOf(result).outputs(result, result.docs)) files.set(name, content);
   const timings: StageTiming[] = [
     { stage: 'read', ms: readMs, items: read.docs.length },
     ...result.timings,
@@ -522,7 +521,6 @@ interface RunJsonInput {
 /** `run.json`: settings, versions, input digests, what was skipped and why, choices, scores, stage timings. */
 function runJson(x: RunJsonInput): unknown {
   const { result, read } = x;
-  const km = result.kmeans;
   const o = result.options;
   return {
     tool: 'sheaf',
@@ -564,16 +562,7 @@ function runJson(x: RunJsonInput): unknown {
       silhouetteSampled: result.quality.silhouette.sampled,
       objective: round(result.partition.objective, 6),
     },
-    kmeans: km
-      ? {
-          groups: km.groups,
-          objective: round(km.objective, 6),
-          iterations: km.iterations,
-          converged: km.converged,
-          restartObjectives: Array.from(km.restartObjectives, (v) => round(v, 6)),
-          reseeded: km.reseeded,
-        }
-      : null,
+    ...methodOf(result).runRecord(result),
     evaluation: x.evaluation ? evaluationJson(x.evaluation) : null,
     cwd: x.cwd,
     // Documents read from files of their own (not export rows), so `sheaf organize` can sort the files.

@@ -9,6 +9,7 @@ import type { GroupResult } from '../pipeline.js';
 import type { Evaluation } from '../report/outputs.js';
 import { fixed } from '../report/csv.js';
 import { clip, renderTable } from './table.js';
+import { methodOf } from '../methods/index.js';
 
 /** The group table: id, size, name, cohesion, two exemplar titles. */
 export function groupTable(result: GroupResult, width: number): string[] {
@@ -79,13 +80,13 @@ export function choiceLines(result: GroupResult): string[] {
   if (!c) return [];
   if (c.by === 'similarity') {
     return [
-      `Cut the tree over ${c.treeLeaves} ${result.options.method === 'kmeans' ? 'groups' : 'documents'} where average similarity falls below ${result.options.minSimilarity}: ${c.chosen} groups.`,
+      `Cut the tree over ${c.treeLeaves} ${methodOf(result).leaves.short} where average similarity falls below ${result.options.minSimilarity}: ${c.chosen} groups.`,
     ];
   }
   const best = c.tried.find((t) => t.groups === c.chosen)?.silhouette ?? NaN;
   const lines = [
     `Chose ${c.chosen} groups: the highest mean silhouette (${fixed(best, 3)}, cosine, on ${c.sampled} sampled documents) ` +
-      `among the cuts of a tree over ${c.treeLeaves} ${result.options.method === 'kmeans' ? 'k-means groups' : 'documents'}:`,
+      `among the cuts of a tree over ${c.treeLeaves} ${methodOf(result).leaves.long}:`,
   ];
   const rows = c.tried.map((t) => [String(t.groups), Number.isFinite(t.silhouette) ? fixed(t.silhouette, 3) : '–', t.groups === c.chosen ? '◀ chosen' : '']);
   lines.push(...renderTable([{ heading: 'groups', align: 'right' }, { heading: 'silhouette', align: 'right' }, { heading: '' }], rows, 40));

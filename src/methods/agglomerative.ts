@@ -1,0 +1,82 @@
+/**
+ * Grouping method `agglomerative`: the exact document-level average-link tree
+ * (within a memory limit), cut at a number of groups, at a similarity, or at
+ * the cut with the best silhouette.
+ *
+ * @module
+ */
+import type { Csr } from '../types.js';
+import { resolveKMeansOptions } from '../cluster/kmeans.js';
+import { cutAtSimilarity, cutToGroups, documentAverageLink, type Dendrogram } from '../cluster/tree.js';
+import { silhouetteForCuts } from '../cluster/quality.js';
+import { canonicalGroups, partitionFromAssignments } from '../cluster/partition.js';
+import { toNewick } from '../cluster/newick.js';
+import { rowsWithEntries, selectRows } from '../util/csr.js';
+import { UsageError } from '../util/errors.js';
+import { bestCut, countGroups, cutRange, type GroupChoice, type MethodSettings } from './choose.js';
+import type { Formed, GroupingMethod } from './method.js';
+
+/** The fields method `agglomerative` adds to the result. */
+export interface AgglomerativeOutcome {
+  /** The document-level tree; leaf i is row `treeRows[i]`. */
+  readonly documentTree: Dendrogram;
+  /** The rows with terms, in the tree's leaf order. */
+  readonly treeRows: Int32Array;
+}
+
+/** Average-link (UPGMA) over the documents, cut into groups. */
+export const agglomerativeMethod: GroupingMethod<'agglomerative', AgglomerativeOutcome> = {
+  name: 'agglomerative',
+  title: 'average-link over documents',
+  stage: 'agglomerative',
+  leaves: { short: 'documents', long: 'documents' },
+  checkData(settings, nonEmpty) {
+    // The same bounds on the number of groups as k-means (2 … non-empty documents).
+    resolveKMeansOptions({ ...settings.kmeans, groups: typeof settings.groups === 'number' ? settings.groups : 2 }, nonEmpty);
+  },
+  // eslint-disable-next-line require-yield
+  *form({ matrix, nonEmpty, settings }) {
+    return formByDocumentTree(matrix, nonEmpty, settings);
+  },
+  runRecord() {
+    return {};
+  },
+  outputs({ documentTree, treeRows }, docs) {
+    // `documents.nwk`: the document-level tree in Newick, leaves named by document id.
+    return new Map([['documents.nwk', toNewick(documentTree, Array.from(treeRows, (r) => docs[r]!.id)) + '\n']]);
+  },
+};
+
+function formByDocumentTree(matrix: Csr, nonEmpty: number, settings: MethodSettings): Formed<AgglomerativeOutcome> {
+  const rows = rowsWithEntries(matrix);
+  const sub = selectRows(matrix, rows);
+  const docTree = documentAverageLink(sub, settings.tree);
+  let leafClusters: Int32Array;
+  let choice: GroupChoice | null = null;
+  if (typeof settings.groups === 'number') {
+    leafClusters = cutToGroups(docTree, settings.groups);
+  } else if (settings.minSimilarity !== null) {
+    leafClusters = cutAtSimilarity(docTree, settings.minSimilarity);
+    const chosen = countGroups(leafClusters);
+    if (chosen < 2) throw new UsageError(`minSimilarity ${settings.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
+    choice = { by: 'similarity', chosen, treeLeaves: nonEmpty, tried: [], sampled: 0 };
+  } else {
+    const cuts = cutRange(settings, nonEmpty);
+    const identity = Int32Array.from({ length: nonEmpty }, (_, i) => i);
+    const scored = silhouetteForCuts(sub, identity, docTree, cuts, { sampleSize: settings.choose.sampleSize, seed: settings.seed });
+    const chosen = bestCut(scored.cuts);
+    leafClusters = cutToGroups(docTree, chosen);
+    choice = {
+      by: 'silhouette',
+      chosen,
+      treeLeaves: nonEmpty,
+      tried: scored.cuts.map((c) => ({ groups: c.groups, silhouette: c.mean })),
+      sampled: scored.sampled,
+    };
+  }
+  const k = countGroups(leafClusters);
+  const raw = new Int32Array(matrix.rows).fill(-1);
+  for (let i = 0; i < nonEmpty; i++) raw[rows[i]!] = leafClusters[i]!;
+  const partition = partitionFromAssignments(matrix, canonicalGroups(raw, k), k);
+  return { partition, choice, outcome: { documentTree: docTree, treeRows: rows } };
+}

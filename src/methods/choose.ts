@@ -1,0 +1,85 @@
+/**
+ * What every grouping method shares: the settings a method reads, how the
+ * number of groups is chosen when it is not given (a cut of a tree by
+ * silhouette or by similarity), and the record of that choice.
+ *
+ * @module
+ */
+import type { KMeansOptions } from '../cluster/kmeans-types.js';
+import type { TreeOptions } from '../cluster/tree.js';
+import { UsageError } from '../util/errors.js';
+
+/** Settings for choosing the number of groups (`groups: 'auto'`). */
+export interface ChooseOptions {
+  /** Smallest and largest number of groups tried. */
+  readonly range: readonly [number, number];
+  /** Rows sampled for the silhouette (seeded; cost grows with its square, not with n²). */
+  readonly sampleSize: number;
+  /** Groups of the over-clustering whose tree is cut; null = max(2 × range end, 40), capped by the documents. */
+  readonly overGroups: number | null;
+}
+
+/** Defaults of {@link ChooseOptions}. */
+export const DEFAULT_CHOOSE_OPTIONS: Readonly<ChooseOptions> = Object.freeze({
+  range: Object.freeze([2, 20]) as readonly [number, number],
+  sampleSize: 2000,
+  overGroups: null,
+});
+
+/** The resolved settings a grouping method reads (a part of the pipeline's resolved options). */
+export interface MethodSettings {
+  /** A number of groups, `'auto'`, or null when `minSimilarity` is given. */
+  readonly groups: number | 'auto' | null;
+  readonly minSimilarity: number | null;
+  /** The run's seed: k-means seeding and every sample. */
+  readonly seed: number;
+  readonly choose: ChooseOptions;
+  /** k-means settings (their `seed` equals the run's seed). */
+  readonly kmeans: Omit<KMeansOptions, 'groups'>;
+  readonly tree: TreeOptions;
+}
+
+/** How the number of groups was chosen, when it was. */
+export interface GroupChoice {
+  /** `silhouette` for `groups: 'auto'`, `similarity` for `minSimilarity`. */
+  readonly by: 'silhouette' | 'similarity';
+  readonly chosen: number;
+  /** Leaves of the tree that was cut (over-clustering groups, or documents). */
+  readonly treeLeaves: number;
+  /** Mean silhouette of each cut tried (by silhouette only). */
+  readonly tried: readonly { readonly groups: number; readonly silhouette: number }[];
+  /** Rows in the silhouette sample. */
+  readonly sampled: number;
+}
+
+/** Picks the cut with the best mean silhouette; ties go to fewer groups. */
+export function bestCut(cuts: readonly { groups: number; mean: number }[]): number {
+  let best = -1;
+  let bestScore = -Infinity;
+  for (const c of cuts) {
+    if (Number.isFinite(c.mean) && c.mean > bestScore) {
+      bestScore = c.mean;
+      best = c.groups;
+    }
+  }
+  return best;
+}
+
+/** The numbers of groups tried: the range, capped by the leaves of the tree that is cut. */
+export function cutRange(settings: MethodSettings, leaves: number): number[] {
+  const [lo, hi] = settings.choose.range;
+  const top = Math.min(hi, leaves);
+  if (top < lo) {
+    throw new UsageError(`range starts at ${lo} groups but there are only ${leaves} to split into; lower the range`, 'range');
+  }
+  const cuts: number[] = [];
+  for (let c = lo; c <= top; c++) cuts.push(c);
+  return cuts;
+}
+
+/** Number of clusters in a cut (labels 0 … max). */
+export function countGroups(leafClusters: Int32Array): number {
+  let max = -1;
+  for (let i = 0; i < leafClusters.length; i++) if (leafClusters[i]! > max) max = leafClusters[i]!;
+  return max + 1;
+}
