@@ -72,7 +72,7 @@ export type GroupResult = GroupResultCommon & MethodOutcome;
  * exemplars. Throws {@link UsageError} for unusable settings or data (for
  * example more groups than non-empty documents).
  */
-export function groupDocuments(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks = {}): GroupResult {
+export function groupDocuments(input: readonly Doc[], options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks = {}): GroupResult {
   const steps = groupSteps(input, options, hooks);
   let next = steps.next();
   while (!next.done) {
@@ -90,7 +90,7 @@ export function groupDocuments(input: readonly Doc[], options: GroupOptions, hoo
  */
 export async function groupDocumentsAsync(
   input: readonly Doc[],
-  options: GroupOptions,
+  options: GroupOptions | ResolvedGroupOptions,
   runners: PipelineRunners,
   hooks: PipelineHooks = {},
 ): Promise<GroupResult> {
@@ -109,7 +109,7 @@ export async function groupDocumentsAsync(
  * step it needs and receives the results, so one body serves the sync and the
  * async drivers.
  */
-function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks): Generator<PipelineStep, GroupResult, StepReply> {
+function* groupSteps(input: readonly Doc[], options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks): Generator<PipelineStep, GroupResult, StepReply> {
   const resolved = resolveGroupOptions(options);
   const { docs, inputOrder } = canonicalOrder(input);
   const now = hooks.now ?? (() => 0);

@@ -14,7 +14,7 @@ import { progressReporter } from './progress.js';
 import { versions } from './versions.js';
 import { choiceLines, evaluationLines, groupTable, treeOutline } from './render.js';
 import { ingest, resolveIngestOptions, type IngestOptions, type IngestResult } from '../ingest/index.js';
-import { groupDocumentsAsync, resolveGroupOptions, type GroupOptions, type GroupResult, type StageTiming } from '../pipeline.js';
+import { groupDocumentsAsync, resolveGroupOptions, type GroupOptions, type GroupResult, type ResolvedGroupOptions, type StageTiming } from '../pipeline.js';
 import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
 import { kmeansRunner, vectorizeRunner } from '../parallel/runners.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
@@ -278,11 +278,16 @@ export async function analysisOptionsFromFlags(flags: GroupFlags, io: CliIo): Pr
   };
 }
 
-/** Turns flags into the library's option objects (validated here, before any reading). */
+/**
+ * Turns flags into the library's option objects, resolved here once, before
+ * any reading (the pipeline takes the resolved object as it is).
+ * `memoryLimitBytes` bounds a document-level tree's distance matrix.
+ */
 export async function groupOptionsFromFlags(
   flags: GroupFlags,
   io: CliIo,
-): Promise<{ ingest: IngestOptions; group: GroupOptions }> {
+  memoryLimitBytes?: number,
+): Promise<{ ingest: IngestOptions; group: ResolvedGroupOptions }> {
   const ingestOptions = ingestOptionsFromFlags(flags);
   const groups = flags.groups === undefined ? undefined : flags.groups.trim().toLowerCase() === 'auto' ? 'auto' : wholeNumber(flags.groups, 'groups');
   const group: GroupOptions = {
@@ -297,30 +302,15 @@ export async function groupOptionsFromFlags(
     },
     seed: wholeNumber(flags.seed, 'seed'),
     label: { terms: wholeNumber(flags.terms, 'terms') },
+    ...(memoryLimitBytes !== undefined ? { tree: { memoryLimitBytes } } : {}),
   };
-  try {
-    resolveGroupOptions(group);
-  } catch (err) {
-    // The library calls the sample size sampleSize; the flag is --sample.
-    if (err instanceof UsageError && err.option === 'sampleSize') {
-      throw new UsageError(err.message.replace(/^sampleSize/, 'sample'), 'sample');
-    }
-    throw err;
-  }
-  return { ingest: ingestOptions, group };
+  return { ingest: ingestOptions, group: resolveGroupOptions(group) };
 }
 
 /** Options of the near-copy search a grouping run adds with `--duplicates t` (the flag names the threshold). */
-function groupDuplicateOptions(value: string, group: GroupOptions): ReturnType<typeof resolveFindDuplicatesOptions> {
-  try {
-    // Diffs for the strongest sets feed the report.
-    return resolveFindDuplicatesOptions({ threshold: decimal(value, 'duplicates'), show: 50, analyzer: group.analyzer, vectorize: group.vectorize });
-  } catch (err) {
-    if (err instanceof UsageError && err.option === 'threshold') {
-      throw new UsageError(err.message.replace(/^threshold/, 'duplicates'), 'duplicates');
-    }
-    throw err;
-  }
+function groupDuplicateOptions(value: string, group: ResolvedGroupOptions): ReturnType<typeof resolveFindDuplicatesOptions> {
+  // Diffs for the strongest sets feed the report. (The flag of `threshold` here is --duplicates: see flag-names.ts.)
+  return resolveFindDuplicatesOptions({ threshold: decimal(value, 'duplicates'), show: 50, analyzer: group.analyzer, vectorize: group.vectorize });
 }
 
 /** Throws unless some document has the `--truth` column (checked before the heavy work). */
@@ -337,14 +327,13 @@ function assertTruthColumn(docs: readonly Doc[], field: string): void {
 async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command: 'group' | 'tree'): Promise<number> {
   const now = io.now ?? (() => performance.now());
   const startedAt = new Date();
-  const options = await groupOptionsFromFlags(flags, io);
-  const ingestOptions = options.ingest;
-  let group = options.group;
-  const threads = resolveParallelOptions({ threads: wholeNumber(flags.threads, 'threads') ?? Math.min(2, availableParallelism()) }).threads;
-  const dupOptions = command === 'group' && typeof flags.duplicates === 'string' ? groupDuplicateOptions(flags.duplicates, group) : null;
   const limit = memoryLimit(flags.memory);
   // A document-level tree may use the whole limit for its distance matrix.
-  group = { ...group, tree: { memoryLimitBytes: limit } };
+  const options = await groupOptionsFromFlags(flags, io, limit);
+  const ingestOptions = options.ingest;
+  const group = options.group;
+  const threads = resolveParallelOptions({ threads: wholeNumber(flags.threads, 'threads') ?? Math.min(2, availableParallelism()) }).threads;
+  const dupOptions = command === 'group' && typeof flags.duplicates === 'string' ? groupDuplicateOptions(flags.duplicates, group) : null;
   const outDir = path.resolve(io.cwd, flags.out);
   await assertReplaceable(outDir, flags.out);
   if (flags.saveVectors) await assertReplaceable(path.resolve(io.cwd, flags.saveVectors), flags.saveVectors);

@@ -41,6 +41,7 @@
 import type { Csr } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { stripUndefined } from '../util/options.js';
+import { checkKeys } from '../util/constraints.js';
 import { runBlock } from './kmeans-kernel.js';
 import { rowIsNonEmpty } from '../util/csr.js';
 import type { KMeansOptions, KMeansResult } from './kmeans-types.js';
@@ -85,18 +86,15 @@ export { MINI_BATCH_AUTO_ROWS };
 
 const MAX_SEED = 4294967295;
 
+/** The keys of {@link KMeansOptions}. */
+const KMEANS_KEYS: readonly string[] = ['groups', ...Object.keys(DEFAULT_KMEANS_OPTIONS), 'initialAssignments'];
+
 /**
- * Merges `partial` over {@link DEFAULT_KMEANS_OPTIONS} and validates once.
- * `nonEmptyRows` is the number of rows that take part (see
- * {@link countNonEmptyRows}); pass `Infinity` when it is not known yet, to
- * check everything except the upper bound on `groups`. The contents of
- * `initialAssignments` are checked against the data by {@link sphericalKMeans}
- * (see {@link planKMeans}). Throws {@link UsageError} naming the option.
+ * Throws {@link UsageError} unless `groups` is a whole number from 2 to
+ * `nonEmptyRows` (pass `Infinity` when the data is not known yet, to check
+ * only the lower bound).
  */
-export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRows: number): KMeansOptions {
-  const merged = { ...DEFAULT_KMEANS_OPTIONS, ...stripUndefined(partial) } as Partial<KMeansOptions>;
-  const { groups, restarts, maxIterations, seed, prune, miniBatch, batchSize, batchIterations, batchTolerance } = merged;
-  const { initialAssignments } = merged;
+export function checkGroupCount(groups: unknown, nonEmptyRows: number): asserts groups is number {
   const bounded = Number.isFinite(nonEmptyRows) && nonEmptyRows < Number.MAX_SAFE_INTEGER;
   if (bounded && nonEmptyRows < 2) {
     throw new UsageError(
@@ -110,6 +108,22 @@ export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRo
       : 'a whole number >= 2';
     throw new UsageError(`groups must be ${allowed}; got ${show(groups)}`, 'groups');
   }
+}
+
+/**
+ * Merges `partial` over {@link DEFAULT_KMEANS_OPTIONS} and validates once.
+ * `nonEmptyRows` is the number of rows that take part (see
+ * {@link countNonEmptyRows}); pass `Infinity` when it is not known yet, to
+ * check everything except the upper bound on `groups`. The contents of
+ * `initialAssignments` are checked against the data by {@link sphericalKMeans}
+ * (see {@link planKMeans}). Throws {@link UsageError} naming the option.
+ */
+export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRows: number): KMeansOptions {
+  const merged = { ...DEFAULT_KMEANS_OPTIONS, ...stripUndefined(partial) } as Partial<KMeansOptions>;
+  const { groups, restarts, maxIterations, seed, prune, miniBatch, batchSize, batchIterations, batchTolerance } = merged;
+  const { initialAssignments } = merged;
+  checkKeys(partial, KMEANS_KEYS);
+  checkGroupCount(groups, nonEmptyRows);
   if (!isWhole(restarts) || restarts < 1) {
     throw new UsageError(`restarts must be a whole number >= 1; got ${show(restarts)}`, 'restarts');
   }

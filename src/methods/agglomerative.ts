@@ -6,7 +6,7 @@
  * @module
  */
 import type { Csr } from '../types.js';
-import { resolveKMeansOptions } from '../cluster/kmeans.js';
+import { checkGroupCount } from '../cluster/kmeans.js';
 import { cutAtSimilarity, cutToGroups, documentAverageLink, type Dendrogram } from '../cluster/tree.js';
 import { silhouetteForCuts } from '../cluster/quality.js';
 import { canonicalGroups, partitionFromAssignments } from '../cluster/partition.js';
@@ -32,7 +32,7 @@ export const agglomerativeMethod: GroupingMethod<'agglomerative', AgglomerativeO
   leaves: { short: 'documents', long: 'documents' },
   checkData(settings, nonEmpty) {
     // The same bounds on the number of groups as k-means (2 … non-empty documents).
-    resolveKMeansOptions({ ...settings.kmeans, groups: typeof settings.groups === 'number' ? settings.groups : 2 }, nonEmpty);
+    checkGroupCount(typeof settings.groups === 'number' ? settings.groups : 2, nonEmpty);
   },
   // eslint-disable-next-line require-yield
   *form({ matrix, nonEmpty, settings }) {

@@ -6,7 +6,7 @@
  * @module
  */
 import type { Csr } from '../types.js';
-import { resolveKMeansOptions, type KMeansResult } from '../cluster/kmeans.js';
+import { checkGroupCount, type KMeansResult } from '../cluster/kmeans.js';
 import { cutAtSimilarity, cutToGroups, groupAverageLink } from '../cluster/tree.js';
 import { silhouetteForCuts } from '../cluster/quality.js';
 import type { Partition } from '../cluster/partition.js';
@@ -34,7 +34,7 @@ export const kmeansMethod: GroupingMethod<'kmeans', KMeansOutcome> = {
   stage: 'k-means',
   leaves: { short: 'groups', long: 'k-means groups' },
   checkData(settings, nonEmpty) {
-    resolveKMeansOptions({ ...settings.kmeans, groups: typeof settings.groups === 'number' ? settings.groups : 2 }, nonEmpty);
+    checkGroupCount(typeof settings.groups === 'number' ? settings.groups : 2, nonEmpty);
   },
   *form({ matrix, nonEmpty, settings, hooks }) {
     const { partition, kmeans, choice } = yield* formByKMeans(matrix, nonEmpty, settings, hooks);
