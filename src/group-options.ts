@@ -9,6 +9,8 @@ import { DEFAULT_VECTORIZE_OPTIONS, resolveVectorizeOptions, type VectorizeOptio
 import { DEFAULT_KMEANS_OPTIONS, checkGroupCount, resolveKMeansOptions, type KMeansOptions } from './cluster/kmeans.js';
 import { TREE_DEFAULTS, resolveTreeOptions, type TreeOptions } from './cluster/tree.js';
 import { DEFAULT_LABEL_OPTIONS, resolveLabelOptions, type LabelOptions } from './label/index.js';
+import { DEFAULT_CLEAN_OPTIONS } from './clean/options.js';
+import { resolveCleanStage, type CleanSettings, type CleanStageOptions } from './clean/stage.js';
 import { checkKeys, checkValues, type Constraint, type Constraints } from './util/constraints.js';
 import { DEFAULT_CHOOSE_OPTIONS, METHOD_NAMES, findMethod, type ChooseOptions, type GroupMethod, type MethodSettings } from './methods/index.js';
 import { stripUndefined } from './util/options.js';
@@ -25,6 +27,8 @@ export interface GroupOptions {
   /** Seed of every random choice (k-means seeding, samples); the same seed and input give the same output. Default 1. */
   readonly seed?: number;
   readonly choose?: Partial<Omit<ChooseOptions, 'range'>> & { readonly range?: readonly [number, number] };
+  /** Cleaning before analysis: `mode` `auto` (default: rows of exports), `tickets` (all) or `none`, and the rules. */
+  readonly clean?: CleanStageOptions;
   readonly analyzer?: Partial<AnalyzerOptions>;
   readonly vectorize?: Partial<VectorizeOptions>;
   /** k-means settings; `groups` here is accepted as the number of groups too. The seed is the top-level `seed`. */
@@ -36,17 +40,19 @@ export interface GroupOptions {
 /** Every stage's options after defaults were merged and values validated. */
 export interface ResolvedGroupOptions extends MethodSettings {
   readonly method: GroupMethod;
+  readonly clean: CleanSettings;
   readonly analyzer: AnalyzerSettings;
   readonly vectorize: VectorizeOptions;
   readonly label: LabelOptions;
 }
 
 /** Top-level keys of {@link GroupOptions}. */
-const GROUP_KEYS = ['groups', 'minSimilarity', 'method', 'seed', 'choose', 'analyzer', 'vectorize', 'kmeans', 'tree', 'label'] as const;
+const GROUP_KEYS = ['groups', 'minSimilarity', 'method', 'seed', 'choose', 'clean', 'analyzer', 'vectorize', 'kmeans', 'tree', 'label'] as const;
 
 /** Keys of each stage's options object, for the unknown-key check at the boundary. */
-const STAGE_KEYS: Readonly<Record<'choose' | 'analyzer' | 'vectorize' | 'kmeans' | 'tree' | 'label', readonly string[]>> = {
+const STAGE_KEYS: Readonly<Record<'choose' | 'clean' | 'analyzer' | 'vectorize' | 'kmeans' | 'tree' | 'label', readonly string[]>> = {
   choose: Object.keys(DEFAULT_CHOOSE_OPTIONS),
+  clean: Object.keys(DEFAULT_CLEAN_OPTIONS),
   analyzer: Object.keys(DEFAULT_ANALYZER_OPTIONS),
   vectorize: Object.keys(DEFAULT_VECTORIZE_OPTIONS),
   kmeans: ['groups', ...Object.keys(DEFAULT_KMEANS_OPTIONS).filter((k) => k !== 'seed')],
@@ -86,6 +92,7 @@ export function resolveGroupOptions(options: GroupOptions | ResolvedGroupOptions
   for (const stage of Object.keys(STAGE_KEYS) as (keyof typeof STAGE_KEYS)[]) {
     if (raw[stage] !== undefined) checkKeys(raw[stage], STAGE_KEYS[stage], stage);
   }
+  const clean = resolveCleanStage(raw.clean ?? {});
   const analyzer = resolveAnalyzerOptions(raw.analyzer ?? {});
   const vectorize = resolveVectorizeOptions(raw.vectorize ?? {});
   const { groups: kmGroups, ...kmRest } = raw.kmeans ?? {};
@@ -121,6 +128,7 @@ export function resolveGroupOptions(options: GroupOptions | ResolvedGroupOptions
     groups: (groupsRaw ?? null) as number | 'auto' | null,
     minSimilarity,
     method,
+    clean,
     seed,
     choose: { range: [lo, hi] as const, sampleSize: c.sampleSize, overGroups: c.overGroups },
     analyzer,

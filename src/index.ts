@@ -6,8 +6,8 @@
  * @example
  * ```ts
  * import { ingest, groupDocuments } from 'sheaf';
- * const { docs } = await ingest(['tickets.csv'], { text: ['body'] }, { cwd: process.cwd() });
- * const result = groupDocuments(docs, { kmeans: { groups: 8 } });
+ * const read = await ingest(['tickets.csv'], { text: ['body'] }, { cwd: process.cwd() });
+ * const result = groupDocuments(read, { groups: 8 });
  * for (const g of result.groups) console.log(g.id, g.size, g.label);
  * ```
  *
@@ -59,12 +59,14 @@ export {
   type PipelineHooks,
   type StageTiming,
   type GroupResultCommon,
+  type GroupInput,
   type PipelineRunners,
 } from './pipeline.js';
 export { METHODS, METHOD_NAMES, findMethod, methodOf, DEFAULT_CHOOSE_OPTIONS, type GroupMethod, type GroupingMethod, type MethodOutcome, type MethodInput, type Formed, type ChooseOptions, type GroupChoice, type MethodSettings } from './methods/index.js';
 export type { KMeansOutcome } from './methods/kmeans.js';
 export type { AgglomerativeOutcome } from './methods/agglomerative.js';
 export { ingest, resolveIngestOptions, DEFAULT_INGEST_OPTIONS, type IngestOptions, type IngestResult, type IngestIo, type InputDigest } from './ingest/index.js';
+export { cleanStage, resolveCleanStage, DEFAULT_CLEAN_STAGE, CLEAN_CHOICES, type CleanChoice, type CleanSettings, type CleanStageOptions, type DocumentInput } from './clean/stage.js';
 export { cleanDocuments, resolveCleanOptions, DEFAULT_CLEAN_OPTIONS, PLACEHOLDERS, type CleanOptions, type CleanReport, type CleanMode } from './clean/index.js';
 export { findDuplicates, nearCopiesOfVectors, resolveFindDuplicatesOptions, type FindDuplicatesOptions, type DuplicateRun, type CompareBy } from './near-copies.js';
 export { documentsCsv, groupsJson, treeNewick, evaluateLabels, type Evaluation } from './report/outputs.js';

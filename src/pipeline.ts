@@ -15,7 +15,8 @@ import { rowsWithoutEntries } from './util/csr.js';
 import { groupAverageLink, type Dendrogram } from './cluster/tree.js';
 import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
 import type { Partition } from './cluster/partition.js';
-import { PLACEHOLDERS } from './clean/index.js';
+import { PLACEHOLDERS, type CleanReport } from './clean/index.js';
+import { cleanStage, type DocumentInput } from './clean/stage.js';
 import { labelGroups, surfaceForms, withDisplayForms, type GroupLabel, type LabelOptions } from './label/index.js';
 import { findMethod, type GroupChoice, type GroupingMethod, type MethodOutcome } from './methods/index.js';
 import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
@@ -37,6 +38,9 @@ export interface GroupQuality {
   readonly silhouette: SilhouetteResult;
 }
 
+/** What {@link groupDocuments} takes: documents, or documents with their export-row flags (an `IngestResult` is one). */
+export type GroupInput = readonly Doc[] | DocumentInput;
+
 /** Everything a grouping run produced, whatever the method. */
 export interface GroupResultCommon {
   /** The documents in canonical order (by id, digits compared as numbers); row `r` of every array is `docs[r]`. */
@@ -44,6 +48,8 @@ export interface GroupResultCommon {
   /** Row of each document in the order it was given: `docs[inputOrder[i]]` is the i-th input document. */
   readonly inputOrder: Int32Array;
   readonly options: ResolvedGroupOptions;
+  /** What the cleaning stage did (the documents above are the cleaned ones). */
+  readonly clean: CleanReport;
   readonly vocabulary: Vocabulary;
   readonly matrix: Csr;
   /** The final groups: assignments, unit centroids, fits. */
@@ -72,7 +78,7 @@ export type GroupResult = GroupResultCommon & MethodOutcome;
  * exemplars. Throws {@link UsageError} for unusable settings or data (for
  * example more groups than non-empty documents).
  */
-export function groupDocuments(input: readonly Doc[], options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks = {}): GroupResult {
+export function groupDocuments(input: GroupInput, options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks = {}): GroupResult {
   const steps = groupSteps(input, options, hooks);
   let next = steps.next();
   while (!next.done) {
@@ -89,7 +95,7 @@ export function groupDocuments(input: readonly Doc[], options: GroupOptions | Re
  * identical.
  */
 export async function groupDocumentsAsync(
-  input: readonly Doc[],
+  input: GroupInput,
   options: GroupOptions | ResolvedGroupOptions,
   runners: PipelineRunners,
   hooks: PipelineHooks = {},
@@ -109,18 +115,20 @@ export async function groupDocumentsAsync(
  * step it needs and receives the results, so one body serves the sync and the
  * async drivers.
  */
-function* groupSteps(input: readonly Doc[], options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks): Generator<PipelineStep, GroupResult, StepReply> {
+function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks): Generator<PipelineStep, GroupResult, StepReply> {
   const resolved = resolveGroupOptions(options);
-  const { docs, inputOrder } = canonicalOrder(input);
   const now = hooks.now ?? (() => 0);
   const timings: StageTiming[] = [];
-  const n = docs.length;
   const time = <T>(stage: string, items: number, fn: () => T): T => {
     const t0 = now();
     const value = fn();
     timings.push({ stage, ms: now() - t0, items });
     return value;
   };
+  const given: DocumentInput = isDocList(input) ? { docs: input } : input;
+  const cleaned = time('clean', given.docs.length, () => cleanStage(given, resolved.clean));
+  const { docs, inputOrder } = canonicalOrder(cleaned.docs);
+  const n = docs.length;
 
   const analyzer = createAnalyzer(resolved.analyzer);
   const tFit = now();
@@ -166,6 +174,7 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions | ResolvedGrou
     docs,
     inputOrder,
     options: resolved,
+    clean: cleaned.report,
     vocabulary,
     matrix,
     partition,
@@ -205,3 +214,7 @@ function readableLabels(
   return withDisplayForms(labels, display, options);
 }
 
+
+function isDocList(input: GroupInput): input is readonly Doc[] {
+  return Array.isArray(input);
+}

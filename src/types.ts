@@ -17,6 +17,8 @@ export interface Doc {
   readonly text: string;
   /** An export's other columns, in their original order, so outputs join back to the user's rows. */
   readonly fields: ReadonlyMap<string, string>;
+  /** True when `title` is the text's first line (no title column or metadata): cleaning then retakes it from the first line that survives. */
+  readonly titleFromText?: boolean;
 }
 
 /**

@@ -17,7 +17,7 @@ describe('resolveGroupOptions refuses unknown keys', () => {
   it('at the top level', () => {
     expect(bad({ grups: 8 })).toThrow('unknown option grups; did you mean groups?');
     expect(bad({ groups: 8, colour: 'red' })).toThrow(
-      'unknown option colour; known: groups, minSimilarity, method, seed, choose, analyzer, vectorize, kmeans, tree, label',
+      'unknown option colour; known: groups, minSimilarity, method, seed, choose, clean, analyzer, vectorize, kmeans, tree, label',
     );
   });
 
@@ -59,7 +59,7 @@ describe('constraint helper', () => {
     };
     expect(() => checkValues({ a: 6, b: 'x', c: true, d: 0 }, c)).toThrow('a must be a whole number from 1 to 5; got 6');
     expect(() => checkValues({ a: 1, b: 'z', c: true, d: 0 }, c)).toThrow('b must be one of x, y; got "z"');
-    expect(() => checkValues({ a: 1, b: 'x', c: 1, d: 0 }, c)).toThrow('c must be true or false; got 1');
+    expect(() => checkValues({ a: 1, b: 'x', c: 1 as unknown as boolean, d: 0 }, c)).toThrow('c must be true or false; got 1');
     expect(() => checkValues({ a: 1, b: 'x', c: false, d: Number.NaN }, c)).toThrow('d must be a number >= 0; got NaN');
     expect(() => checkValues({ a: 1, b: 'y', c: false, d: 2 }, c)).not.toThrow();
   });

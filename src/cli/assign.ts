@@ -11,7 +11,8 @@ import type { CliIo } from './io.js';
 import { decimal } from './parse.js';
 import { versions } from './versions.js';
 import { renderTable } from './table.js';
-import { addInputFlags, ingestOptionsFromFlags, readInputs, readingRecord, type GroupFlags } from './group.js';
+import { addInputFlags, cleanModeFromFlags, cleaningNotes, ingestOptionsFromFlags, readInputs, readingRecord, type GroupFlags } from './group.js';
+import { resolveCleanStage } from '../clean/stage.js';
 import { modelFromJson, type Model } from '../model/index.js';
 import { applyModel, type ModelApplication } from '../model/apply.js';
 import { csvText, fixed } from '../report/csv.js';
@@ -86,9 +87,12 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(line + '\n');
   };
-  const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
-  const a = applyModel(model, docs, minFit);
-  for (const line of notes) note(line);
+  const { read, notes } = await readInputs(inputs, ingestOptions, flags, io, note, null);
+  // The model's cleaning unless --clean says otherwise.
+  const mode = cleanModeFromFlags(flags);
+  const a = applyModel(model, read, minFit, mode === null ? model.cleaning : resolveCleanStage({ ...model.cleaning.rules, mode }));
+  const clean = a.clean;
+  for (const line of [...notes, ...cleaningNotes(clean)]) note(line);
   const unmatched = a.unmatched.reduce((x, v) => x + v, 0);
   const counts = {
     documents: a.docs.length,

@@ -37,7 +37,8 @@ import { modelToJson } from '../model/index.js';
 import { renderReport } from '../report/html.js';
 import { reportFromRun } from '../report/report-from-run.js';
 import { UsageError } from '../util/errors.js';
-import { CLEAN_MODES, cleanDocuments, resolveCleanOptions, type CleanMode, type CleanReport } from '../clean/index.js';
+import { CLEAN_MODES, resolveCleanOptions, type CleanMode, type CleanReport } from '../clean/index.js';
+import { cleanStage, resolveCleanStage, type CleanSettings } from '../clean/stage.js';
 import type { Doc } from '../types.js';
 import { methodOf } from '../methods/index.js';
 
@@ -104,12 +105,13 @@ export interface ReadInputs {
   /** Summary notes (decoding, truncation, cleaning) for the caller to show once the run has succeeded. */
   readonly notes: readonly string[];
   readonly read: IngestResult;
-  readonly docs: Doc[];
-  readonly clean: CleanReport;
+  readonly docs: readonly Doc[];
+  /** What cleaning did, or null when the caller cleans later (the grouping pipeline does). */
+  readonly clean: CleanReport | null;
 }
 
 /** The cleaning mode from `--clean` (validated), or null for the default. */
-function cleanModeFromFlags(flags: GroupFlags): CleanMode | null {
+export function cleanModeFromFlags(flags: GroupFlags): CleanMode | null {
   if (flags.clean === undefined) return null;
   if (!(CLEAN_MODES as readonly string[]).includes(flags.clean)) {
     throw new UsageError(`clean must be one of ${CLEAN_MODES.join(', ')}; got ${JSON.stringify(flags.clean)}`, 'clean');
@@ -127,8 +129,8 @@ export async function readInputs(
   flags: GroupFlags,
   io: CliIo,
   note: (line: string) => void,
+  clean: CleanSettings | null = resolveCleanStage({ mode: cleanModeFromFlags(flags) ?? 'auto' }),
 ): Promise<ReadInputs> {
-  const mode = cleanModeFromFlags(flags);
   const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
   reportSkips(read.skipped, read.warnings, note);
   const notes: string[] = [];
@@ -137,15 +139,19 @@ export async function readInputs(
     notes.push(`sheaf: note: ${read.decoding.length} file(s) not in plain UTF-8 were decoded${replaced ? ` (${replaced} with damaged characters replaced)` : ''}; see decoding in run.json`);
   }
   if (read.truncated.length > 0) notes.push(`sheaf: note: ${read.truncated.length} document(s) longer than --max-bytes were cut; see truncated in run.json`);
-  const cleaned = mode === null ? cleanDocuments(read.docs, { mode: 'tickets' }, read.exportRows) : cleanDocuments(read.docs, { mode });
-  const r = cleaned.report;
-  if (r.changed > 0 && r.charsBefore > 0) {
-    notes.push(
-      `sheaf: note: cleaning removed ${Math.round((100 * (r.charsBefore - r.charsAfter)) / r.charsBefore)}% of the text ` +
-        `(quoted replies, signatures, greetings, ${r.boilerplate.found} boilerplate line(s)) from ${r.changed} document(s); --clean none keeps it`,
-    );
-  }
-  return { notes, read, docs: cleaned.docs, clean: r };
+  if (clean === null) return { notes, read, docs: read.docs, clean: null };
+  const cleaned = cleanStage(read, clean);
+  notes.push(...cleaningNotes(cleaned.report));
+  return { notes, read, docs: cleaned.docs, clean: cleaned.report };
+}
+
+/** The note on what cleaning removed, when it removed anything. */
+export function cleaningNotes(r: CleanReport): string[] {
+  if (!(r.changed > 0 && r.charsBefore > 0)) return [];
+  return [
+    `sheaf: note: cleaning removed ${Math.round((100 * (r.charsBefore - r.charsAfter)) / r.charsBefore)}% of the text ` +
+      `(quoted replies, signatures, greetings, ${r.boilerplate.found} boilerplate line(s)) from ${r.changed} document(s); --clean none keeps it`,
+  ];
 }
 
 /** Adds the flags that set up the analyzer and the vocabulary. */
@@ -301,6 +307,7 @@ export async function groupOptionsFromFlags(
       maxIterations: wholeNumber(flags.maxIterations, 'maxIterations'),
     },
     seed: wholeNumber(flags.seed, 'seed'),
+    clean: { mode: cleanModeFromFlags(flags) ?? 'auto' },
     label: { terms: wholeNumber(flags.terms, 'terms') },
     ...(memoryLimitBytes !== undefined ? { tree: { memoryLimitBytes } } : {}),
   };
@@ -344,7 +351,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     if (!flags.quiet) io.stderr.write(line + '\n');
   };
   const t0 = now();
-  const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
+  const { read, docs, notes } = await readInputs(inputs, ingestOptions, flags, io, note, null);
   const readMs = now() - t0;
   checkMemory(docs.reduce((a, d) => a + d.text.length, 0), limit, `the text read (${docs.length} documents)`);
   if (flags.truth) assertTruthColumn(docs, flags.truth);
@@ -352,7 +359,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const progress = progressReporter(io, flags.quiet ?? false);
   let result: GroupResult;
   try {
-    result = await groupDocumentsAsync(docs, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t) });
+    result = await groupDocumentsAsync({ docs, exportRows: read.exportRows }, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t) });
   } finally {
     progress.done();
   }
@@ -363,7 +370,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
         Array.from(result.partition.assignments, (g) => (g >= 0 ? String(g) : '')),
       )
     : null;
-  for (const line of notes) note(line);
+  for (const line of [...notes, ...cleaningNotes(result.clean)]) note(line);
   if (result.emptyRows.length > 0) {
     note(
       `sheaf: note: ${result.emptyRows.length} document(s) have no terms after analysis; they are in no group ` +
@@ -391,6 +398,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
       'model.json',
       modelToJson({
         createdBy: `sheaf ${versions().sheaf}`,
+        cleaning: result.options.clean,
         analyzer: result.options.analyzer,
         vocabulary: result.vocabulary,
         groups: result.partition.groups,
@@ -425,7 +433,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     ...(near ? [{ stage: 'near-duplicates', ms: dupMs, items: read.docs.length }] : []),
     { stage: 'write', ms: now() - tw, items: read.docs.length },
   ];
-  files.set('run.json', jsonText(runJson({ threads, command, cwd: io.cwd, flags, ingestOptions, result, read, clean, evaluation, timings, startedAt, finishedAt: new Date() })));
+  files.set('run.json', jsonText(runJson({ threads, command, cwd: io.cwd, flags, ingestOptions, result, read, clean: result.clean, evaluation, timings, startedAt, finishedAt: new Date() })));
   const written = await writeOutputFolder(outDir, files);
   const shownWritten = written.map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
@@ -473,7 +481,7 @@ function fileDocuments(docs: readonly Doc[], read: IngestResult): Doc[] {
 }
 
 /** What reading and cleaning did, for run.json. */
-export function readingRecord(read: IngestResult, clean: CleanReport): Record<string, unknown> {
+export function readingRecord(read: IngestResult, clean: CleanReport | null): Record<string, unknown> {
   return {
     decoding: read.decoding,
     truncated: read.truncated,
