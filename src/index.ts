@@ -71,6 +71,10 @@ export { cleanDocuments, resolveCleanOptions, DEFAULT_CLEAN_OPTIONS, PLACEHOLDER
 export { findDuplicates, nearCopiesOfVectors, resolveFindDuplicatesOptions, type FindDuplicatesOptions, type DuplicateRun, type CompareBy } from './near-copies.js';
 export { documentsCsv, groupsJson, treeNewick, evaluateLabels, type Evaluation } from './report/outputs.js';
 export { duplicatesCsv, duplicatesJson } from './report/duplicates.js';
+export { groupOutputs, groupSummaryJson, vectorFiles, type GroupOutputOptions, type GroupNearCopies } from './report/group-outputs.js';
+export { groupRunJson, duplicatesRunJson, assignRunJson, assignCounts, readingRecord, timingRecord, type RunContext, type GroupRunInput } from './report/run-record.js';
+export { assignedCsv } from './report/assigned.js';
+export { modelSourceOf, modelJsonOf } from './model/source.js';
 export { renderReport } from './report/html.js';
 export { reportFromRun } from './report/report-from-run.js';
 export type { ReportData } from './report/report-data.js';
