@@ -6,14 +6,13 @@
  * @module
  */
 import type { Csr } from '../types.js';
-import { checkGroupCount } from '../cluster/kmeans.js';
 import { cutAtSimilarity, cutToGroups, documentAverageLink, type Dendrogram } from '../cluster/tree.js';
 import { silhouetteForCuts } from '../cluster/quality.js';
 import { canonicalGroups, partitionFromAssignments } from '../cluster/partition.js';
 import { toNewick } from '../cluster/newick.js';
 import { rowsWithEntries, selectRows } from '../util/csr.js';
 import { UsageError } from '../util/errors.js';
-import { bestCut, countGroups, cutRange, type GroupChoice, type MethodSettings } from './choose.js';
+import { bestCut, checkGroupsFit, countGroups, cutRange, type GroupChoice, type MethodSettings } from './choose.js';
 import type { Formed, GroupingMethod } from './method.js';
 
 /** The fields method `agglomerative` adds to the result. */
@@ -30,10 +29,7 @@ export const agglomerativeMethod: GroupingMethod<'agglomerative', AgglomerativeO
   title: 'average-link over documents',
   stage: 'agglomerative',
   leaves: { short: 'documents', long: 'documents' },
-  checkData(settings, nonEmpty) {
-    // The same bounds on the number of groups as k-means (2 … non-empty documents).
-    checkGroupCount(typeof settings.groups === 'number' ? settings.groups : 2, nonEmpty);
-  },
+  checkData: checkGroupsFit,
   // eslint-disable-next-line require-yield
   *form({ matrix, nonEmpty, settings }) {
     return formByDocumentTree(matrix, nonEmpty, settings);

@@ -8,6 +8,7 @@
 import type { KMeansOptions } from '../cluster/kmeans-types.js';
 import type { TreeOptions } from '../cluster/tree.js';
 import { UsageError } from '../util/errors.js';
+import { checkGroupCount } from '../cluster/kmeans.js';
 
 /** Settings for choosing the number of groups (`groups: 'auto'`). */
 export interface ChooseOptions {
@@ -82,4 +83,9 @@ export function countGroups(leafClusters: Int32Array): number {
   let max = -1;
   for (let i = 0; i < leafClusters.length; i++) if (leafClusters[i]! > max) max = leafClusters[i]!;
   return max + 1;
+}
+
+/** The usual data check of a method: a given number of groups from 2 to the documents with terms (and at least 2 of those). */
+export function checkGroupsFit(settings: MethodSettings, nonEmpty: number): void {
+  checkGroupCount(typeof settings.groups === 'number' ? settings.groups : 2, nonEmpty);
 }

@@ -6,7 +6,7 @@
  * @module
  */
 import type { Csr } from '../types.js';
-import { checkGroupCount, type KMeansResult } from '../cluster/kmeans.js';
+import type { KMeansResult } from '../cluster/kmeans.js';
 import { cutAtSimilarity, cutToGroups, groupAverageLink } from '../cluster/tree.js';
 import { silhouetteForCuts } from '../cluster/quality.js';
 import type { Partition } from '../cluster/partition.js';
@@ -14,7 +14,7 @@ import type { PipelineHooks } from '../types.js';
 import type { PipelineStep, StepReply } from '../runners.js';
 import { UsageError } from '../util/errors.js';
 import { round } from '../util/round.js';
-import { bestCut, countGroups, cutRange, type GroupChoice, type MethodSettings } from './choose.js';
+import { bestCut, checkGroupsFit, countGroups, cutRange, type GroupChoice, type MethodSettings } from './choose.js';
 import type { GroupingMethod } from './method.js';
 
 /** The fields method `kmeans` adds to the result. */
@@ -33,9 +33,7 @@ export const kmeansMethod: GroupingMethod<'kmeans', KMeansOutcome> = {
   title: 'spherical k-means',
   stage: 'k-means',
   leaves: { short: 'groups', long: 'k-means groups' },
-  checkData(settings, nonEmpty) {
-    checkGroupCount(typeof settings.groups === 'number' ? settings.groups : 2, nonEmpty);
-  },
+  checkData: checkGroupsFit,
   *form({ matrix, nonEmpty, settings, hooks }) {
     const { partition, kmeans, choice } = yield* formByKMeans(matrix, nonEmpty, settings, hooks);
     return { partition, choice, outcome: { kmeans } };
