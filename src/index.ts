@@ -6,8 +6,8 @@
  * @example
  * ```ts
  * import { ingest, groupDocuments } from 'sheaf';
- * const { docs } = await ingest(['tickets.csv'], { text: ['body'] }, { cwd: process.cwd() });
- * const result = groupDocuments(docs, { kmeans: { groups: 8 } });
+ * const read = await ingest(['tickets.csv'], { text: ['body'] }, { cwd: process.cwd() });
+ * const result = groupDocuments(read, { groups: 8 });
  * for (const g of result.groups) console.log(g.id, g.size, g.label);
  * ```
  *
@@ -43,7 +43,7 @@ export * from './label/index.js';
 export * from './evaluate/index.js';
 export * from './model/index.js';
 export { applyModel, type ModelApplication } from './model/apply.js';
-export { kmeansRunner, PARALLEL_MIN_ROWS } from './parallel/runner.js';
+export { kmeansRunner, vectorizeRunner, PARALLEL_MIN_ROWS, PARALLEL_ANALYZE_MIN_CHARS } from './parallel/runners.js';
 export { sphericalKMeansParallel, resolveParallelOptions, type ParallelOptions } from './parallel/kmeans-parallel.js';
 export {
   groupDocuments,
@@ -58,12 +58,23 @@ export {
   type ResolvedGroupOptions,
   type PipelineHooks,
   type StageTiming,
+  type GroupResultCommon,
+  type GroupInput,
+  type PipelineRunners,
 } from './pipeline.js';
+export { METHODS, METHOD_NAMES, findMethod, methodOf, DEFAULT_CHOOSE_OPTIONS, type GroupMethod, type GroupingMethod, type MethodOutcome, type MethodInput, type Formed, type ChooseOptions, type GroupChoice, type MethodSettings } from './methods/index.js';
+export type { KMeansOutcome } from './methods/kmeans.js';
+export type { AgglomerativeOutcome } from './methods/agglomerative.js';
 export { ingest, resolveIngestOptions, DEFAULT_INGEST_OPTIONS, type IngestOptions, type IngestResult, type IngestIo, type InputDigest } from './ingest/index.js';
+export { cleanStage, resolveCleanStage, DEFAULT_CLEAN_STAGE, CLEAN_CHOICES, type CleanChoice, type CleanSettings, type CleanStageOptions, type DocumentInput } from './clean/stage.js';
 export { cleanDocuments, resolveCleanOptions, DEFAULT_CLEAN_OPTIONS, PLACEHOLDERS, type CleanOptions, type CleanReport, type CleanMode } from './clean/index.js';
 export { findDuplicates, nearCopiesOfVectors, resolveFindDuplicatesOptions, type FindDuplicatesOptions, type DuplicateRun, type CompareBy } from './near-copies.js';
 export { documentsCsv, groupsJson, treeNewick, evaluateLabels, type Evaluation } from './report/outputs.js';
 export { duplicatesCsv, duplicatesJson, duplicatesJsonChunks, nearCopyPairsCsvChunks, listedPairs, PAIRS_FILE, OTHER_PAIRS_PER_SET } from './report/duplicates.js';
+export { groupOutputs, groupSummaryJson, vectorFiles, type GroupOutputOptions, type GroupNearCopies } from './report/group-outputs.js';
+export { groupRunJson, duplicatesRunJson, assignRunJson, assignCounts, readingRecord, timingRecord, type RunContext, type GroupRunInput } from './report/run-record.js';
+export { assignedCsv } from './report/assigned.js';
+export { modelSourceOf, modelJsonOf } from './model/source.js';
 export { renderReport } from './report/html.js';
 export { reportFromRun } from './report/report-from-run.js';
 export type { ReportData } from './report/report-data.js';

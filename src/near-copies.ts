@@ -23,7 +23,9 @@ import {
   type DuplicatesOptions,
   type SimilarPairs,
 } from './duplicates/index.js';
-import { canonicalOrder, selectRows, type PipelineHooks, type StageTiming } from './pipeline.js';
+import type { PipelineHooks, StageTiming } from './types.js';
+import { canonicalOrder } from './util/id-order.js';
+import { selectRows } from './util/csr.js';
 import { UsageError, show } from './util/errors.js';
 
 /** What two documents are compared by. */
@@ -69,6 +71,8 @@ export interface DuplicateRun {
   readonly options: ResolvedFindDuplicates;
   /** The vectors compared (TF-IDF rows, or binary shingle rows). */
   readonly matrix: Csr;
+  /** The matrix's columns: the terms with `by: 'tfidf'`; null for shingles (their columns are ids of word runs). */
+  readonly columns: readonly string[] | null;
   /** Every pair at or above the threshold, a < b. */
   readonly pairs: SimilarPairs;
   readonly sets: readonly DuplicateSet[];
@@ -138,14 +142,17 @@ export function findDuplicates(input: readonly Doc[], options: FindDuplicatesOpt
   const n = docs.length;
   let t0 = now();
   let matrix: Csr;
+  let columns: readonly string[] | null = null;
   if (o.by === 'tfidf') {
     const analyzer = createAnalyzer(o.analyzer);
-    matrix = fitTfidf(
+    const fit = fitTfidf(
       (function* () {
         for (const d of docs) yield analyzer.analyze(d.text);
       })(),
       o.vectorize,
-    ).matrix;
+    );
+    matrix = fit.matrix;
+    columns = fit.vocabulary.terms;
   } else {
     matrix = shingleMatrix(
       (function* () {
@@ -159,7 +166,7 @@ export function findDuplicates(input: readonly Doc[], options: FindDuplicatesOpt
   t0 = now();
   const found = nearCopiesOfVectors(docs, matrix, o);
   timings.push({ stage: 'join+sets', ms: now() - t0, items: n });
-  return { docs, inputOrder, options: o, matrix, ...found, timings };
+  return { docs, inputOrder, options: o, matrix, columns, ...found, timings };
 }
 
 /**

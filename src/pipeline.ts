@@ -6,128 +6,29 @@
  *
  * @module
  */
-import type { Csr, Doc } from './types.js';
-import { createAnalyzer, resolveAnalyzerOptions, type AnalyzerOptions, type AnalyzerSettings } from './analyze/index.js';
-import type { VectorizeRequest, VectorizeRunner } from './parallel/analyze-runner.js';
-import {
-  fitTfidf,
-  type TfidfFit,
-  resolveVectorizeOptions,
-  type VectorizeOptions,
-  type Vocabulary,
-} from './vectorize/index.js';
-import { resolveKMeansOptions, sphericalKMeans, type KMeansOptions, type KMeansResult } from './cluster/kmeans.js';
-import {
-  cutAtSimilarity,
-  cutToGroups,
-  documentAverageLink,
-  groupAverageLink,
-  resolveTreeOptions,
-  type Dendrogram,
-  type TreeOptions,
-} from './cluster/tree.js';
+import type { Csr, Doc, PipelineHooks, StageTiming } from './types.js';
+import { createAnalyzer } from './analyze/index.js';
+import type { TfidfFit, Vocabulary } from './vectorize/index.js';
+import { fitHere, kmeansHere, type PipelineRunners, type PipelineStep, type StepReply } from './runners.js';
+import { canonicalOrder } from './util/id-order.js';
+import { rowsWithoutEntries } from './util/csr.js';
+import { groupAverageLink, type Dendrogram } from './cluster/tree.js';
 import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
-import { refineGroups, resolveRefineOptions, type RefineOptions } from './cluster/unsorted.js';
-import { chooseFromTree, type CutChoice, type CutScore, type TreeChoice } from './cluster/choose.js';
-import { canonicalGroups, partitionFromAssignments, type Partition } from './cluster/partition.js';
-import { stripUndefined } from './util/options.js';
-import { PLACEHOLDERS } from './clean/index.js';
-import {
-  labelGroups,
-  resolveLabelOptions,
-  surfaceForms,
-  withDisplayForms,
-  type GroupLabel,
-  type LabelOptions,
-} from './label/index.js';
-import { UsageError, show } from './util/errors.js';
+import type { Partition } from './cluster/partition.js';
+import { PLACEHOLDERS, type CleanReport } from './clean/index.js';
+import { cleanStage, type DocumentInput } from './clean/stage.js';
+import { labelGroups, surfaceForms, withDisplayForms, type GroupLabel, type LabelOptions } from './label/index.js';
+import { findMethod, type GroupChoice, type GroupingMethod, type MethodOutcome } from './methods/index.js';
+import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
+import { refineGroups } from './cluster/unsorted.js';
 import { guardNames, nameStopwords } from './label/names.js';
 
-/** How groups are formed. */
-export type GroupMethod = 'kmeans' | 'agglomerative';
-
-/** Settings for choosing the number of groups (`groups: 'auto'`). */
-export interface ChooseOptions {
-  /** Smallest and largest number of groups tried. */
-  readonly range: readonly [number, number];
-  /** Rows sampled for the silhouette (seeded; cost grows with its square, not with n²). */
-  readonly sampleSize: number;
-  /** Groups of the over-clustering whose tree is cut; null = max(2 × range end, 40), capped by the documents. */
-  readonly overGroups: number | null;
-}
-
-/** Defaults of {@link ChooseOptions}. */
-export const DEFAULT_CHOOSE_OPTIONS: Readonly<ChooseOptions> = Object.freeze({
-  range: Object.freeze([2, 20]) as readonly [number, number],
-  sampleSize: 2000,
-  overGroups: null,
-});
-
-/** Options for {@link groupDocuments}, one object per stage. */
-export interface GroupOptions {
-  /** A number of groups, or `'auto'` to choose one at the knee of the objective over the tree's cuts. Not with `minSimilarity`. */
-  readonly groups?: number | 'auto';
-  /** Cut the tree where average similarity drops below this, instead of giving `groups`. */
-  readonly minSimilarity?: number;
-  /** `kmeans` (default; any size) or `agglomerative` (document-level average-link, within a memory limit). */
-  readonly method?: GroupMethod;
-  readonly choose?: Partial<Omit<ChooseOptions, 'range'>> & { readonly range?: readonly [number, number] };
-  readonly analyzer?: Partial<AnalyzerOptions>;
-  readonly vectorize?: Partial<VectorizeOptions>;
-  /** k-means settings; `groups` here is accepted as the number of groups too. */
-  readonly kmeans?: Partial<Omit<KMeansOptions, 'groups'>> & { readonly groups?: number | 'auto' };
-  readonly tree?: Partial<TreeOptions>;
-  readonly label?: Partial<LabelOptions>;
-  /** Unsorted share, mixed groups and their splitting (cluster/unsorted.ts). */
-  readonly refine?: Partial<RefineOptions>;
-}
-
-/** Every stage's options after defaults were merged and values validated. */
-export interface ResolvedGroupOptions {
-  readonly groups: number | 'auto' | null;
-  readonly minSimilarity: number | null;
-  readonly method: GroupMethod;
-  readonly choose: ChooseOptions;
-  readonly analyzer: AnalyzerSettings;
-  readonly vectorize: VectorizeOptions;
-  readonly kmeans: Omit<KMeansOptions, 'groups'>;
-  readonly tree: TreeOptions;
-  readonly label: LabelOptions;
-  readonly refine: RefineOptions;
-}
-
-/** Hooks the edges pass in; all optional. */
-export interface PipelineHooks {
-  /** Milliseconds from some fixed point (for stage timings). Without it, timings are 0. */
-  readonly now?: () => number;
-  /** Called as a stage makes progress. */
-  readonly progress?: (stage: string, done: number, total: number) => void;
-}
-
-/** Wall time of one stage. */
-export interface StageTiming {
-  readonly stage: string;
-  readonly ms: number;
-  /** How many documents the stage handled. */
-  readonly items: number;
-}
-
-/** How the number of groups was chosen, when it was. */
-export interface GroupChoice {
-  /** `knee` for `groups: 'auto'` (Kneedle on the objective of the tree's cuts, see cluster/choose.ts), `similarity` for `minSimilarity`. */
-  readonly by: 'knee' | 'similarity';
-  readonly chosen: number;
-  /** Leaves of the tree that was cut (over-clustering groups, or documents). */
-  readonly treeLeaves: number;
-  /** Scores of each cut tried (by knee only): objective, knee difference, silhouette. */
-  readonly tried: readonly CutScore[];
-  /** Rows in the silhouette sample. */
-  readonly sampled: number;
-  /** How the knee was taken (by knee only). */
-  readonly rule?: CutChoice['rule'];
-  /** Sentences for the person when the choice sits on an edge of the range or is unclear; empty otherwise. */
-  readonly warnings: readonly string[];
-}
+export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
+export type { PipelineHooks, StageTiming } from './types.js';
+export { canonicalOrder, compareIds } from './util/id-order.js';
+export { selectRows } from './util/csr.js';
+export { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
+export { METHODS, METHOD_NAMES, type GroupMethod, type GroupChoice, type ChooseOptions, DEFAULT_CHOOSE_OPTIONS } from './methods/index.js';
 
 /** Internal quality of the final grouping. */
 export interface GroupQuality {
@@ -139,24 +40,24 @@ export interface GroupQuality {
   readonly silhouette: SilhouetteResult;
 }
 
-/** Everything a grouping run produced. */
-export interface GroupResult {
+/** What {@link groupDocuments} takes: documents, or documents with their export-row flags (an `IngestResult` is one). */
+export type GroupInput = readonly Doc[] | DocumentInput;
+
+/** Everything a grouping run produced, whatever the method. */
+export interface GroupResultCommon {
   /** The documents in canonical order (by id, digits compared as numbers); row `r` of every array is `docs[r]`. */
   readonly docs: readonly Doc[];
   /** Row of each document in the order it was given: `docs[inputOrder[i]]` is the i-th input document. */
   readonly inputOrder: Int32Array;
   readonly options: ResolvedGroupOptions;
+  /** What the cleaning stage did (the documents above are the cleaned ones). */
+  readonly clean: CleanReport;
   readonly vocabulary: Vocabulary;
   readonly matrix: Csr;
   /** The final groups: assignments, unit centroids, fits. */
   readonly partition: Partition;
-  /** The final k-means run (method kmeans), or null. */
-  readonly kmeans: KMeansResult | null;
   /** Average-link tree over the final groups (leaf g = group g). */
   readonly tree: Dendrogram;
-  /** Method agglomerative: the document-level tree; leaf i is row `treeRows[i]`. */
-  readonly documentTree: Dendrogram | null;
-  readonly treeRows: Int32Array | null;
   readonly choice: GroupChoice | null;
   readonly quality: GroupQuality;
   readonly groups: readonly GroupLabel[];
@@ -169,63 +70,12 @@ export interface GroupResult {
   readonly timings: readonly StageTiming[];
 }
 
-const METHODS: readonly GroupMethod[] = ['kmeans', 'agglomerative'];
-
 /**
- * Validates every stage's options before any heavy work. Bounds that depend
- * on the data (groups up to the number of non-empty documents) are checked
- * once the vectors exist.
+ * Everything a grouping run produced: the common fields and, tagged by
+ * `method`, the method's own (`kmeans` for method kmeans; `documentTree` and
+ * `treeRows` for method agglomerative).
  */
-export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions {
-  const analyzer = resolveAnalyzerOptions(options.analyzer ?? {});
-  const vectorize = resolveVectorizeOptions(options.vectorize ?? {});
-  const { groups: kmGroups, ...kmRest } = options.kmeans ?? {};
-  const groupsRaw = options.groups ?? kmGroups;
-  const minSimilarity = options.minSimilarity ?? null;
-  if (groupsRaw !== undefined && minSimilarity !== null) {
-    throw new UsageError(`give either groups or minSimilarity, not both; got groups ${show(groupsRaw)} and minSimilarity ${minSimilarity}`, 'minSimilarity');
-  }
-  if (groupsRaw === undefined && minSimilarity === null) {
-    throw new UsageError('groups is required: a whole number of at least 2, or auto (or give minSimilarity)', 'groups');
-  }
-  if (minSimilarity !== null && !(typeof minSimilarity === 'number' && minSimilarity > -1 && minSimilarity < 1)) {
-    throw new UsageError(`minSimilarity must be a number between -1 and 1; got ${show(minSimilarity)}`, 'minSimilarity');
-  }
-  if (groupsRaw !== undefined && groupsRaw !== 'auto') {
-    resolveKMeansOptions({ ...kmRest, groups: groupsRaw as number }, Infinity);
-  }
-  const kmeansFull = resolveKMeansOptions({ ...kmRest, groups: 2 }, Infinity);
-  const { groups: _unused, ...kmeans } = kmeansFull;
-  const method = options.method ?? 'kmeans';
-  if (!METHODS.includes(method)) {
-    throw new UsageError(`method must be one of ${METHODS.join(', ')}; got ${show(method)}`, 'method');
-  }
-  const c = { ...DEFAULT_CHOOSE_OPTIONS, ...stripUndefined(options.choose ?? {}) };
-  const [lo, hi] = c.range;
-  if (!Number.isInteger(lo) || !Number.isInteger(hi) || lo < 2 || hi < lo) {
-    throw new UsageError(`range must be two whole numbers from 2 up, the first not above the second (like 4..40); got ${show(c.range)}`, 'range');
-  }
-  if (!Number.isInteger(c.sampleSize) || c.sampleSize < 2) {
-    throw new UsageError(`sampleSize must be a whole number >= 2; got ${show(c.sampleSize)}`, 'sampleSize');
-  }
-  if (c.overGroups !== null && (!Number.isInteger(c.overGroups) || c.overGroups < hi)) {
-    throw new UsageError(`overGroups must be a whole number no smaller than the range end (${hi}); got ${show(c.overGroups)}`, 'overGroups');
-  }
-  const tree = resolveTreeOptions(options.tree ?? {});
-  const label = resolveLabelOptions(options.label ?? {});
-  return {
-    groups: (groupsRaw ?? null) as number | 'auto' | null,
-    minSimilarity,
-    method,
-    choose: { range: [lo, hi], sampleSize: c.sampleSize, overGroups: c.overGroups },
-    analyzer,
-    vectorize,
-    kmeans,
-    tree,
-    label,
-    refine: resolveRefineOptions(options.refine ?? {}),
-  };
-}
+export type GroupResult = GroupResultCommon & MethodOutcome;
 
 /**
  * Groups documents: analyze, vectorize (TF-IDF, L2 rows), form groups
@@ -234,48 +84,14 @@ export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions
  * exemplars. Throws {@link UsageError} for unusable settings or data (for
  * example more groups than non-empty documents).
  */
-export function groupDocuments(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks = {}): GroupResult {
+export function groupDocuments(input: GroupInput, options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks = {}): GroupResult {
   const steps = groupSteps(input, options, hooks);
   let next = steps.next();
   while (!next.done) {
     const req = next.value;
-    next = steps.next(req.kind === 'kmeans' ? sphericalKMeans(req.matrix, req.options) : fitOnThisThread(req));
+    next = steps.next(req.kind === 'kmeans' ? kmeansHere(req) : fitHere(req));
   }
   return next.value;
-}
-
-/** Analysis streamed into the TF-IDF fit on the calling thread (no list of term lists is ever held). */
-function fitOnThisThread(req: VectorizeStep): TfidfFit {
-  const analyzer = createAnalyzer(req.analyzer);
-  const n = req.texts.length;
-  const step = Math.max(1, Math.floor(n / 100));
-  function* termLists(): Generator<string[]> {
-    for (let i = 0; i < n; i++) {
-      if (req.onProgress && i % step === 0) req.onProgress(i, n);
-      yield analyzer.analyze(req.texts[i]);
-    }
-    req.onProgress?.(n, n);
-  }
-  return fitTfidf(termLists(), req.vectorize);
-}
-
-/** A k-means run the pipeline needs; the driver decides on how many threads it runs. */
-export interface KMeansRequest {
-  readonly matrix: Csr;
-  readonly options: Partial<KMeansOptions> & { readonly groups: number };
-}
-
-/** Runs a k-means request, on the calling thread or on several (same result either way). */
-export type KMeansRunner = (request: KMeansRequest) => Promise<KMeansResult>;
-
-/** The work the pipeline hands to its driver: k-means runs and the analyze+vectorize step. */
-type Step = ({ readonly kind: 'kmeans' } & KMeansRequest) | ({ readonly kind: 'vectorize' } & VectorizeStep);
-type VectorizeStep = VectorizeRequest & { readonly analyzer: AnalyzerSettings };
-
-/** The runners of {@link groupDocumentsAsync}; a missing one runs on the calling thread. */
-export interface PipelineRunners {
-  readonly kmeans?: KMeansRunner;
-  readonly vectorize?: VectorizeRunner;
 }
 
 /**
@@ -285,8 +101,8 @@ export interface PipelineRunners {
  * identical.
  */
 export async function groupDocumentsAsync(
-  input: readonly Doc[],
-  options: GroupOptions,
+  input: GroupInput,
+  options: GroupOptions | ResolvedGroupOptions,
   runners: PipelineRunners,
   hooks: PipelineHooks = {},
 ): Promise<GroupResult> {
@@ -294,8 +110,8 @@ export async function groupDocumentsAsync(
   let next = steps.next();
   while (!next.done) {
     const req = next.value;
-    if (req.kind === 'kmeans') next = steps.next(await (runners.kmeans ? runners.kmeans(req) : sphericalKMeans(req.matrix, req.options)));
-    else next = steps.next(await (runners.vectorize ? runners.vectorize(req) : fitOnThisThread(req)));
+    if (req.kind === 'kmeans') next = steps.next(await (runners.kmeans ? runners.kmeans(req) : kmeansHere(req)));
+    else next = steps.next(await (runners.vectorize ? runners.vectorize(req) : fitHere(req)));
   }
   return next.value;
 }
@@ -305,18 +121,20 @@ export async function groupDocumentsAsync(
  * step it needs and receives the results, so one body serves the sync and the
  * async drivers.
  */
-function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: PipelineHooks): Generator<Step, GroupResult, KMeansResult | TfidfFit> {
+function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks): Generator<PipelineStep, GroupResult, StepReply> {
   const resolved = resolveGroupOptions(options);
-  const { docs, inputOrder } = canonicalOrder(input);
   const now = hooks.now ?? (() => 0);
   const timings: StageTiming[] = [];
-  const n = docs.length;
   const time = <T>(stage: string, items: number, fn: () => T): T => {
     const t0 = now();
     const value = fn();
     timings.push({ stage, ms: now() - t0, items });
     return value;
   };
+  const given: DocumentInput = isDocList(input) ? { docs: input } : input;
+  const cleaned = time('clean', given.docs.length, () => cleanStage(given, resolved.clean));
+  const { docs, inputOrder } = canonicalOrder(cleaned.docs);
+  const n = docs.length;
 
   const analyzer = createAnalyzer(resolved.analyzer);
   const tFit = now();
@@ -330,16 +148,14 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   const { vocabulary, matrix } = fitted;
   timings.push({ stage: 'analyze+vectorize', ms: now() - tFit, items: n });
 
-  const empty: number[] = [];
-  for (let r = 0; r < matrix.rows; r++) if (matrix.indptr[r + 1] === matrix.indptr[r]) empty.push(r);
+  const empty = rowsWithoutEntries(matrix);
   const nonEmpty = n - empty.length;
-  if (typeof resolved.groups === 'number') resolveKMeansOptions({ ...resolved.kmeans, groups: resolved.groups }, nonEmpty);
-  else resolveKMeansOptions({ ...resolved.kmeans, groups: 2 }, nonEmpty);
+  const method = findMethod(resolved.method) as GroupingMethod<string, object>;
+  method.checkData?.(resolved, nonEmpty);
 
   const tForm = now();
-  const formed =
-    resolved.method === 'kmeans' ? yield* formByKMeans(matrix, nonEmpty, resolved, hooks) : formByDocumentTree(matrix, nonEmpty, resolved);
-  timings.push({ stage: resolved.method === 'kmeans' ? 'k-means' : 'agglomerative', ms: now() - tForm, items: nonEmpty });
+  const formed = yield* method.form({ matrix, nonEmpty, settings: resolved, hooks });
+  timings.push({ stage: method.stage, ms: now() - tForm, items: nonEmpty });
   const refined = refineGroups(matrix, formed.partition, resolved.refine, resolved.kmeans);
   const { partition } = refined;
   const k = partition.groups;
@@ -348,7 +164,7 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   const quality = time('quality', nonEmpty, () => ({
     cohesion: groupCohesion(matrix, partition.assignments, k, partition.centroids),
     separation: groupSeparation(partition.centroids, matrix.cols, k),
-    silhouette: sampledSilhouette(matrix, partition.assignments, k, { sampleSize: resolved.choose.sampleSize, seed: resolved.kmeans.seed }),
+    silhouette: sampledSilhouette(matrix, partition.assignments, k, { sampleSize: resolved.choose.sampleSize, seed: resolved.seed }),
   }));
 
   const groups = time('label', nonEmpty, () => {
@@ -360,144 +176,24 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   });
 
   return {
+    ...formed.outcome,
+    method: resolved.method,
     docs,
     inputOrder,
     options: resolved,
+    clean: cleaned.report,
     vocabulary,
     matrix,
     partition,
-    kmeans: formed.kmeans,
     tree,
-    documentTree: formed.documentTree,
-    treeRows: formed.treeRows,
     choice: formed.choice,
     quality,
     groups,
-    emptyRows: Int32Array.from(empty),
+    emptyRows: empty,
     unsorted: { rows: refined.unsorted, threshold: refined.threshold },
     mixed: refined.mixed,
     timings,
-  };
-}
-
-interface Formed {
-  partition: Partition;
-  kmeans: KMeansResult | null;
-  documentTree: Dendrogram | null;
-  treeRows: Int32Array | null;
-  choice: GroupChoice | null;
-}
-
-function kmeansPartition(km: KMeansResult): Partition {
-  return { groups: km.groups, assignments: km.assignments, centroids: km.centroids, fit: km.fit, objective: km.objective };
-}
-
-/** The record of a choice by knee. */
-function kneeChoice(c: TreeChoice, treeLeaves: number): GroupChoice {
-  return { by: 'knee', chosen: c.chosen, treeLeaves, tried: c.tried, sampled: c.sampled, rule: c.rule, warnings: c.warnings };
-}
-
-function cutRange(resolved: ResolvedGroupOptions, leaves: number): number[] {
-  const [lo, hi] = resolved.choose.range;
-  const top = Math.min(hi, leaves);
-  if (top < lo) {
-    throw new UsageError(`range starts at ${lo} groups but there are only ${leaves} to split into; lower the range`, 'range');
-  }
-  const cuts: number[] = [];
-  for (let c = lo; c <= top; c++) cuts.push(c);
-  return cuts;
-}
-
-function* formByKMeans(
-  matrix: Csr,
-  nonEmpty: number,
-  resolved: ResolvedGroupOptions,
-  hooks: PipelineHooks,
-): Generator<Step, Formed, KMeansResult | TfidfFit> {
-  function* run(groups: number, initialAssignments?: Int32Array): Generator<Step, KMeansResult, KMeansResult | TfidfFit> {
-    hooks.progress?.('group', 0, 1);
-    const km = (yield { kind: 'kmeans', matrix, options: { ...resolved.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) } }) as KMeansResult;
-    hooks.progress?.('group', 1, 1);
-    return km;
-  }
-  if (typeof resolved.groups === 'number') {
-    const km = yield* run(resolved.groups);
-    return { partition: kmeansPartition(km), kmeans: km, documentTree: null, treeRows: null, choice: null };
-  }
-  // Over-cluster, build the tree over those groups, cut it, then refine the cut with k-means.
-  const [, hi] = resolved.choose.range;
-  const over = Math.min(nonEmpty, resolved.choose.overGroups ?? Math.max(2 * hi, 40));
-  const first = yield* run(over);
-  const overTree = groupAverageLink(matrix, first.assignments, over);
-  let chosen: number;
-  let choice: GroupChoice;
-  let leafClusters: Int32Array;
-  if (resolved.minSimilarity !== null) {
-    leafClusters = cutAtSimilarity(overTree, resolved.minSimilarity);
-    chosen = countGroups(leafClusters);
-    choice = { by: 'similarity', chosen, treeLeaves: over, tried: [], sampled: 0, warnings: [] };
-  } else {
-    const picked = chooseFromTree(matrix, first.assignments, overTree, cutRange(resolved, over), resolved.choose.range, { sampleSize: resolved.choose.sampleSize, seed: resolved.kmeans.seed });
-    chosen = picked.chosen;
-    leafClusters = picked.leafClusters;
-    choice = kneeChoice(picked, over);
-  }
-  if (chosen < 2) {
-    throw new UsageError(`minSimilarity ${resolved.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
-  }
-  // Refine the chosen cut: k-means started from the partition the cut gives (each row in its over-group's cluster).
-  const initial = first.assignments.map((g) => (g < 0 ? -1 : leafClusters[g]));
-  const km = yield* run(chosen, initial);
-  return { partition: kmeansPartition(km), kmeans: km, documentTree: null, treeRows: null, choice };
-}
-
-function countGroups(leafClusters: Int32Array): number {
-  let max = -1;
-  for (let i = 0; i < leafClusters.length; i++) if (leafClusters[i] > max) max = leafClusters[i];
-  return max + 1;
-}
-
-function formByDocumentTree(matrix: Csr, nonEmpty: number, resolved: ResolvedGroupOptions): Formed {
-  const rows = new Int32Array(nonEmpty);
-  for (let r = 0, a = 0; r < matrix.rows; r++) if (matrix.indptr[r + 1] > matrix.indptr[r]) rows[a++] = r;
-  const sub = selectRows(matrix, rows);
-  const docTree = documentAverageLink(sub, resolved.tree);
-  let leafClusters: Int32Array;
-  let choice: GroupChoice | null = null;
-  if (typeof resolved.groups === 'number') {
-    leafClusters = cutToGroups(docTree, resolved.groups);
-  } else if (resolved.minSimilarity !== null) {
-    leafClusters = cutAtSimilarity(docTree, resolved.minSimilarity);
-    const chosen = countGroups(leafClusters);
-    if (chosen < 2) throw new UsageError(`minSimilarity ${resolved.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
-    choice = { by: 'similarity', chosen, treeLeaves: nonEmpty, tried: [], sampled: 0, warnings: [] };
-  } else {
-    const identity = Int32Array.from({ length: nonEmpty }, (_, i) => i);
-    const picked = chooseFromTree(sub, identity, docTree, cutRange(resolved, nonEmpty), resolved.choose.range, { sampleSize: resolved.choose.sampleSize, seed: resolved.kmeans.seed });
-    leafClusters = picked.leafClusters;
-    choice = kneeChoice(picked, nonEmpty);
-  }
-  const k = countGroups(leafClusters);
-  const raw = new Int32Array(matrix.rows).fill(-1);
-  for (let i = 0; i < nonEmpty; i++) raw[rows[i]] = leafClusters[i];
-  const partition = partitionFromAssignments(matrix, canonicalGroups(raw, k), k);
-  return { partition, kmeans: null, documentTree: docTree, treeRows: rows, choice };
-}
-
-/** The given rows of a CSR matrix, as a new CSR matrix (values shared by copy). */
-export function selectRows(matrix: Csr, rows: Int32Array): Csr {
-  const indptr = new Int32Array(rows.length + 1);
-  for (let i = 0; i < rows.length; i++) indptr[i + 1] = indptr[i] + matrix.indptr[rows[i] + 1] - matrix.indptr[rows[i]];
-  const nnz = indptr[rows.length];
-  const indices = new Int32Array(nnz);
-  const values = new Float32Array(nnz);
-  for (let i = 0; i < rows.length; i++) {
-    const from = matrix.indptr[rows[i]];
-    const to = matrix.indptr[rows[i] + 1];
-    indices.set(matrix.indices.subarray(from, to), indptr[i]);
-    values.set(matrix.values.subarray(from, to), indptr[i]);
-  }
-  return { rows: rows.length, cols: matrix.cols, indptr, indices, values };
+  } as unknown as GroupResult;
 }
 
 /** Most documents re-read to find the surface words behind stemmed label terms. */
@@ -527,42 +223,7 @@ function readableLabels(
   return withDisplayForms(labels, display, options);
 }
 
-/**
- * Compares ids with runs of digits taken as numbers ("row 2" before "row 10"),
- * then by code units, so the order is total and locale-free.
- */
-export function compareIds(a: string, b: string): number {
-  const ra = a.match(/\d+|\D+/g) ?? [];
-  const rb = b.match(/\d+|\D+/g) ?? [];
-  const n = Math.min(ra.length, rb.length);
-  for (let i = 0; i < n; i++) {
-    const x = ra[i];
-    const y = rb[i];
-    if (x === y) continue;
-    const dx = x.charCodeAt(0) >= 48 && x.charCodeAt(0) <= 57;
-    const dy = y.charCodeAt(0) >= 48 && y.charCodeAt(0) <= 57;
-    if (dx && dy) {
-      const nx = x.replace(/^0+/, '');
-      const ny = y.replace(/^0+/, '');
-      if (nx.length !== ny.length) return nx.length - ny.length;
-      if (nx !== ny) return nx < ny ? -1 : 1;
-      continue;
-    }
-    return x < y ? -1 : 1;
-  }
-  if (ra.length !== rb.length) return ra.length - rb.length;
-  return a < b ? -1 : a > b ? 1 : 0;
-}
 
-/**
- * Puts documents in id order so the result does not depend on the order the
- * inputs were given in (ids are unique after ingest; equal ids keep their order).
- */
-export function canonicalOrder(input: readonly Doc[]): { docs: Doc[]; inputOrder: Int32Array } {
-  const order = Array.from(input.keys()).sort((i, j) => compareIds(input[i].id, input[j].id) || i - j);
-  const inputOrder = new Int32Array(input.length);
-  order.forEach((original, row) => {
-    inputOrder[original] = row;
-  });
-  return { docs: order.map((i) => input[i]), inputOrder };
+function isDocList(input: GroupInput): input is readonly Doc[] {
+  return Array.isArray(input);
 }

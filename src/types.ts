@@ -17,6 +17,8 @@ export interface Doc {
   readonly text: string;
   /** An export's other columns, in their original order, so outputs join back to the user's rows. */
   readonly fields: ReadonlyMap<string, string>;
+  /** True when `title` is the text's first line (no title column or metadata): cleaning then retakes it from the first line that survives. */
+  readonly titleFromText?: boolean;
 }
 
 /**
@@ -36,4 +38,20 @@ export interface Csr {
 export interface Skipped {
   readonly source: string;
   readonly reason: string;
+}
+
+/** Hooks the edges pass in; all optional. */
+export interface PipelineHooks {
+  /** Milliseconds from some fixed point (for stage timings). Without it, timings are 0. */
+  readonly now?: () => number;
+  /** Called as a stage makes progress. */
+  readonly progress?: (stage: string, done: number, total: number) => void;
+}
+
+/** Wall time of one stage. */
+export interface StageTiming {
+  readonly stage: string;
+  readonly ms: number;
+  /** How many documents the stage handled. */
+  readonly items: number;
 }

@@ -210,7 +210,7 @@ describe('--groups auto on the demo', () => {
   it('picks 6 to 10 groups (8 planted themes) for seeds 1..5, away from the edges of 2..20, without warnings', () => {
     const picked: number[] = [];
     for (let seed = 1; seed <= 5; seed++) {
-      const r = groupDocuments(demo, { groups: 'auto', kmeans: { seed } });
+      const r = groupDocuments(demo, { groups: 'auto', seed });
       const c = r.choice!;
       picked.push(c.chosen);
       expect(c.by).toBe('knee');

@@ -87,7 +87,7 @@ describe('sheaf group on the demo tickets', () => {
     expect(r.inputs[0].bytes).toBe(readFileSync(demoCsv).length);
     expect(r.settings.grouping.groups).toBe(8);
     expect(r.counts.documents).toBe(457);
-    expect(r.timings.map((t: { stage: string }) => t.stage)).toEqual(['read', 'analyze+vectorize', 'k-means', 'tree', 'quality', 'label', 'near-duplicates', 'write']);
+    expect(r.timings.map((t: { stage: string }) => t.stage)).toEqual(['read', 'clean', 'analyze+vectorize', 'k-means', 'tree', 'quality', 'label', 'near-duplicates', 'write']);
     // Export rows are cleaned by default; what cleaning did is recorded.
     expect(r.cleaning.mode).toBe('tickets');
     expect(r.cleaning.documents).toBe(457);

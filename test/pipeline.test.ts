@@ -66,7 +66,10 @@ describe('groupDocuments', () => {
   it('agglomerative: every group is a subtree cut, centroids are unit mean directions', () => {
     const notes = demo.slice(0, 120);
     const r = groupDocuments(notes, { groups: 5, method: 'agglomerative' });
-    expect(r.documentTree!.leaves).toBe(120 - r.emptyRows.length);
+    expect(r.method).toBe('agglomerative');
+    if (r.method !== 'agglomerative') return;
+    expect(r.documentTree.leaves).toBe(120 - r.emptyRows.length);
+    expect(r.treeRows).toHaveLength(120 - r.emptyRows.length);
     const sizes = r.groups.map((g) => g.size);
     expect(sizes.reduce((a, b) => a + b, 0)).toBe(120 - r.emptyRows.length);
     expect([...sizes].sort((a, b) => b - a)).toEqual(sizes);

@@ -137,8 +137,8 @@ describe('on the demo', () => {
   };
 
   it('unsorted documents leave their group, keep their fit, and lie below the threshold', () => {
-    const off = groupDocuments(docs, { groups: 8, kmeans: { seed: 1 } });
-    const on = groupDocuments(docs, { groups: 8, kmeans: { seed: 1 }, refine: { unsorted: true } });
+    const off = groupDocuments(docs, { groups: 8, seed: 1 });
+    const on = groupDocuments(docs, { groups: 8, seed: 1, refine: { unsorted: true } });
     const rows = Array.from(on.unsorted.rows);
     expect(rows.length).toBeGreaterThan(0);
     expect(rows.length).toBeLessThan(docs.length * 0.1);
@@ -154,9 +154,9 @@ describe('on the demo', () => {
   });
 
   it('seed 4 at 8 groups flags one mixed group; splitting it raises NMI against the planted themes', () => {
-    const off = groupDocuments(docs, { groups: 8, kmeans: { seed: 4 } });
+    const off = groupDocuments(docs, { groups: 8, seed: 4 });
     expect(Array.from(off.mixed).filter((x) => x === 1)).toHaveLength(1);
-    const split = groupDocuments(docs, { groups: 8, kmeans: { seed: 4 }, refine: { splitMixed: true } });
+    const split = groupDocuments(docs, { groups: 8, seed: 4, refine: { splitMixed: true } });
     expect(split.partition.groups).toBe(9);
     expect(nmi(split)).toBeGreaterThan(nmi(off) + 0.03);
   });

@@ -26,7 +26,7 @@ import {
   fitTfidfParallel,
   resolveAnalyzeParallelOptions,
 } from '../src/parallel/analyze-parallel.js';
-import { PARALLEL_ANALYZE_MIN_CHARS, vectorizeRunner } from '../src/parallel/analyze-runner.js';
+import { PARALLEL_ANALYZE_MIN_CHARS, vectorizeRunner } from '../src/parallel/runners.js';
 
 // Worker threads cannot load .ts: beforeAll compiles the parallel analyzer,
 // its worker and what they import, with the project's build settings, into a

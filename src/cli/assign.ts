@@ -11,11 +11,14 @@ import type { CliIo } from './io.js';
 import { decimal } from './parse.js';
 import { versions } from './versions.js';
 import { renderTable } from './table.js';
-import { addInputFlags, ingestOptionsFromFlags, readInputs, readingRecord, type GroupFlags } from './group.js';
+import { addInputFlags, cleanModeFromFlags, cleaningNotes, ingestOptionsFromFlags, readInputs, type GroupFlags } from './inputs.js';
+import { assignedCsv } from '../report/assigned.js';
+import { assignCounts, assignRunJson } from '../report/run-record.js';
+import { resolveCleanStage } from '../clean/stage.js';
 import { modelFromJson, type Model } from '../model/index.js';
 import { applyModel, type ModelApplication } from '../model/apply.js';
-import { csvText, fixed } from '../report/csv.js';
-import { jsonText, round } from '../report/outputs.js';
+import { fixed } from '../report/csv.js';
+import { jsonText } from '../report/outputs.js';
 import { visibleJson, visibleLines } from './visible.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
@@ -56,29 +59,8 @@ export async function loadModel(file: string, cwd: string): Promise<Model> {
   return modelFromJson(text, file);
 }
 
-/** `assigned.csv`: `id, group, label, fit, status`, then the input's own columns; status is matched or new. */
-export function assignedCsv(model: Model, a: ModelApplication): string {
-  const columns: string[] = [];
-  const seen = new Set<string>(['id', 'group', 'label', 'fit', 'status']);
-  for (const d of a.docs) for (const k of d.fields.keys()) if (!seen.has(k)) (seen.add(k), columns.push(k));
-  function* rows(): Generator<string[]> {
-    for (let i = 0; i < a.docs.length; i++) {
-      const d = a.docs[i];
-      const g = a.assignments[i];
-      yield [
-        d.id,
-        g >= 0 ? String(g) : '',
-        g >= 0 ? model.labels[g].label : '',
-        g >= 0 ? fixed(a.fit[i]) : '',
-        a.unmatched[i] ? 'new' : 'matched',
-        ...columns.map((c) => d.fields.get(c) ?? ''),
-      ];
-    }
-  }
-  return csvText(['id', 'group', 'label', 'fit', 'status', ...columns], rows());
-}
-
 async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promise<number> {
+  const startedAt = new Date();
   const minFit = decimal(flags.minFit, 'minFit');
   if (minFit !== undefined && !(minFit >= -1 && minFit <= 1)) throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
   const ingestOptions = ingestOptionsFromFlags(flags);
@@ -88,37 +70,19 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(visibleLines(line) + '\n');
   };
-  const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
-  const a = applyModel(model, docs, minFit);
-  for (const line of notes) note(line);
-  const unmatched = a.unmatched.reduce((x, v) => x + v, 0);
-  const counts = {
-    documents: a.docs.length,
-    matched: a.docs.length - unmatched,
-    new: unmatched,
-    noKnownTerms: a.noKnownTerms,
-    groups: model.labels.map((l) => ({ id: l.id, label: l.label, matched: a.matched[l.id], nearButNew: a.nearButNew[l.id], minFit: round(minFit ?? model.minFit[l.id], 6) })),
-  };
+  const { read, notes } = await readInputs(inputs, ingestOptions, flags, io, note, null);
+  // The model's cleaning unless --clean says otherwise.
+  const mode = cleanModeFromFlags(flags);
+  const a = applyModel(model, read, minFit, mode === null ? model.cleaning : resolveCleanStage({ ...model.cleaning.rules, mode }));
+  const clean = a.clean;
+  for (const line of [...notes, ...cleaningNotes(clean)]) note(line);
+  const counts = assignCounts(model, a, minFit);
+  const context = { command: 'assign', startedAt, finishedAt: new Date(), versions: versions(), cwd: io.cwd, out: flags.out };
   const written = await writeOutputFolder(
     outDir,
     new Map([
       ['assigned.csv', assignedCsv(model, a)],
-      [
-        'run.json',
-        jsonText({
-          tool: 'sheaf',
-          command: 'assign',
-          finishedAt: new Date().toISOString(),
-          versions: versions(),
-          model: { file: flags.model, createdBy: model.createdBy, groups: model.groups, terms: model.vocabulary.terms.length },
-          minFit: minFit ?? 'per group, from the training fits',
-          inputs: read.inputs,
-          counts,
-          skipped: read.skipped,
-          warnings: read.warnings,
-          ...readingRecord(read, clean),
-        }),
-      ],
+      ['run.json', assignRunJson(model, a, { context, modelFile: flags.model, minFit, read })],
     ]),
   );
   if (flags.json) {

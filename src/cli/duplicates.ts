@@ -9,16 +9,17 @@ import type { Command } from 'commander';
 import type { CliIo } from './io.js';
 import { decimal, wholeNumber } from './parse.js';
 import { versions } from './versions.js';
-import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, readInputs, readingRecord, type GroupFlags } from './group.js';
+import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, readInputs, type GroupFlags } from './inputs.js';
+import { duplicatesRunJson } from '../report/run-record.js';
+import { vectorFiles } from '../report/group-outputs.js';
 import { renderTable, clip } from './table.js';
 import { visible, visibleJson, visibleLines } from './visible.js';
 import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
 import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from '../report/duplicates.js';
-import { jsonText, round } from '../report/outputs.js';
+import { jsonText } from '../report/outputs.js';
 import { fixed } from '../report/csv.js';
 import { writeOutputFolder, type FileContent } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
-import { toMatrixMarket } from '../vectorize/index.js';
 import type { DiffPiece } from '../duplicates/index.js';
 
 interface DuplicatesFlags extends GroupFlags {
@@ -42,7 +43,7 @@ export function registerDuplicates(program: Command, io: CliIo, setExit: (code: 
     .option('--shingle <w>', 'words per shingle with --by shingles (default 4)')
     .option('--show <n>', 'print what differs inside the n strongest sets', '0')
     .option('--out <dir>', 'output folder', 'sheaf-duplicates')
-    .option('--save-vectors <dir>', 'also write the vectors compared (MatrixMarket), their columns and ids')
+    .option('--save-vectors <dir>', 'also write the vectors compared (MatrixMarket), their columns (terms.txt, with --by tfidf) and ids')
     .option('--json', 'print duplicates.json on stdout')
     .option('--quiet', 'no notes on stderr')
     .action(async (inputs: string[], flags: DuplicatesFlags) => {
@@ -89,44 +90,18 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     [PAIRS_FILE, nearCopyPairsCsvChunks(src)],
     [
       'run.json',
-      jsonText({
-        tool: 'sheaf',
-        command: 'duplicates',
-        startedAt: startedAt.toISOString(),
-        finishedAt: new Date().toISOString(),
-        versions: versions(),
-        inputs: read.inputs,
-        settings: { ingest: ingestOptions, by: o.by, threshold: o.threshold, shingle: o.shingle, analyzer: o.analyzer, vectorize: o.vectorize, duplicates: o.duplicates, out: flags.out },
-        counts: {
-          documents: read.docs.length,
-          skipped: read.skipped.length,
-          sets: run.sets.length,
-          inSets: run.sets.reduce((a, s) => a + s.members.length, 0),
-          pairs: run.pairs.a.length,
-          exactCopies: run.exactCopies,
-          chained: run.sets.filter((s) => s.chained).length,
-        },
-        chained: run.sets.filter((s) => s.chained).map((s) => ({ set: s.id, weakest: round(s.weakest, 6) })),
-        skipped: read.skipped,
-        warnings: read.warnings,
-        ...readingRecord(read, clean),
-        timings: [{ stage: 'read', ms: readMs, items: read.docs.length }, ...run.timings].map((t) => ({
-          stage: t.stage,
-          ms: round(t.ms, 1),
-          documentsPerSecond: t.ms > 0 ? Math.round((t.items / t.ms) * 1000) : null,
-        })),
+      duplicatesRunJson(run, {
+        context: { command: 'duplicates', startedAt, finishedAt: new Date(), versions: versions(), cwd: io.cwd, out: flags.out },
+        ingestOptions,
+        read,
+        clean,
+        timings: [{ stage: 'read', ms: readMs, items: read.docs.length }, ...run.timings],
       }),
     ],
   ]);
   const written = (await writeOutputFolder(outDir, files)).map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
-    const v = await writeOutputFolder(
-      path.resolve(io.cwd, flags.saveVectors),
-      new Map([
-        ['vectors.mtx', toMatrixMarket(run.matrix)],
-        ['ids.txt', run.docs.map((d) => d.id.replace(/[\r\n]+/g, ' ')).join('\n') + '\n'],
-      ]),
-    );
+    const v = await writeOutputFolder(path.resolve(io.cwd, flags.saveVectors), vectorFiles(run.matrix, run.columns, run.docs));
     written.push(...v.map((p) => path.join(flags.saveVectors as string, path.basename(p))));
   }
   if (flags.json) {

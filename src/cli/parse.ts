@@ -5,11 +5,10 @@
  * @module
  */
 import { UsageError, show } from '../util/errors.js';
+import { flagFor, kebabFlag } from './flag-names.js';
 
-/** `minDf` → `--min-df`. */
-export function flagName(option: string): string {
-  return '--' + option.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase());
-}
+/** `minDf` → `--min-df` (see `flag-names.ts` for the names whose flag differs). */
+export const flagName = kebabFlag;
 
 /** A whole number flag, or undefined when not given. */
 export function wholeNumber(value: string | undefined, option: string): number | undefined {
@@ -46,16 +45,17 @@ export function collect(value: string, previous: string[] = []): string[] {
 
 /**
  * The one line shown for a usage error, with library option names in their
- * flag spelling: the error's own option when the message starts with it
- * (`groups must be …` → `--groups must be …`), and any multi-word name from
- * `known` wherever it stands as a whole word (`lower minDf` → `lower --min-df`).
+ * flag spelling for `command` (one table, `flag-names.ts`): the error's own
+ * option when the message starts with it (`groups must be …` → `--groups must
+ * be …`; `sampleSize must be …` → `--sample must be …`), and any multi-word name from `known` wherever it stands as a whole
+ * word (`lower minDf` → `lower --min-df`).
  */
-export function usageLine(err: UsageError, known: readonly string[] = []): string {
+export function usageLine(err: UsageError, known: readonly string[] = [], command?: string): string {
   let line = err.message;
-  if (err.option && line.startsWith(err.option + ' ')) line = flagName(err.option) + line.slice(err.option.length);
+  if (err.option && line.startsWith(err.option + ' ')) line = flagFor(err.option, command) + line.slice(err.option.length);
   for (const name of new Set([...known, ...(err.option ? [err.option] : [])])) {
     if (!/^[a-z]+[A-Z][A-Za-z]*$/.test(name)) continue;
-    line = line.replace(new RegExp(`(^|[\\s(;,])${name}(?=[\\s:;,)]|$)`, 'g'), `$1${flagName(name)}`);
+    line = line.replace(new RegExp(`(^|[\\s(;,])${name}(?=[\\s:;,)]|$)`, 'g'), `$1${flagFor(name, command)}`);
   }
   return line;
 }

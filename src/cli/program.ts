@@ -85,7 +85,7 @@ export async function runCli(argv: readonly string[], io: CliIo): Promise<number
       return EXIT.usage; // commander already printed its one line
     }
     if (err instanceof UsageError) {
-      io.stderr.write(`sheaf: ${visible(usageLine(err, knownOptions(program)))}\n`);
+      io.stderr.write(`sheaf: ${visible(usageLine(err, knownOptions(program), argv[0]))}\n`);
       return EXIT.usage;
     }
     const e = err as Error;

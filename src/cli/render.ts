@@ -10,6 +10,7 @@ import type { Evaluation } from '../report/outputs.js';
 import { fixed } from '../report/csv.js';
 import { clip, renderTable } from './table.js';
 import { visible } from './visible.js';
+import { methodOf } from '../methods/index.js';
 
 /** The group table: id, size, name, cohesion, two exemplar titles. */
 export function groupTable(result: GroupResult, width: number): string[] {
@@ -80,12 +81,12 @@ export function choiceLines(result: GroupResult): string[] {
   if (!c) return [];
   if (c.by === 'similarity') {
     return [
-      `Cut the tree over ${c.treeLeaves} ${result.options.method === 'kmeans' ? 'groups' : 'documents'} where average similarity falls below ${result.options.minSimilarity}: ${c.chosen} groups.`,
+      `Cut the tree over ${c.treeLeaves} ${methodOf(result).leaves.short} where average similarity falls below ${result.options.minSimilarity}: ${c.chosen} groups.`,
     ];
   }
   const lines = [
     `Chose ${c.chosen} groups at the knee of the objective (Σ cosine to the group centre) over the cuts of a tree over ${c.treeLeaves} ` +
-      `${result.options.method === 'kmeans' ? 'k-means groups' : 'documents'} (silhouette on ${c.sampled} sampled documents):`,
+      `${methodOf(result).leaves.long} (silhouette on ${c.sampled} sampled documents):`,
   ];
   const rows = c.tried.map((t) => [
     String(t.groups),

@@ -24,6 +24,7 @@
 import type { Csr } from '../types.js';
 import { UsageError } from '../util/errors.js';
 import { createRng, deriveSeed, type Rng } from '../util/random.js';
+import { rowIsNonEmpty } from '../util/csr.js';
 import {
   LIST_ACTIVE,
   LIST_BATCH,
@@ -40,7 +41,7 @@ import {
   rowList,
   type KernelArrays,
 } from './kmeans-kernel.js';
-import type { KMeansOptions, KMeansResult } from './kmeans.js';
+import type { KMeansOptions, KMeansResult } from './kmeans-types.js';
 
 /** Allocates the typed arrays of a workspace: ordinary ones, or views on shared memory for threads. */
 export interface Allocator {
@@ -75,13 +76,6 @@ export interface KMeansPlan {
   readonly miniBatch: boolean;
   /** The validated starting partition, or null to seed with k-means++. */
   readonly initial: ArrayLike<number> | null;
-}
-
-/** True when row `r` has a stored non-zero value. */
-export function rowIsNonEmpty(matrix: Csr, r: number): boolean {
-  const { indptr, values } = matrix;
-  for (let j = indptr[r]!; j < indptr[r + 1]!; j++) if (values[j] !== 0) return true;
-  return false;
 }
 
 /**

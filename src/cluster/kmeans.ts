@@ -41,57 +41,21 @@
 import type { Csr } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { stripUndefined } from '../util/options.js';
+import { checkKeys } from '../util/constraints.js';
 import { runBlock } from './kmeans-kernel.js';
+import { rowIsNonEmpty } from '../util/csr.js';
+import type { KMeansOptions, KMeansResult } from './kmeans-types.js';
 import {
   LOCAL_ALLOCATOR,
   MINI_BATCH_AUTO_ROWS,
   createWorkspace,
   finishResult,
   kmeansSteps,
-  rowIsNonEmpty,
   validateInitialAssignments,
   type KMeansPlan,
 } from './kmeans-engine.js';
 
-/** Settings of one k-means run. */
-export interface KMeansOptions {
-  /** Number of groups k; a whole number from 2 to the number of non-empty rows. */
-  groups: number;
-  /** Independent seeded starts; the one with the best objective is kept. Whole number >= 1. Ignored (one run) with `initialAssignments`. */
-  restarts: number;
-  /** Upper bound on assignment passes per restart. Whole number >= 1. */
-  maxIterations: number;
-  /** Base seed (whole number 0 .. 2^32 − 1); restart r uses `deriveSeed(seed, r)`. */
-  seed: number;
-  /**
-   * Skip the full scoring of rows that a bound shows cannot change group.
-   * Same result either way (bit for bit); `false` runs the plain loop, for
-   * comparison and benchmarks.
-   */
-  prune: boolean;
-  /**
-   * Mini-batch steps instead of full Lloyd passes: `true`, `false`, or
-   * `'auto'` (on from {@link MINI_BATCH_AUTO_ROWS} non-empty rows, and never
-   * with `initialAssignments`).
-   */
-  miniBatch: 'auto' | boolean;
-  /** Mini-batch: rows drawn per step. Whole number >= 1. */
-  batchSize: number;
-  /** Mini-batch: most steps per restart. Whole number >= 1. */
-  batchIterations: number;
-  /**
-   * Mini-batch: stop once every centroid moves less than this in a step
-   * (Euclidean distance between unit vectors, 0 .. 2). A number >= 0; 0 runs
-   * every step.
-   */
-  batchTolerance: number;
-  /**
-   * Start from this partition instead of k-means++ seeding: one group
-   * number from 0 to k − 1 per row (empty rows: −1 or any group, ignored),
-   * every group used. One run, full passes.
-   */
-  initialAssignments?: ArrayLike<number> | undefined;
-}
+export type { KMeansOptions, KMeansResult } from './kmeans-types.js';
 
 /**
  * Defaults for everything but `groups`: 4 restarts (enough to step past a poor
@@ -122,18 +86,15 @@ export { MINI_BATCH_AUTO_ROWS };
 
 const MAX_SEED = 4294967295;
 
+/** The keys of {@link KMeansOptions}. */
+const KMEANS_KEYS: readonly string[] = ['groups', ...Object.keys(DEFAULT_KMEANS_OPTIONS), 'initialAssignments'];
+
 /**
- * Merges `partial` over {@link DEFAULT_KMEANS_OPTIONS} and validates once.
- * `nonEmptyRows` is the number of rows that take part (see
- * {@link countNonEmptyRows}); pass `Infinity` when it is not known yet, to
- * check everything except the upper bound on `groups`. The contents of
- * `initialAssignments` are checked against the data by {@link sphericalKMeans}
- * (see {@link planKMeans}). Throws {@link UsageError} naming the option.
+ * Throws {@link UsageError} unless `groups` is a whole number from 2 to
+ * `nonEmptyRows` (pass `Infinity` when the data is not known yet, to check
+ * only the lower bound).
  */
-export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRows: number): KMeansOptions {
-  const merged = { ...DEFAULT_KMEANS_OPTIONS, ...stripUndefined(partial) } as Partial<KMeansOptions>;
-  const { groups, restarts, maxIterations, seed, prune, miniBatch, batchSize, batchIterations, batchTolerance } = merged;
-  const { initialAssignments } = merged;
+export function checkGroupCount(groups: unknown, nonEmptyRows: number): asserts groups is number {
   const bounded = Number.isFinite(nonEmptyRows) && nonEmptyRows < Number.MAX_SAFE_INTEGER;
   if (bounded && nonEmptyRows < 2) {
     throw new UsageError(
@@ -147,6 +108,22 @@ export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRo
       : 'a whole number >= 2';
     throw new UsageError(`groups must be ${allowed}; got ${show(groups)}`, 'groups');
   }
+}
+
+/**
+ * Merges `partial` over {@link DEFAULT_KMEANS_OPTIONS} and validates once.
+ * `nonEmptyRows` is the number of rows that take part (see
+ * {@link countNonEmptyRows}); pass `Infinity` when it is not known yet, to
+ * check everything except the upper bound on `groups`. The contents of
+ * `initialAssignments` are checked against the data by {@link sphericalKMeans}
+ * (see {@link planKMeans}). Throws {@link UsageError} naming the option.
+ */
+export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRows: number): KMeansOptions {
+  const merged = { ...DEFAULT_KMEANS_OPTIONS, ...stripUndefined(partial) } as Partial<KMeansOptions>;
+  const { groups, restarts, maxIterations, seed, prune, miniBatch, batchSize, batchIterations, batchTolerance } = merged;
+  const { initialAssignments } = merged;
+  checkKeys(partial, KMEANS_KEYS);
+  checkGroupCount(groups, nonEmptyRows);
   if (!isWhole(restarts) || restarts < 1) {
     throw new UsageError(`restarts must be a whole number >= 1; got ${show(restarts)}`, 'restarts');
   }
@@ -213,47 +190,6 @@ function describe(value: unknown): string {
 
 function isWhole(value: unknown): value is number {
   return typeof value === 'number' && Number.isInteger(value);
-}
-
-/** Outcome of {@link sphericalKMeans}. Group numbers are canonical (size descending, then smallest member row). */
-export interface KMeansResult {
-  /** Number of groups k. */
-  readonly groups: number;
-  /** Group of each row, or −1 for rows with no non-zero value. */
-  readonly assignments: Int32Array;
-  /** Unit-norm mean directions, term-major: `centroids[term * groups + g]`. */
-  readonly centroids: Float32Array;
-  /** Cosine of each row to its own centroid (0 for rows that take no part). */
-  readonly fit: Float32Array;
-  /** Sum over rows that take part of the cosine to their centroid (computed in double precision). */
-  readonly objective: number;
-  /** Full assignment passes in the kept restart (including the pass that found nothing to change). */
-  readonly iterations: number;
-  /**
-   * Whether the kept restart stopped because no assignment changed (rather
-   * than at `maxIterations`); mini-batch: whether the steps stopped on
-   * `batchTolerance` (rather than at `batchIterations`).
-   */
-  readonly converged: boolean;
-  /** Objective reached by each restart, in restart order. */
-  readonly restartObjectives: Float64Array;
-  /** Rows moved into empty groups during the kept restart. */
-  readonly reseeded: number;
-  /** Mini-batch steps in the kept restart (0 without mini-batch). */
-  readonly batches: number;
-  /** Rows scored against all k centroids, over every pass (and mini-batch step) of every restart. */
-  readonly scored: number;
-  /**
-   * Rows the bounds settled without scoring any centroid but (at most) their
-   * own, over every pass of every restart.
-   */
-  readonly skipped: number;
-  /** Row–centroid dot products computed over every pass of every restart; a plain pass computes rows × k. */
-  readonly dotProducts: number;
-  /** Rows skipped in each full assignment pass of the kept restart (length `iterations`). */
-  readonly skippedByPass: Int32Array;
-  /** Row–centroid dot products in each full assignment pass of the kept restart (length `iterations`). */
-  readonly dotsByPass: Float64Array;
 }
 
 /**

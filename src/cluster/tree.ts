@@ -21,6 +21,7 @@
 
 import type { Csr } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
+import { UnionFind } from '../util/union-find.js';
 
 /**
  * A binary merge tree over `leaves` leaves, in the layout of a linkage matrix.
@@ -511,18 +512,8 @@ function relabel(n: number, mergeA: Int32Array, mergeB: Int32Array, height: Floa
   const order = new Int32Array(merges);
   for (let i = 0; i < merges; i++) order[i] = i;
   order.sort((p, q) => height[p]! - height[q]! || p - q);
-  const parent = new Int32Array(2 * n);
-  for (let i = 0; i < parent.length; i++) parent[i] = i;
-  const find = (x: number): number => {
-    let root = x;
-    while (parent[root] !== root) root = parent[root]!;
-    while (parent[x] !== root) {
-      const next = parent[x]!;
-      parent[x] = root;
-      x = next;
-    }
-    return root;
-  };
+  const sets = new UnionFind(2 * n);
+  const find = (x: number): number => sets.find(x);
   const left = new Int32Array(merges);
   const right = new Int32Array(merges);
   const similarity = new Float64Array(merges);
@@ -537,8 +528,8 @@ function relabel(n: number, mergeA: Int32Array, mergeB: Int32Array, height: Floa
     right[m] = a < b ? b : a;
     similarity[m] = 1 - height[k]!;
     size[m] = leafCount(a) + leafCount(b);
-    parent[a] = id;
-    parent[b] = id;
+    sets.attach(a, id);
+    sets.attach(b, id);
   }
   return { leaves: n, left, right, similarity, size };
 }
@@ -546,22 +537,12 @@ function relabel(n: number, mergeA: Int32Array, mergeB: Int32Array, height: Floa
 /** Applies the flagged merges with union-find; labels clusters in order of their smallest leaf. */
 function labelLeaves(tree: Dendrogram, apply: Uint8Array): Int32Array {
   const n = tree.leaves;
-  const parent = new Int32Array(2 * n);
-  for (let i = 0; i < parent.length; i++) parent[i] = i;
-  const find = (x: number): number => {
-    let root = x;
-    while (parent[root] !== root) root = parent[root]!;
-    while (parent[x] !== root) {
-      const next = parent[x]!;
-      parent[x] = root;
-      x = next;
-    }
-    return root;
-  };
+  const sets = new UnionFind(2 * n);
+  const find = (x: number): number => sets.find(x);
   for (let m = 0; m < n - 1; m++) {
     if (apply[m] === 0) continue;
-    parent[find(tree.left[m]!)] = n + m;
-    parent[find(tree.right[m]!)] = n + m;
+    sets.attach(find(tree.left[m]!), n + m);
+    sets.attach(find(tree.right[m]!), n + m);
   }
   const labelOfRoot = new Int32Array(2 * n).fill(-1);
   const out = new Int32Array(n);

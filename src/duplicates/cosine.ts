@@ -64,7 +64,7 @@
  */
 import type { Csr } from '../types.js';
 import { GrowableFloat32, GrowableInt32 } from './buffers.js';
-import { checkCsr } from './csr.js';
+import { checkCsr, rowPairDotArrays as exactDot } from '../util/csr.js';
 import { checkThreshold } from './options.js';
 
 /**
@@ -368,26 +368,6 @@ function twoSharedTails(matrix: Csr, rank: Int32Array, maxNorm: number, maxLen: 
     prefix2,
     singles: singles.toArray(),
   };
-}
-
-/** Exact dot product of rows x and y: rowDot's arithmetic (float64 products, column order). */
-function exactDot(indptr: Int32Array, indices: Int32Array, values: Float32Array, x: number, y: number): number {
-  let p = indptr[x]!;
-  const pe = indptr[x + 1]!;
-  let q = indptr[y]!;
-  const qe = indptr[y + 1]!;
-  let sum = 0;
-  while (p < pe && q < qe) {
-    const ca = indices[p]!;
-    const cb = indices[q]!;
-    if (ca === cb) {
-      sum += values[p]! * values[q]!;
-      p++;
-      q++;
-    } else if (ca < cb) p++;
-    else q++;
-  }
-  return sum;
 }
 
 /** Inverted index of the two-shared tails: per rank, the rows holding it in their tail. */

@@ -13,7 +13,7 @@ import { resolveDuplicatesOptions, type DuplicatesOptions } from './options.js';
 import { duplicateSets, type DuplicateSets } from './sets.js';
 
 export { allPairsCosine, MAX_PAIR_TAIL, type JoinCounts, type SimilarPairs } from './cosine.js';
-export { rowDot } from './csr.js';
+export { rowPairDot as rowDot } from '../util/csr.js';
 export { duplicateSets, exactCopies, type DuplicateSet, type DuplicateSetOptions, type DuplicateSets } from './sets.js';
 export { wordShingles, shingleMatrix, allPairsResemblance, resemblance, containment } from './shingles.js';
 export { wordDiff, ELLIPSIS, type DiffPiece, type WordDiffOptions } from './diff.js';

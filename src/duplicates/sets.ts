@@ -7,7 +7,8 @@
  */
 import type { Csr } from '../types.js';
 import type { SimilarPairs } from './cosine.js';
-import { checkCsr } from './csr.js';
+import { checkCsr } from '../util/csr.js';
+import { UnionFind } from '../util/union-find.js';
 import { checkMargin, checkThreshold, DEFAULT_DUPLICATES_OPTIONS } from './options.js';
 
 /** One set of near-copies (a connected component of size >= 2). */
@@ -100,19 +101,9 @@ export function duplicateSets(matrix: Csr, pairs: SimilarPairs, options: Duplica
   const chainFloor = threshold - margin;
 
   // Union-find.
-  const parent = new Int32Array(n);
+  const forest = new UnionFind(n);
   const size = new Int32Array(n).fill(1);
-  for (let i = 0; i < n; i++) parent[i] = i;
-  const find = (v: number): number => {
-    let root = v;
-    while (parent[root] !== root) root = parent[root]!;
-    while (parent[v] !== root) {
-      const next = parent[v]!;
-      parent[v] = root;
-      v = next;
-    }
-    return root;
-  };
+  const find = (v: number): number => forest.find(v);
   for (let k = 0; k < a.length; k++) {
     const i = a[k]!;
     const j = b[k]!;
@@ -127,7 +118,7 @@ export function duplicateSets(matrix: Csr, pairs: SimilarPairs, options: Duplica
       ri = rj;
       rj = tmp;
     }
-    parent[rj] = ri;
+    forest.attach(rj, ri);
     size[ri] += size[rj]!;
   }
 

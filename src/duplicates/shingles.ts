@@ -18,7 +18,7 @@
 import type { Csr } from '../types.js';
 import { GrowableFloat32, GrowableInt32 } from './buffers.js';
 import { permuteRows, rankColumns, sortPairs, type SimilarPairs } from './cosine.js';
-import { checkCsr } from './csr.js';
+import { checkCsr } from '../util/csr.js';
 import { checkThreshold, checkWholeNumber } from './options.js';
 
 /**

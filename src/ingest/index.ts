@@ -751,7 +751,7 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
   warnings.push(...cut.warnings);
 
   const skipped = reads.flatMap((r) => r.skipped);
-  const docs: Doc[] = reads.flatMap((r) => r.docs.map((d) => ({ id: d.id, source: d.source, title: d.title, text: d.text, fields: d.fields })));
+  const docs: Doc[] = reads.flatMap((r) => r.docs.map((d) => ({ id: d.id, source: d.source, title: d.title, text: d.text, fields: d.fields, ...(d.titleFromText ? { titleFromText: true } : {}) })));
   if (docs.length === 0) {
     const where = listNames(paths.length <= 3 ? [...paths] : [...paths.slice(0, 3), `${paths.length - 3} more`]);
     let why = '';

@@ -29,6 +29,8 @@ export interface DraftDoc {
   readonly title: string;
   readonly text: string;
   readonly fields: ReadonlyMap<string, string>;
+  /** The title is the text's first line (see `Doc.titleFromText`). */
+  readonly titleFromText?: boolean;
 }
 
 /** Which names an export offers for text, id and title. */
@@ -164,8 +166,9 @@ export class RowCollector {
     }
     const text = normalizeNewlines(textParts.filter((p) => p.trim() !== '').join('\n\n'));
     if (text.trim() === '') this.emptyTexts.push(row);
-    const t = title !== undefined && title.trim() !== '' ? capTitle(title) : firstLine(text) || id;
-    this.docs.push({ id, source: `${this.name}#${row}`, title: t, text, fields });
+    const fromText = !(title !== undefined && title.trim() !== '');
+    const t = fromText ? firstLine(text) || id : capTitle(title);
+    this.docs.push({ id, source: `${this.name}#${row}`, title: t, text, fields, ...(fromText ? { titleFromText: true } : {}) });
   }
 
   /** One warning per kind of problem seen, naming the rows. */

@@ -7,6 +7,8 @@
  * @module
  */
 import type { Doc } from '../types.js';
+import type { CleanReport } from '../clean/index.js';
+import { cleanStage, type CleanSettings, type DocumentInput } from '../clean/stage.js';
 import { createAnalyzer } from '../analyze/index.js';
 import { transformTfidf } from '../vectorize/index.js';
 import { assignToCentroids } from '../cluster/kmeans.js';
@@ -14,7 +16,10 @@ import { assignWithModel, type Assignment, type Model } from './index.js';
 
 /** The documents, their vectors' fate, and counts per group. */
 export interface ModelApplication extends Assignment {
+  /** The documents as cleaned (in the order given). */
   readonly docs: readonly Doc[];
+  /** What cleaning did. */
+  readonly clean: CleanReport;
   /** Documents filed into each group (fit at or above its threshold). */
   readonly matched: Int32Array;
   /** Documents whose nearest group is this one but whose fit is below the threshold. */
@@ -23,8 +28,15 @@ export interface ModelApplication extends Assignment {
   readonly noKnownTerms: number;
 }
 
-/** Files `docs` (in the order given) into the model's groups; `minFit` overrides the per-group thresholds. */
-export function applyModel(model: Model, docs: readonly Doc[], minFit?: number): ModelApplication {
+/**
+ * Files documents (in the order given) into the model's groups, cleaned first
+ * as the model's documents were (`cleaning` overrides that); `minFit`
+ * overrides the per-group thresholds. Pass an `IngestResult` (or its docs and
+ * exportRows) so `auto` cleaning knows the export rows.
+ */
+export function applyModel(model: Model, input: readonly Doc[] | DocumentInput, minFit?: number, cleaning: CleanSettings = model.cleaning): ModelApplication {
+  const cleaned = cleanStage(Array.isArray(input) ? { docs: input as readonly Doc[] } : (input as DocumentInput), cleaning);
+  const docs = cleaned.docs;
   const analyzer = createAnalyzer(model.analyzer);
   const matrix = transformTfidf(
     (function* () {
@@ -42,5 +54,5 @@ export function applyModel(model: Model, docs: readonly Doc[], minFit?: number):
     else if (a.unmatched[i]) nearButNew[g]++;
     else matched[g]++;
   }
-  return { ...a, docs, matched, nearButNew, noKnownTerms };
+  return { ...a, docs, clean: cleaned.report, matched, nearButNew, noKnownTerms };
 }

@@ -3,13 +3,15 @@
  * of a run, or to flag them as new. Pure: turns a run into JSON text and JSON
  * text back into a checked model; reading and writing files is the caller's.
  *
- * Layout (`format: "sheaf-model"`, `version: 1`): the analyzer settings, the
+ * Layout (`format: "sheaf-model"`, `version: 2`): the cleaning settings, the analyzer settings, the
  * vocabulary (terms in column order, document frequencies, idf), the unit
  * centroids as little-endian Float32 in base64 (term-major,
  * `[term * groups + g]`), each group's label and terms, the fit threshold per
  * group below which a new document counts as unmatched, and optionally the
  * tree. Every field is checked on load, lengths against each other; unknown
- * keys (including `__proto__`) are refused.
+ * keys (including `__proto__`) are refused. Version 1 (no cleaning settings)
+ * still loads, with the cleaning its `sheaf assign` applied: `auto` with the
+ * default rules.
  *
  * @module
  */
@@ -18,13 +20,19 @@ import type { Csr } from '../types.js';
 import type { AnalyzerSettings } from '../analyze/index.js';
 import { createVocabulary, type Vocabulary } from '../vectorize/index.js';
 import { UsageError } from '../util/errors.js';
+import { DEFAULT_CLEAN_STAGE, resolveCleanStage, type CleanSettings } from '../clean/stage.js';
 
-/** Current model format version. */
-export const MODEL_VERSION = 1;
+/** Current model format version (2: cleaning settings recorded). */
+export const MODEL_VERSION = 2;
+
+/** Versions this code reads. */
+export const MODEL_VERSIONS_READ: readonly number[] = [1, 2];
 
 /** A model in memory, ready to apply. */
 export interface Model {
   readonly createdBy: string;
+  /** Cleaning applied before analysis (new documents get the same). */
+  readonly cleaning: CleanSettings;
   readonly analyzer: AnalyzerSettings;
   readonly vocabulary: Vocabulary;
   readonly groups: number;
@@ -97,10 +105,25 @@ const analyzerSchema = z.strictObject({
 
 const termSchema = z.strictObject({ term: z.string(), weight: z.number() });
 
+const cleaningSchema = z.strictObject({
+  mode: z.enum(['auto', 'tickets', 'none']),
+  rules: z.strictObject({
+    mode: z.literal('tickets'),
+    quotes: z.boolean(),
+    signatures: z.boolean(),
+    greetings: z.boolean(),
+    boilerplate: z.boolean(),
+    boilerplateShare: z.number().gt(0).max(1),
+    boilerplateMinDocs: z.number().int().min(2),
+    placeholders: z.boolean(),
+  }),
+});
+
 const modelSchema = z.strictObject({
   format: z.literal('sheaf-model'),
   version: z.number().int(),
   createdBy: z.string().max(200),
+  cleaning: cleaningSchema.optional(),
   analyzer: analyzerSchema,
   vocabulary: z.strictObject({
     documents: z.number().int().min(1),
@@ -120,6 +143,7 @@ const modelSchema = z.strictObject({
 /** What a fitted run hands over to become a model. */
 export interface ModelSource {
   readonly createdBy: string;
+  readonly cleaning: CleanSettings;
   readonly analyzer: AnalyzerSettings;
   readonly vocabulary: Vocabulary;
   readonly groups: number;
@@ -137,6 +161,7 @@ export function modelToJson(src: ModelSource): string {
     format: 'sheaf-model',
     version: MODEL_VERSION,
     createdBy: src.createdBy,
+    cleaning: { mode: src.cleaning.mode, rules: { ...src.cleaning.rules } },
     analyzer: {
       lang: src.analyzer.lang,
       stem: src.analyzer.stem,
@@ -181,9 +206,11 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
     throw new UsageError(`${shownPath} is not a sheaf model (no "format": "sheaf-model")`, 'model');
   }
   const version = (raw as { version?: unknown }).version;
-  if (version !== MODEL_VERSION) {
-    throw new UsageError(`${shownPath} has model version ${JSON.stringify(version)}; this sheaf reads version ${MODEL_VERSION}`, 'model');
+  if (!MODEL_VERSIONS_READ.includes(version as number)) {
+    throw new UsageError(`${shownPath} has model version ${JSON.stringify(version)}; this sheaf reads versions ${MODEL_VERSIONS_READ.join(' and ')}`, 'model');
   }
+  if (version === 1 && 'cleaning' in (raw as object)) throw new UsageError(`${shownPath} is damaged: cleaning: not part of model version 1`, 'model');
+  if (version !== 1 && !('cleaning' in (raw as object))) throw new UsageError(`${shownPath} is damaged: cleaning: missing`, 'model');
   const parsed = modelSchema.safeParse(raw);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
@@ -227,6 +254,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   checkUnitCentroids(centroids, m.groups, m.labels, fail);
   return {
     createdBy: m.createdBy,
+    cleaning: m.cleaning ? resolveCleanStage({ ...m.cleaning.rules, mode: m.cleaning.mode }) : DEFAULT_CLEAN_STAGE,
     analyzer: Object.freeze({ ...m.analyzer, stopwords: Object.freeze([...m.analyzer.stopwords]) }),
     vocabulary,
     groups: m.groups,

@@ -9,6 +9,7 @@ import { treeToJson } from '../cluster/tree.js';
 import { toNewick } from '../cluster/newick.js';
 import { encodeLabels, externalScores, type ExternalScores } from '../evaluate/index.js';
 import { csvChunks, fixed } from './csv.js';
+import { round } from '../util/round.js';
 
 /** Columns sheaf puts first in `documents.csv`. */
 export const DOCUMENT_COLUMNS = ['id', 'group', 'label', 'fit', 'duplicate_set'] as const;
@@ -140,13 +141,6 @@ export function treeNewick(result: GroupResult): string {
   return toNewick(result.tree, result.groups.map((g) => `${g.id} ${g.label}`)) + '\n';
 }
 
-/** `documents.nwk` (method agglomerative): the document-level tree in Newick, leaves named by document id. */
-export function documentTreeNewick(result: GroupResult): string | null {
-  if (!result.documentTree || !result.treeRows) return null;
-  const rows = result.treeRows;
-  return toNewick(result.documentTree, Array.from(rows, (r) => result.docs[r].id)) + '\n';
-}
-
 /** Scores of the groups against known labels, and where each known label went. */
 export interface Evaluation {
   readonly field: string;
@@ -207,12 +201,7 @@ export function evaluationJson(e: Evaluation): unknown {
   };
 }
 
-/** Rounds for JSON output so files stay readable and stable. */
-export function round(value: number, digits: number): number {
-  const f = 10 ** digits;
-  const r = Math.round(value * f) / f;
-  return Object.is(r, -0) ? 0 : r;
-}
+export { round } from '../util/round.js';
 
 /** JSON text with two-space indentation and a final newline. */
 export function jsonText(value: unknown): string {

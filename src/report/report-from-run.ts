@@ -8,6 +8,7 @@ import type { GroupChoice, GroupResult } from '../pipeline.js';
 import type { DuplicateRun } from '../near-copies.js';
 import type { ReportData } from './report-data.js';
 import { groupMap } from './map.js';
+import { methodOf } from '../methods/index.js';
 
 /** What the report shows besides the run itself. */
 export interface ReportContext {
@@ -35,12 +36,12 @@ export function reportFromRun(
   const o = result.options;
   const unsortedSet = new Set(result.unsorted.rows);
   const settings = [
-    { name: 'method', value: o.method === 'kmeans' ? 'spherical k-means' : 'average-link over documents' },
+    { name: 'method', value: methodOf(result).title },
     { name: 'groups', value: result.choice ? `${k} (chosen by ${result.choice.by})` : String(k) },
     { name: 'language', value: o.analyzer.lang },
     { name: 'stemming', value: o.analyzer.stem ? 'on' : 'off' },
     { name: 'term pruning', value: `min df ${o.vectorize.minDf}, max df ${o.vectorize.maxDf}, max terms ${o.vectorize.maxTerms ?? 'none'}` },
-    { name: 'seed', value: String(o.kmeans.seed) },
+    { name: 'seed', value: String(o.seed) },
     { name: 'mean silhouette', value: Number.isFinite(result.quality.silhouette.mean) ? result.quality.silhouette.mean.toFixed(3) : '–' },
     ...(nearSettings ? [{ name: 'near-duplicate threshold', value: `${nearSettings.threshold} (${nearSettings.by})` }] : []),
     ...(context.settings ?? []),

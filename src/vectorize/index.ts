@@ -13,10 +13,10 @@ export {
 export {
   createVocabulary,
   fitTfidf,
-  rowDot,
   transformTfidf,
   type TfidfFit,
   type Vocabulary,
 } from './tfidf.js';
+export { rowDot } from '../util/csr.js';
 export { smoothIdf, weightRow } from './weight.js';
 export { MATRIX_MARKET_HEADER, formatFloat32, matrixMarketChunks, toMatrixMarket } from './matrix-market.js';

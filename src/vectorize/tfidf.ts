@@ -305,30 +305,6 @@ export function transformTfidf(termLists: Iterable<readonly string[]>, vocabular
   });
 }
 
-/**
- * Dot product of row `i` of `a` and row `j` of `b` (columns must mean the
- * same terms), accumulated in float64. For rows of the vectorizer this is
- * their cosine similarity.
- */
-export function rowDot(a: Csr, i: number, b: Csr, j: number): number {
-  let p = a.indptr[i]!;
-  const pe = a.indptr[i + 1]!;
-  let q = b.indptr[j]!;
-  const qe = b.indptr[j + 1]!;
-  let sum = 0;
-  while (p < pe && q < qe) {
-    const ca = a.indices[p]!;
-    const cb = b.indices[q]!;
-    if (ca === cb) {
-      sum += a.values[p]! * b.values[q]!;
-      p++;
-      q++;
-    } else if (ca < cb) p++;
-    else q++;
-  }
-  return sum;
-}
-
 /** Code-unit order, the order of JavaScript's `<` on strings. */
 function compareStrings(a: string, b: string): number {
   return a < b ? -1 : a > b ? 1 : 0;

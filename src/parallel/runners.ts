@@ -1,14 +1,27 @@
 /**
- * The analysis runner a driver (the CLI's async pipeline) can hand its
- * analyze+vectorize step to: large inputs on several threads, small ones on
- * the calling thread (the result is the same either way, bit for bit).
+ * The thread runners a driver (the CLI's async pipeline) hands its heavy work
+ * to: k-means runs and the analyze+vectorize step, each on several threads for
+ * large inputs and on the calling thread for small ones (the result is the
+ * same either way, bit for bit). Their request and runner types live in
+ * `src/runners.ts`, beside the single-thread versions.
  *
  * @module
  */
-
-import type { AnalyzerOptions, AnalyzerSettings } from '../analyze/index.js';
-import type { TfidfFit, VectorizeOptions } from '../vectorize/index.js';
+import type { KMeansRunner, VectorizeRunner } from '../runners.js';
+import { sphericalKMeans } from '../cluster/kmeans.js';
+import { sphericalKMeansParallel } from './kmeans-parallel.js';
 import { fitTfidfParallel } from './analyze-parallel.js';
+
+/** Rows from which k-means is worth the threads' start-up (below it one thread is as fast). */
+export const PARALLEL_MIN_ROWS = 20_000;
+
+/** Runs k-means on `threads` threads for inputs of {@link PARALLEL_MIN_ROWS} rows or more, on this thread otherwise. */
+export function kmeansRunner(threads: number): KMeansRunner {
+  return async (req) =>
+    threads > 1 && req.matrix.rows >= PARALLEL_MIN_ROWS
+      ? sphericalKMeansParallel(req.matrix, { ...req.options, threads })
+      : sphericalKMeans(req.matrix, req.options);
+}
 
 /**
  * Characters of text from which analysis is worth the workers' start-up
@@ -16,21 +29,6 @@ import { fitTfidfParallel } from './analyze-parallel.js';
  * milliseconds of CPU); below it one thread is as fast.
  */
 export const PARALLEL_ANALYZE_MIN_CHARS = 4_000_000;
-
-/** One analyze+vectorize step: the texts, in document order, and the settings of both stages. */
-export interface VectorizeRequest {
-  /** One text per document. */
-  readonly texts: readonly string[];
-  /** Analyzer options or resolved settings. */
-  readonly analyzer: Partial<AnalyzerOptions> | AnalyzerSettings;
-  /** Vocabulary pruning options. */
-  readonly vectorize: Partial<VectorizeOptions>;
-  /** Called as documents are analyzed: done so far, and in all. */
-  readonly onProgress?: ((done: number, total: number) => void) | undefined;
-}
-
-/** Runs an analyze+vectorize step, on the calling thread or on several (same result either way). */
-export type VectorizeRunner = (request: VectorizeRequest) => Promise<TfidfFit>;
 
 /** Settings of {@link vectorizeRunner} beyond the thread count. */
 export interface VectorizeRunnerOptions {

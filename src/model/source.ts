@@ -1,0 +1,29 @@
+/**
+ * The model a grouping run saves: its source taken from the run's result.
+ *
+ * @module
+ */
+import type { GroupResult } from '../pipeline.js';
+import { round } from '../util/round.js';
+import { modelToJson, type ModelSource } from './index.js';
+
+/** What {@link modelToJson} needs, from a grouping result; `tree` is the tree as groups.json writes it. */
+export function modelSourceOf(result: GroupResult, createdBy: string, tree: unknown): ModelSource {
+  return {
+    createdBy,
+    cleaning: result.options.clean,
+    analyzer: result.options.analyzer,
+    vocabulary: result.vocabulary,
+    groups: result.partition.groups,
+    centroids: result.partition.centroids,
+    assignments: result.partition.assignments,
+    fit: result.partition.fit,
+    labels: result.groups.map((g) => ({ id: g.id, label: g.label, terms: g.terms.map((t) => ({ term: t.term, weight: round(t.weight, 6) })), size: g.size })),
+    tree,
+  };
+}
+
+/** `model.json` text of a grouping run. */
+export function modelJsonOf(result: GroupResult, createdBy: string, tree: unknown): string {
+  return modelToJson(modelSourceOf(result, createdBy, tree));
+}

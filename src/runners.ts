@@ -1,0 +1,71 @@
+/**
+ * The two kinds of heavy work the pipeline hands to its driver, and how each
+ * runs on the calling thread: k-means runs and the analyze+vectorize step.
+ * The thread runners of `src/parallel` implement the same types and return
+ * the very same results, so the output never depends on which ran.
+ *
+ * @module
+ */
+import type { Csr } from './types.js';
+import { createAnalyzer, type AnalyzerOptions, type AnalyzerSettings } from './analyze/index.js';
+import { fitTfidf, type TfidfFit, type VectorizeOptions } from './vectorize/index.js';
+import { sphericalKMeans } from './cluster/kmeans.js';
+import type { KMeansOptions, KMeansResult } from './cluster/kmeans-types.js';
+
+/** A k-means run the pipeline needs; the driver decides on how many threads it runs. */
+export interface KMeansRequest {
+  readonly matrix: Csr;
+  readonly options: Partial<KMeansOptions> & { readonly groups: number };
+}
+
+/** Runs a k-means request, on the calling thread or on several (same result either way). */
+export type KMeansRunner = (request: KMeansRequest) => Promise<KMeansResult>;
+
+/** One analyze+vectorize step: the texts, in document order, and the settings of both stages. */
+export interface VectorizeRequest {
+  /** One text per document. */
+  readonly texts: readonly string[];
+  /** Analyzer options or resolved settings. */
+  readonly analyzer: Partial<AnalyzerOptions> | AnalyzerSettings;
+  /** Vocabulary pruning options. */
+  readonly vectorize: Partial<VectorizeOptions>;
+  /** Called as documents are analyzed: done so far, and in all. */
+  readonly onProgress?: ((done: number, total: number) => void) | undefined;
+}
+
+/** Runs an analyze+vectorize step, on the calling thread or on several (same result either way). */
+export type VectorizeRunner = (request: VectorizeRequest) => Promise<TfidfFit>;
+
+/** The runners of `groupDocumentsAsync`; a missing one runs on the calling thread. */
+export interface PipelineRunners {
+  readonly kmeans?: KMeansRunner;
+  readonly vectorize?: VectorizeRunner;
+}
+
+/** A k-means request run on the calling thread. */
+export function kmeansHere(req: KMeansRequest): KMeansResult {
+  return sphericalKMeans(req.matrix, req.options);
+}
+
+/** Analysis streamed into the TF-IDF fit on the calling thread (no list of term lists is ever held). */
+export function fitHere(req: VectorizeRequest): TfidfFit {
+  const analyzer = createAnalyzer(req.analyzer);
+  const n = req.texts.length;
+  const step = Math.max(1, Math.floor(n / 100));
+  function* termLists(): Generator<string[]> {
+    for (let i = 0; i < n; i++) {
+      if (req.onProgress && i % step === 0) req.onProgress(i, n);
+      yield analyzer.analyze(req.texts[i]!);
+    }
+    req.onProgress?.(n, n);
+  }
+  return fitTfidf(termLists(), req.vectorize);
+}
+
+/** The work the pipeline hands to its driver: k-means runs and the analyze+vectorize step. */
+export type PipelineStep =
+  | ({ readonly kind: 'kmeans' } & KMeansRequest)
+  | ({ readonly kind: 'vectorize' } & VectorizeRequest & { readonly analyzer: AnalyzerSettings });
+
+/** What the driver sends back for a {@link PipelineStep}. */
+export type StepReply = KMeansResult | TfidfFit;
