@@ -15,3 +15,4 @@ export {
 } from './options.js';
 export { SUPPORTED_LANGUAGES, STEMMING_LANGUAGES, builtInStopwords } from './languages.js';
 export { normalizeText, normalizeTerm } from './text.js';
+export { ENGLISH_STOPWORDS } from './stopwords-en.js';
