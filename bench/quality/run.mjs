@@ -138,6 +138,20 @@ for (const c of corpora) {
   const row = { corpus: c, k, ours: new Map(), reference: null };
   for (const v of variants) {
     const { groupDocuments, encodeLabels, externalScores } = v.lib;
+    if (v.optional && !v.unavailable) {
+      // Unknown top-level keys may be ignored silently: the column runs only when the resolved options carry it.
+      let resolved = null;
+      try {
+        resolved = v.lib.resolveGroupOptions?.({ ...v.options, groups: 2 }) ?? null;
+      } catch {
+        resolved = null;
+      }
+      if (resolved?.reduce === undefined || resolved?.reduce === null) {
+        log(`quality: this build has no reduce option; the "${v.name}" column is skipped`);
+        v.unavailable = true;
+      }
+    }
+    if (v.unavailable) continue;
     const truth = encodeLabels(labels).codes;
     const runs = [];
     for (const seed of SEEDS) {
