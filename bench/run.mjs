@@ -16,6 +16,8 @@
 //                        (git archive) to bench/out/build-<sha>/ and built there
 //   --results FILE       where the report goes (default bench/results.md)
 //   --timeout-min N      stop any one run after N minutes and report how far it got
+//   --quality            grouping quality (NMI/ARI) on labelled corpora beside scikit-learn instead
+//                        (bench/quality/run.mjs; its flags: see that file)
 //   --reuse              reuse bench/out/<input>.ours.json / .peer.json from an earlier run
 //                        with the same settings and the same src/ tree (needs --ref)
 //
@@ -31,6 +33,12 @@ import { fileURLToPath } from 'node:url';
 import { generateCorpus, parseSize, sizeName } from './generate.mjs';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
+
+// `--quality`: the grouping-quality benchmark on labelled corpora (bench/quality/run.mjs) instead of the speed runs.
+if (process.argv.includes('--quality')) {
+  const q = spawnSync(process.execPath, [path.join(path.dirname(fileURLToPath(import.meta.url)), 'quality', 'run.mjs'), ...process.argv.slice(2).filter((a) => a !== '--quality')], { stdio: 'inherit' });
+  process.exit(q.status ?? 1);
+}
 const root = path.dirname(here);
 const outDir = path.join(here, 'out');
 const PYTHON = '/usr/bin/python3';

@@ -8,8 +8,12 @@ import {
   DEFAULT_ANALYZER_OPTIONS,
   STEMMING_LANGUAGES,
   SUPPORTED_LANGUAGES,
+  ENGLISH_STOPWORDS,
   builtInStopwords,
   createAnalyzer,
+  isJunkToken,
+  JUNK_WORDS,
+  normalizeTerm,
   resolveAnalyzerOptions,
   type AnalyzerOptions,
 } from '../src/analyze/index.js';
@@ -26,7 +30,7 @@ function usageError(f: () => unknown): UsageError {
 }
 
 describe('options', () => {
-  it('defaults: English, stemming, minLength 2, digit-only tokens dropped, no bigrams, no extra stop words', () => {
+  it('defaults: English, stemming, minLength 2, digit-only and junk tokens dropped, no bigrams, no extra stop words', () => {
     expect(DEFAULT_ANALYZER_OPTIONS).toEqual({
       lang: 'en',
       stem: true,
@@ -34,6 +38,7 @@ describe('options', () => {
       numbers: false,
       phrases: false,
       stopwords: [],
+      junk: true,
     });
     expect(resolveAnalyzerOptions()).toEqual(DEFAULT_ANALYZER_OPTIONS);
     expect(resolveAnalyzerOptions({ minLength: undefined })).toEqual(DEFAULT_ANALYZER_OPTIONS);
@@ -72,11 +77,12 @@ describe('options', () => {
       [{ stem: 'yes' }, 'stem must be true or false; got "yes"', 'stem'],
       [{ numbers: 1 }, 'numbers must be true or false; got 1', 'numbers'],
       [{ phrases: null }, 'phrases must be true or false; got null', 'phrases'],
+      [{ junk: 'no' }, 'junk must be true or false; got "no"', 'junk'],
       [{ stopwords: 'the' }, 'stopwords must be a list of words; got "the"', 'stopwords'],
       [{ stopwords: ['a', 3] }, 'stopwords must be a list of words; got 3 at position 2', 'stopwords'],
       [
         { minlength: 3 },
-        'unknown analyzer option "minlength"; allowed: lang, stem, minLength, numbers, phrases, stopwords',
+        'unknown analyzer option "minlength"; allowed: lang, stem, minLength, numbers, phrases, stopwords, junk',
         'minlength',
       ],
       [null, 'analyzer options must be an object; got null', undefined],
@@ -102,15 +108,36 @@ describe('options', () => {
 });
 
 describe('stop words', () => {
-  it('maps ISO 639-1 codes to the stopword package lists (en -> eng, de -> deu, zh -> zho, no/nb -> nob)', () => {
+  it('maps ISO 639-1 codes to the stopword package lists (en -> eng + our own list, de -> deu, zh -> zho, no/nb -> nob)', () => {
     const lists = stopwordLists as unknown as Record<string, string[]>;
-    expect(builtInStopwords('en')).toEqual(lists['eng']);
+    expect([...builtInStopwords('en')].sort()).toEqual([...new Set([...ENGLISH_STOPWORDS, ...lists['eng']!])].sort());
     expect(builtInStopwords('de')).toEqual(lists['deu']);
     expect(builtInStopwords('zh')).toEqual(lists['zho']);
     expect(builtInStopwords('no')).toEqual(lists['nob']);
     expect(builtInStopwords('nb')).toEqual(lists['nob']);
     expect(builtInStopwords('xx')).toEqual([]);
     for (const lang of SUPPORTED_LANGUAGES) expect(builtInStopwords(lang).length, lang).toBeGreaterThan(10);
+  });
+
+  it("our English list: 350+ distinct words, sorted, normalised, with negations, question words and contractions", () => {
+    expect(ENGLISH_STOPWORDS.length).toBeGreaterThanOrEqual(350);
+    expect(new Set(ENGLISH_STOPWORDS).size).toBe(ENGLISH_STOPWORDS.length);
+    expect([...ENGLISH_STOPWORDS].sort()).toEqual(ENGLISH_STOPWORDS);
+    for (const w of ENGLISH_STOPWORDS) {
+      expect(normalizeTerm(w), w).toBe(w);
+      // A word ending in a possessive 's would never match: the analyzer cuts that ending first.
+      expect(w.endsWith("'s") && w !== "let's", w).toBe(false);
+    }
+    for (const w of ['not', 'no', 'when', 'why', 'will', 'its', 'though', 'whose', 'see', 'every', 'without', "don't", "won't", "ain't"]) {
+      expect(ENGLISH_STOPWORDS, w).toContain(w);
+    }
+    // The 108-word `stopword` list lacked these; with them a group of quotations is no longer named "not · things · does".
+    expect(createAnalyzer({ stem: false }).analyze("Why won't it see every lamp? It's not the keeper, though, whose lamp ain't lit")).toEqual([
+      'lamp',
+      'keeper',
+      'lamp',
+      'lit',
+    ]);
   });
 
   it('removes the language list: English "the", "and", "of"; German "und", "der"', () => {
@@ -162,7 +189,9 @@ describe('tokenisation policy', () => {
   });
 
   it("keeps internal apostrophes (' or ’ written '), drops the English possessive 's", () => {
-    expect(plain.analyze("the keeper's lamp; O’Neill’s log; don't")).toEqual(['keeper', 'lamp', "o'neill", 'log', "don't"]);
+    expect(plain.analyze("the keeper's lamp; O’Neill’s log; rock’n’roll")).toEqual(['keeper', 'lamp', "o'neill", 'log', "rock'n'roll"]);
+    // A contraction is one token, so the stop list can hold it: "don't" goes, as a stop word.
+    expect(plain.analyze("don’t drop the lamp")).toEqual(['drop', 'lamp']);
     expect(plain.analyze("'quoted' keepers' lamps")).toEqual(['quoted', 'keepers', 'lamps']);
   });
 
@@ -183,10 +212,13 @@ describe('tokenisation policy', () => {
 });
 
 describe('numbers and minLength', () => {
-  it('drops tokens made only of digits (any script) unless numbers is on; mixed tokens always stay', () => {
+  it('drops tokens made only of digits (any script) unless numbers is on; mixed tokens stay unless junk', () => {
     const text = '2024 ٢٠٢٤ mp3 1990s ²³';
-    expect(createAnalyzer({ stem: false }).analyze(text)).toEqual(['mp3', '1990s']);
-    expect(createAnalyzer({ stem: false, numbers: true }).analyze(text)).toEqual(['2024', '٢٠٢٤', 'mp3', '1990s', '23']);
+    expect(createAnalyzer({ stem: false }).analyze(text)).toEqual(['mp3']);
+    expect(createAnalyzer({ stem: false, junk: false }).analyze(text)).toEqual(['mp3', '1990s']);
+    expect(createAnalyzer({ stem: false, numbers: true, junk: false }).analyze(text)).toEqual(['2024', '٢٠٢٤', 'mp3', '1990s', '23']);
+    // numbers: true keeps digit-only tokens even with junk on: they are numbers, not machine-made strings.
+    expect(createAnalyzer({ stem: false, numbers: true }).analyze(text)).toEqual(['2024', '٢٠٢٤', 'mp3', '23']);
   });
 
   it('counts minLength in code points, not UTF-16 units (Gothic letters are two units each)', () => {
@@ -231,11 +263,11 @@ describe('stem cache', () => {
 describe('analyzeWithSurfaces', () => {
   it('returns the normalised, unstemmed word behind each term, index for index (bigrams too)', () => {
     const a = createAnalyzer({ phrases: true });
-    const text = 'Restoring the LAMPS of the keeper’s cottage, 1990s mp3';
+    const text = 'Restoring the LAMPS of the keeper’s cottage, x86s mp3';
     const { terms, surfaces } = a.analyzeWithSurfaces(text);
     expect(terms).toEqual(a.analyze(text));
-    expect(terms.slice(0, 6)).toEqual(['restor', 'lamp', 'keeper', 'cottag', '1990s', 'mp3']);
-    expect(surfaces.slice(0, 6)).toEqual(['restoring', 'lamps', 'keeper', 'cottage', '1990s', 'mp3']);
+    expect(terms.slice(0, 6)).toEqual(['restor', 'lamp', 'keeper', 'cottag', 'x86s', 'mp3']);
+    expect(surfaces.slice(0, 6)).toEqual(['restoring', 'lamps', 'keeper', 'cottage', 'x86s', 'mp3']);
     expect(terms[6]).toBe('restor lamp');
     expect(surfaces[6]).toBe('restoring lamps');
     expect(surfaces).toHaveLength(terms.length);
@@ -244,6 +276,24 @@ describe('analyzeWithSurfaces', () => {
 
 describe('what is not stemmed', () => {
   it('tokens holding a digit (codes, sizes, versions) and segmenter words stay as written', () => {
-    expect(createAnalyzer().analyze('1990s x86s lenses')).toEqual(['1990s', 'x86s', 'lens']);
+    expect(createAnalyzer({ junk: false }).analyze('1990s x86s lenses')).toEqual(['1990s', 'x86s', 'lens']);
+  });
+});
+
+describe('junk tokens', () => {
+  it('isJunkToken: digit-heavy, alternating and hex-like tokens are junk; codes people name things by are not', () => {
+    const junk = ['06t18', '17t18', '1990s', 'h264', 'x86', 'ab12cd34', '6b2fefb9', '2fefb9', 'deadbeef01', 'a1b2c3', '٢٠٢٤x'];
+    const kept = ['mp3', 'ipv6', 'amd64', 'utf8', '3d', 'k8s', '10th', '2nd', 'win32', 'abcdef', 'facade', 'lamp', 'deadbeef'];
+    for (const t of junk) expect(isJunkToken(t), t).toBe(true);
+    for (const t of kept) expect(isJunkToken(t), t).toBe(false);
+  });
+
+  it('the analyzer drops junk tokens, markup words and cleaning placeholders by default, and keeps them with junk: false', () => {
+    const text = 'Lamp&nbsp;order <br> <a href="x">font</a> xnumx xurlx 2029-03-06T18:20 commit 6b2fefb9 mp3';
+    expect(createAnalyzer({ stem: false }).analyze(text)).toEqual(['lamp', 'order', 'font', 'commit', 'mp3']);
+    expect(createAnalyzer({ stem: false, junk: false }).analyze(text)).toEqual([
+      'lamp', 'nbsp', 'order', 'br', 'href', 'font', 'xnumx', 'xurlx', '06t18', 'commit', '6b2fefb9', 'mp3',
+    ]);
+    for (const w of ['nbsp', 'href', 'xnumx', 'xurlx', 'xmailx', 'xidx']) expect(JUNK_WORDS).toContain(w);
   });
 });

@@ -152,10 +152,12 @@ describe('placeholders', () => {
     expect(counts).toEqual({ url: 2, email: 2, id: 7, number: 1 });
   });
 
-  it('are single terms the analyzer keeps as they are, in its main languages', () => {
+  it('are single terms the analyzer keeps as they are with junk: false, in its main languages, and drops by default', () => {
     const words = Object.values(PLACEHOLDERS);
     for (const lang of ['en', 'de', 'fr', 'es', 'nl', 'it', 'pt']) {
-      expect(createAnalyzer({ lang }).analyze(words.join(' '))).toEqual(words);
+      expect(createAnalyzer({ lang, junk: false }).analyze(words.join(' '))).toEqual(words);
+      // By default they are junk: they stand for links, addresses and numbers and name nothing.
+      expect(createAnalyzer({ lang }).analyze(words.join(' '))).toEqual([]);
     }
   });
 });

@@ -250,8 +250,8 @@ function checkInvariants(matrix: Csr, res: KMeansResult, k: number): void {
 describe('resolveKMeansOptions', () => {
   it('merges the documented defaults', () => {
     const speed = { prune: true, miniBatch: 'auto', batchSize: 4096, batchIterations: 200, batchTolerance: 0.001 };
-    expect(DEFAULT_KMEANS_OPTIONS).toEqual({ restarts: 4, maxIterations: 100, seed: 1, ...speed });
-    expect(resolveKMeansOptions({ groups: 3 }, 10)).toEqual({ groups: 3, restarts: 4, maxIterations: 100, seed: 1, ...speed });
+    expect(DEFAULT_KMEANS_OPTIONS).toEqual({ restarts: 10, maxIterations: 100, seed: 1, ...speed });
+    expect(resolveKMeansOptions({ groups: 3 }, 10)).toEqual({ groups: 3, restarts: 10, maxIterations: 100, seed: 1, ...speed });
     expect(
       resolveKMeansOptions(
         { groups: 10, restarts: 1, maxIterations: 5, seed: 4294967295, prune: false, miniBatch: true, batchSize: 1, batchIterations: 1, batchTolerance: 0 },

@@ -153,11 +153,13 @@ describe('on the demo', () => {
     expect(off.unsorted.rows.length).toBe(0);
   });
 
-  it('seed 4 at 8 groups flags one mixed group; splitting it raises NMI against the planted themes', () => {
-    const off = groupDocuments(docs, { groups: 8, seed: 4 });
+  // With today's defaults no seed from 0 to 11 leaves a mixed group at the planted 8 groups; asked for 6 (two
+  // themes must share a group), seed 2 flags one, and splitting it recovers part of the planted structure.
+  it('seed 2 at 6 groups flags one mixed group; splitting it raises NMI against the planted themes', () => {
+    const off = groupDocuments(docs, { groups: 6, seed: 2 });
     expect(Array.from(off.mixed).filter((x) => x === 1)).toHaveLength(1);
-    const split = groupDocuments(docs, { groups: 8, seed: 4, refine: { splitMixed: true } });
-    expect(split.partition.groups).toBe(9);
+    const split = groupDocuments(docs, { groups: 6, seed: 2, refine: { splitMixed: true } });
+    expect(split.partition.groups).toBe(7);
     expect(nmi(split)).toBeGreaterThan(nmi(off) + 0.03);
   });
 });

@@ -221,7 +221,7 @@ describe('options and errors', () => {
     });
     await expect(fitTfidfParallel(['lamp'], {}, { minDf: -2 }, { threads: 2, workerUrl: noWorker })).rejects.toMatchObject({
       option: 'minDf',
-      message: 'minDf must be a whole number >= 1 or a fraction in (0, 1); got -2',
+      message: 'minDf must be a whole number >= 1, a fraction in (0, 1) or auto; got -2',
     });
   });
 

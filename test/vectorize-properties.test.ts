@@ -13,15 +13,16 @@ import type { Csr } from '../src/types.js';
 
 const TERMS = ['a', 'b', 'lamp', 'lens', 'Lamp', 'constructor', '__proto__', 'toString', 'hasOwnProperty', 'é', '\u{1F600}', 'x y'];
 
-const docs = fc.array(fc.array(fc.constantFrom(...TERMS), { maxLength: 12 }), { minLength: 1, maxLength: 25 });
+// Up to 60 documents, so `minDf: 'auto'` is drawn on both sides of its 50-document step.
+const docs = fc.array(fc.array(fc.constantFrom(...TERMS), { maxLength: 12 }), { minLength: 1, maxLength: 60 });
 
 const options: fc.Arbitrary<VectorizeOptions> = fc.record({
-  minDf: fc.oneof(fc.integer({ min: 1, max: 4 }), fc.double({ min: 0.01, max: 0.6, noNaN: true })),
+  minDf: fc.oneof(fc.constant('auto' as const), fc.integer({ min: 1, max: 4 }), fc.double({ min: 0.01, max: 0.6, noNaN: true })),
   maxDf: fc.oneof(fc.double({ min: 0.3, max: 1, noNaN: true }), fc.integer({ min: 2, max: 30 })),
   maxTerms: fc.option(fc.integer({ min: 1, max: 12 }), { nil: null }),
 })
   // Same-kind limits that cross are rejected by resolveVectorizeOptions (tested in vectorize.test.ts).
-  .filter((o) => (o.minDf < 1) !== (o.maxDf <= 1) || o.maxDf >= o.minDf);
+  .filter((o) => o.minDf === 'auto' || (o.minDf < 1) !== (o.maxDf <= 1) || o.maxDf >= o.minDf);
 
 interface Reference {
   terms: string[];
@@ -39,10 +40,13 @@ function reference(input: string[][], o: VectorizeOptions): Reference | null {
     for (const t of new Set(d)) df.set(t, (df.get(t) ?? 0) + 1);
     for (const t of d) total.set(t, (total.get(t) ?? 0) + 1);
   }
+  // minDf 'auto', as documented: from 50 documents on, at least 2 documents; below, no floor.
+  const minDf = o.minDf === 'auto' ? (n >= 50 ? 2 : 1) : o.minDf;
+  const maxDf = o.maxDf;
   let terms = [...df.keys()].filter((t) => {
     const f = df.get(t)!;
-    const okMin = o.minDf < 1 ? f / n >= o.minDf : f >= o.minDf;
-    const okMax = o.maxDf <= 1 ? f / n <= o.maxDf : f <= o.maxDf;
+    const okMin = minDf < 1 ? f / n >= minDf : f >= minDf;
+    const okMax = maxDf <= 1 ? f / n <= maxDf : f <= maxDf;
     return okMin && okMax;
   });
   if (o.maxTerms !== null) {

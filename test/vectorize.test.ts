@@ -4,7 +4,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import {
+  ADAPTIVE_DF_MIN_DOCS,
   DEFAULT_VECTORIZE_OPTIONS,
+  adaptiveDocumentFrequency,
   MATRIX_MARKET_HEADER,
   createVocabulary,
   fitTfidf,
@@ -29,20 +31,43 @@ function usageError(f: () => unknown): UsageError {
 }
 
 describe('options', () => {
-  it('defaults keep every term', () => {
-    expect(DEFAULT_VECTORIZE_OPTIONS).toEqual({ minDf: 1, maxDf: 1, maxTerms: null });
+  it('defaults: a floor that adapts to the pile (minDf auto), no maxDf or maxTerms limit', () => {
+    expect(DEFAULT_VECTORIZE_OPTIONS).toEqual({ minDf: 'auto', maxDf: 1, maxTerms: null });
     expect(resolveVectorizeOptions()).toEqual(DEFAULT_VECTORIZE_OPTIONS);
     expect(resolveVectorizeOptions({ minDf: undefined, maxTerms: undefined })).toEqual(DEFAULT_VECTORIZE_OPTIONS);
     expect(resolveVectorizeOptions({ minDf: 0.2, maxDf: 40, maxTerms: 5 })).toEqual({ minDf: 0.2, maxDf: 40, maxTerms: 5 });
   });
 
+  it('minDf auto: from 50 documents on, terms found in one document are left out; below 50, none are', () => {
+    expect(ADAPTIVE_DF_MIN_DOCS).toBe(50);
+    expect(adaptiveDocumentFrequency(49)).toBe(1);
+    expect(adaptiveDocumentFrequency(50)).toBe(2);
+    expect(adaptiveDocumentFrequency(1_000_000)).toBe(2);
+    // Every document: 'lamp', a word of its own, 'lens' in every other one, 'keeper' in the first two.
+    const pile = (n: number): string[][] =>
+      Array.from({ length: n }, (_, i) => ['lamp', `only${i}`, ...(i % 2 === 0 ? ['lens'] : []), ...(i < 2 ? ['keeper'] : [])]);
+    expect(fitTfidf(pile(50)).vocabulary.terms).toEqual(['keeper', 'lamp', 'lens']);
+    expect(fitTfidf(pile(50), { minDf: 1 }).vocabulary.terms).toHaveLength(3 + 50);
+    expect(fitTfidf(pile(49)).vocabulary.terms).toHaveLength(3 + 49);
+    expect(resolveVectorizeOptions({ minDf: 'auto', maxDf: 0.3 })).toEqual({ minDf: 'auto', maxDf: 0.3, maxTerms: null });
+    const e = (() => {
+      try {
+        fitTfidf(Array.from({ length: 60 }, (_, i) => [`only${i}`]));
+      } catch (err) {
+        return err as Error;
+      }
+      throw new Error('expected a UsageError');
+    })();
+    expect(e.message).toBe('no terms left after pruning (minDf auto (2), maxDf 1, maxTerms none) over 60 documents; lower minDf or raise maxDf');
+  });
+
   it('rejects bad values with exact one-line messages', () => {
     const cases: [unknown, string, string | undefined][] = [
-      [{ minDf: -2 }, 'minDf must be a whole number >= 1 or a fraction in (0, 1); got -2', 'minDf'],
-      [{ minDf: 0 }, 'minDf must be a whole number >= 1 or a fraction in (0, 1); got 0', 'minDf'],
-      [{ minDf: 2.5 }, 'minDf must be a whole number >= 1 or a fraction in (0, 1); got 2.5', 'minDf'],
-      [{ minDf: Number.NaN }, 'minDf must be a whole number >= 1 or a fraction in (0, 1); got NaN', 'minDf'],
-      [{ minDf: '2' }, 'minDf must be a whole number >= 1 or a fraction in (0, 1); got "2"', 'minDf'],
+      [{ minDf: -2 }, 'minDf must be a whole number >= 1, a fraction in (0, 1) or auto; got -2', 'minDf'],
+      [{ minDf: 0 }, 'minDf must be a whole number >= 1, a fraction in (0, 1) or auto; got 0', 'minDf'],
+      [{ minDf: 2.5 }, 'minDf must be a whole number >= 1, a fraction in (0, 1) or auto; got 2.5', 'minDf'],
+      [{ minDf: Number.NaN }, 'minDf must be a whole number >= 1, a fraction in (0, 1) or auto; got NaN', 'minDf'],
+      [{ minDf: '2' }, 'minDf must be a whole number >= 1, a fraction in (0, 1) or auto; got "2"', 'minDf'],
       [{ maxDf: 0 }, 'maxDf must be a fraction in (0, 1] or a whole number > 1; got 0', 'maxDf'],
       [{ maxDf: 1.5 }, 'maxDf must be a fraction in (0, 1] or a whole number > 1; got 1.5', 'maxDf'],
       [{ maxDf: Number.POSITIVE_INFINITY }, 'maxDf must be a fraction in (0, 1] or a whole number > 1; got Infinity', 'maxDf'],

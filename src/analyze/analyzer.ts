@@ -8,8 +8,10 @@
  * 3. apostrophe rules of the language (English possessive `'s`,
  *    French/Italian/Catalan elisions);
  * 4. drop tokens shorter than `minLength` code points (segmenter words
- *    exempt) and, unless `numbers`, tokens made only of digits;
- * 5. drop stop words (the language's `stopword` list plus the user's),
+ *    exempt), unless `numbers`, tokens made only of digits, and with
+ *    `junk`, machine-made tokens with digits ({@link isJunkToken});
+ * 5. drop stop words (the language's built-in list plus the user's, and
+ *    with `junk` the markup words and placeholders of {@link JUNK_WORDS}),
  *    compared on the normalised surface form;
  * 6. stem with natural's stemmer for the language (cached per analyzer);
  *    tokens holding a number character (`mp3`, `1990s`) and words from the
@@ -19,6 +21,7 @@
  * @module
  */
 
+import { isJunkToken, JUNK_WORDS } from './junk.js';
 import { builtInStopwords, dropsPossessiveS, elisionsFor, stemmerFor, type StemFunction } from './languages.js';
 import { resolveAnalyzerOptions, type AnalyzerOptions, type AnalyzerSettings } from './options.js';
 import {
@@ -62,13 +65,14 @@ const STEM_CACHE_LIMIT = 200_000;
  */
 export function createAnalyzer(options?: Partial<AnalyzerOptions>): Analyzer {
   const settings = resolveAnalyzerOptions(options);
-  const { lang, minLength, numbers, phrases } = settings;
+  const { lang, minLength, numbers, phrases, junk } = settings;
 
   const stop = new Set<string>(settings.stopwords);
   for (const w of builtInStopwords(lang)) {
     const n = normalizeTerm(w);
     if (n !== '') stop.add(n);
   }
+  if (junk) for (const w of JUNK_WORDS) stop.add(w);
   const elisions = elisionsFor(lang);
   const possessive = dropsPossessiveS(lang);
   const stemmer: StemFunction | null = settings.stem ? stemmerFor(lang) : null;
@@ -112,6 +116,7 @@ export function createAnalyzer(options?: Partial<AnalyzerOptions>): Analyzer {
     }
     if (codePoints < minLength) return;
     if (numeric && !numbers) return;
+    if (junk && !numeric && (any & NUMERIC) !== 0 && isJunkToken(t)) return;
     keep(t, (any & NUMERIC) === 0 || !HAS_DIGIT_RE.test(t));
   };
   /** A word found by the segmenter: exempt from `minLength`. */

@@ -7,6 +7,7 @@
  */
 
 import stopwordLists from 'stopword';
+import { ENGLISH_STOPWORDS } from './stopwords-en.js';
 import porterEn from 'natural/lib/natural/stemmers/porter_stemmer.js';
 import stemmerDe from 'natural/lib/natural/stemmers/porter_stemmer_de.js';
 import stemmerEs from 'natural/lib/natural/stemmers/porter_stemmer_es.js';
@@ -72,13 +73,21 @@ export const SUPPORTED_LANGUAGES: readonly string[] = Object.freeze([...STOPWORD
  */
 export const STEMMING_LANGUAGES: readonly string[] = Object.freeze([...STEMMERS.keys()].sort());
 
-/** The stop words of a supported language, as listed by the `stopword` package (not yet normalised). */
+/** Languages with a stop list of sheaf's own, used together with the `stopword` package's. */
+const OWN_STOPWORDS: ReadonlyMap<string, readonly string[]> = new Map([['en', ENGLISH_STOPWORDS]]);
+
+/**
+ * The stop words of a supported language (not yet normalised): the
+ * `stopword` package's list, and for English also sheaf's own fuller list
+ * (`stopwords-en.ts`: negations, question words, contractions, ...).
+ */
 export function builtInStopwords(lang: string): readonly string[] {
   const key = STOPWORD_KEYS.get(lang);
   if (key === undefined) return [];
   const list: unknown = stopwordLists[key];
-  if (!Array.isArray(list)) return [];
-  return list.filter((w): w is string => typeof w === 'string');
+  const words = Array.isArray(list) ? list.filter((w): w is string => typeof w === 'string') : [];
+  const own = OWN_STOPWORDS.get(lang);
+  return own ? [...new Set([...own, ...words])] : words;
 }
 
 /** natural's stemmer for a language, or `null` when it has none. */

@@ -23,9 +23,15 @@ export interface AnalyzerOptions {
   phrases: boolean;
   /** Extra stop words, in addition to the language's built-in list. Normalised like the text. */
   stopwords: readonly string[];
+  /**
+   * Drop tokens that name nothing in any language: machine-made strings with
+   * digits (hashes, ids, date fragments; see `isJunkToken`), markup and
+   * navigation words (`nbsp`, `href`) and the cleaning placeholders.
+   */
+  junk: boolean;
 }
 
-/** The analyzer's defaults: English, stemming on, tokens of 2+ code points, digit-only tokens dropped, no bigrams, no extra stop words. */
+/** The analyzer's defaults: English, stemming on, tokens of 2+ code points, digit-only tokens and junk tokens dropped, no bigrams, no extra stop words. */
 export const DEFAULT_ANALYZER_OPTIONS: AnalyzerOptions = Object.freeze({
   lang: 'en',
   stem: true,
@@ -33,6 +39,7 @@ export const DEFAULT_ANALYZER_OPTIONS: AnalyzerOptions = Object.freeze({
   numbers: false,
   phrases: false,
   stopwords: Object.freeze([]) as readonly string[],
+  junk: true,
 });
 
 /**
@@ -70,6 +77,7 @@ export function resolveAnalyzerOptions(partial?: Partial<AnalyzerOptions>): Anal
   const stem = boolOption('stem', pick(partial.stem, d.stem));
   const numbers = boolOption('numbers', pick(partial.numbers, d.numbers));
   const phrases = boolOption('phrases', pick(partial.phrases, d.phrases));
+  const junk = boolOption('junk', pick(partial.junk, d.junk));
   const minLength: unknown = pick(partial.minLength, d.minLength);
   if (typeof minLength !== 'number' || !Number.isInteger(minLength) || minLength < 1) {
     throw new UsageError(`minLength must be a whole number >= 1; got ${show(minLength)}`, 'minLength');
@@ -94,6 +102,7 @@ export function resolveAnalyzerOptions(partial?: Partial<AnalyzerOptions>): Anal
     numbers,
     phrases,
     stopwords: Object.freeze([...stopwords].sort()),
+    junk,
   });
 }
 

@@ -143,7 +143,7 @@ export function addAnalysisFlags(cmd: Command): Command {
     .option('--min-length <n>', 'shortest term kept, in characters')
     .option('--numbers', 'keep numbers as terms')
     .option('--phrases', 'add two-word phrases as terms')
-    .option('--min-df <n>', 'drop terms in fewer documents than this (a count, or a share below 1)')
+    .option('--min-df <n>', 'drop terms in fewer documents than this (a count, a share below 1, or auto: 2 from 50 documents up, default)')
     .option('--max-df <n>', 'drop terms in more documents than this (a share up to 1, or a count)')
     .option('--max-terms <n>', 'keep at most this many terms, the most frequent');
 }
@@ -192,7 +192,7 @@ export async function analysisOptionsFromFlags(flags: GroupFlags, io: CliIo): Pr
       stopwords: flags.stopwords ? await readStopwords(flags.stopwords, io.cwd) : [],
     },
     vectorize: {
-      minDf: decimal(flags.minDf, 'minDf'),
+      minDf: flags.minDf === 'auto' ? 'auto' : decimal(flags.minDf, 'minDf'),
       maxDf: decimal(flags.maxDf, 'maxDf'),
       maxTerms: wholeNumber(flags.maxTerms, 'maxTerms'),
     },

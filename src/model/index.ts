@@ -101,6 +101,8 @@ const analyzerSchema = z.strictObject({
   numbers: z.boolean(),
   phrases: z.boolean(),
   stopwords: z.array(z.string().max(200)).max(100_000),
+  /** Absent in models written before junk tokens were dropped: read as false. */
+  junk: z.boolean().optional(),
 });
 
 const termSchema = z.strictObject({ term: z.string(), weight: z.number() });
@@ -169,6 +171,7 @@ export function modelToJson(src: ModelSource): string {
       numbers: src.analyzer.numbers,
       phrases: src.analyzer.phrases,
       stopwords: [...src.analyzer.stopwords],
+      junk: src.analyzer.junk,
     },
     vocabulary: {
       documents: src.vocabulary.docCount,
@@ -255,7 +258,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   return {
     createdBy: m.createdBy,
     cleaning: m.cleaning ? resolveCleanStage({ ...m.cleaning.rules, mode: m.cleaning.mode }) : DEFAULT_CLEAN_STAGE,
-    analyzer: Object.freeze({ ...m.analyzer, stopwords: Object.freeze([...m.analyzer.stopwords]) }),
+    analyzer: Object.freeze({ ...m.analyzer, junk: m.analyzer.junk ?? false, stopwords: Object.freeze([...m.analyzer.stopwords]) }),
     vocabulary,
     groups: m.groups,
     centroids,

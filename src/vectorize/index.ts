@@ -6,7 +6,10 @@
  */
 
 export {
+  ADAPTIVE_DF_MIN_DOCS,
   DEFAULT_VECTORIZE_OPTIONS,
+  adaptiveDocumentFrequency,
+  effectiveMinDf,
   resolveVectorizeOptions,
   type VectorizeOptions,
 } from './options.js';

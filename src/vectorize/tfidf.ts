@@ -18,7 +18,7 @@ import type { Csr } from '../types.js';
 import { UsageError } from '../util/errors.js';
 import { Float32Buffer, IntBuffer } from './buffers.js';
 import { TermCollector, type TermSegment } from './collect.js';
-import { isShare, resolveVectorizeOptions, type VectorizeOptions } from './options.js';
+import { effectiveMinDf, isShare, resolveVectorizeOptions, type VectorizeOptions } from './options.js';
 import { smoothIdf, weightInPlace } from './weight.js';
 
 /**
@@ -137,15 +137,17 @@ class RowWriter {
   }
 }
 
-function describe(o: VectorizeOptions): string {
-  return `minDf ${o.minDf}, maxDf ${o.maxDf}, maxTerms ${o.maxTerms === null ? 'none' : o.maxTerms}`;
+function describe(o: VectorizeOptions, minDf: number): string {
+  return `minDf ${o.minDf === 'auto' ? `auto (${minDf})` : o.minDf}, maxDf ${o.maxDf}, maxTerms ${o.maxTerms === null ? 'none' : o.maxTerms}`;
 }
 
 /**
  * Fits a vocabulary on `termLists` (one term list per document, e.g. from
  * an analyzer) and returns it with the TF-IDF matrix of those documents.
  *
- * Terms are kept when their document frequency passes `minDf` and `maxDf`;
+ * Terms are kept when their document frequency passes `minDf` and `maxDf`
+ * (`minDf: 'auto'` is set from the number of documents, see
+ * `adaptiveDocumentFrequency`);
  * then, if `maxTerms` is set, the `maxTerms` with the most occurrences
  * (ties by term order). Columns are in term order. Row weights: sublinear
  * tf `1 + ln(tf)` times smoothed idf, L2-normalised, computed in float64
@@ -194,14 +196,16 @@ export function fitCollected(names: readonly string[], segments: readonly TermSe
   }
 
   // 2. Prune by document frequency, then by total count.
-  const minShare = isShare(opts.minDf, 'minDf');
-  const maxShare = isShare(opts.maxDf, 'maxDf');
+  const minDf = effectiveMinDf(opts, n);
+  const maxDf = opts.maxDf;
+  const minShare = isShare(minDf, 'minDf');
+  const maxShare = isShare(maxDf, 'maxDf');
   let kept = new Int32Array(names.length);
   let keptCount = 0;
   for (let id = 0; id < names.length; id++) {
     const f = df[id]!;
-    if (minShare ? f / n < opts.minDf : f < opts.minDf) continue;
-    if (maxShare ? f / n > opts.maxDf : f > opts.maxDf) continue;
+    if (minShare ? f / n < minDf : f < minDf) continue;
+    if (maxShare ? f / n > maxDf : f > maxDf) continue;
     kept[keptCount++] = id;
   }
   kept = kept.subarray(0, keptCount);
@@ -211,7 +215,7 @@ export function fitCollected(names: readonly string[], segments: readonly TermSe
   }
   if (kept.length === 0) {
     throw new UsageError(
-      `no terms left after pruning (${describe(opts)}) over ${n} documents; lower minDf or raise maxDf`,
+      `no terms left after pruning (${describe(opts, minDf)}) over ${n} documents; lower minDf or raise maxDf`,
       'minDf',
     );
   }
