@@ -7,10 +7,16 @@
  * For A (n rows × m terms, CSR) and l = d + p columns (§4.2, oversampling p):
  *
  * 1. Stage A, Algorithm 4.4 (randomized subspace iteration): draw a Gaussian
- *    Ω (m × l); Y₀ = AΩ, Q₀ = orth(Y₀); for j = 1..q: Ỹⱼ = AᵀQⱼ₋₁,
- *    Q̃ⱼ = orth(Ỹⱼ), Yⱼ = AQ̃ⱼ, Qⱼ = orth(Yⱼ). Orthonormalising after every
- *    product keeps the small singular directions from drowning in rounding
- *    (§4.5, the remark after Algorithm 4.4).
+ *    Ω (m × l); Y₀ = AΩ, Q₀ = orth(Y₀); for j = 1..q: Yⱼ = A(AᵀQⱼ₋₁),
+ *    Qⱼ = orth(Yⱼ). Algorithm 4.4 orthonormalises after each of A and Aᵀ
+ *    (§4.5: without it, directions with σⱼ/σ₁ below ε^(1/(2q+1)) drown in
+ *    rounding); we orthonormalise once per power step, on the side with fewer
+ *    rows (n ≤ m: as written; n > m: Q̃ⱼ = orth(AᵀAQ̃ⱼ₋₁) from Q̃₀ = Ω, then
+ *    Q = orth(AQ̃_q)). The block is then at most (σ₁/σₗ)²-conditioned before
+ *    each orthonormalisation, so only directions with σⱼ/σ₁ below √ε ≈ 1e-8
+ *    are lost — far below any component kept for grouping — at half the
+ *    orthonormalisations, which dominate the cost (2·rows·l² each against
+ *    2·nnz·l per product).
  * 2. Stage B, Algorithm 5.1 (direct SVD): B = QᵀA (l × m), B = ŨΣVᵀ. B is
  *    wide, so we take its transpose Bᵀ = AᵀQ (m × l), factor it as Q̂R̂ on the
  *    typed arrays, and take the SVD of the small R̂ᵀ = ŨΣŴᵀ with ml-matrix;
@@ -94,15 +100,109 @@ export function multiplyCsrTransposeDense(a: Csr, y: Float64Array, l: number, ou
   }
 }
 
+/** Work space of {@link orthonormalize} for blocks l columns wide, allocated once per decomposition. */
+export interface OrthWorkspace {
+  readonly l: number;
+  /** The triangular factor of the last call (l × l, row-major, upper). */
+  readonly r: Float64Array;
+  readonly dots: Float64Array;
+  readonly gram: Float64Array;
+  readonly first: Float64Array;
+}
+
+/** Allocates an {@link OrthWorkspace}. */
+export function createOrthWorkspace(l: number): OrthWorkspace {
+  return { l, r: new Float64Array(l * l), dots: new Float64Array(l), gram: new Float64Array(l * l), first: new Float64Array(l * l) };
+}
+
 /**
- * Orthonormalises the columns of a row-major `rows × l` block in place
- * (classical Gram–Schmidt, twice per column) and writes the triangular factor
- * to `r` (l × l, row-major, upper): block_before = block_after · R. `dots` is
- * a scratch of length l. A column left with (relatively) no length is
- * replaced by a random unit direction orthogonal to the earlier ones, with
- * R's diagonal entry set to the tiny length that was left.
+ * Orthonormalises the columns of a row-major `rows × l` block in place and
+ * leaves the triangular factor in `ws.r` (l × l, row-major, upper):
+ * block_before = block_after · R. First tries Cholesky QR twice
+ * (CholeskyQR2: Fukaya, Nakatsukasa, Yanagisawa & Yamamoto 2014), which walks
+ * the block four times whatever l is and is accurate when the block is well
+ * conditioned (a pivot-ratio estimate below {@link CHOLESKY_QR_CONDITION}) —
+ * the usual case here, since every product is applied to an orthonormal
+ * block; otherwise classical Gram–Schmidt twice ({@link gramSchmidtTwice}),
+ * which also copes with rank deficiency.
  */
-export function orthonormalize(q: Float64Array, rows: number, l: number, r: Float64Array, dots: Float64Array, rng: Rng): void {
+export function orthonormalize(q: Float64Array, rows: number, ws: OrthWorkspace, rng: Rng): void {
+  const { l, r, dots, gram, first } = ws;
+  if (!choleskyQrStep(q, rows, l, first, gram)) {
+    gramSchmidtTwice(q, rows, l, r, dots, rng);
+    return;
+  }
+  // Second step on the nearly orthonormal block; R = R₂R₁.
+  if (!choleskyQrStep(q, rows, l, gram, r)) gramSchmidtTwice(q, rows, l, gram, dots, rng);
+  multiplyUpper(gram, first, l, r);
+}
+
+/** Largest condition estimate (ratio of Cholesky pivots, squared root of the Gram's) accepted by Cholesky QR. */
+export const CHOLESKY_QR_CONDITION = 1e5;
+
+/** out = a · b for upper triangular l × l row-major matrices. */
+function multiplyUpper(a: Float64Array, b: Float64Array, l: number, out: Float64Array): void {
+  for (let i = 0; i < l; i++) {
+    for (let j = 0; j < l; j++) {
+      let s = 0;
+      for (let k = i; k <= j; k++) s += a[i * l + k]! * b[k * l + j]!;
+      out[i * l + j] = j >= i ? s : 0;
+    }
+  }
+}
+
+/**
+ * One Cholesky QR step: G = QᵀQ, G = RᵀR, Q ← QR⁻¹. Returns false (block
+ * untouched) when a pivot says the block is too ill-conditioned.
+ */
+function choleskyQrStep(q: Float64Array, rows: number, l: number, r: Float64Array, g: Float64Array): boolean {
+  g.fill(0, 0, l * l);
+  for (let i = 0; i < rows; i++) {
+    const o = i * l;
+    for (let a = 0; a < l; a++) {
+      const x = q[o + a]!;
+      if (x === 0) continue;
+      const ga = a * l;
+      for (let b = a; b < l; b++) g[ga + b]! += x * q[o + b]!;
+    }
+  }
+  // Cholesky G = RᵀR, R upper, into r.
+  r.fill(0, 0, l * l);
+  let maxPivot = 0;
+  for (let j = 0; j < l; j++) {
+    let s = g[j * l + j]!;
+    for (let k = 0; k < j; k++) s -= r[k * l + j]! ** 2;
+    if (!(s > 0)) return false;
+    const p = Math.sqrt(s);
+    if (p > maxPivot) maxPivot = p;
+    if (p * CHOLESKY_QR_CONDITION < maxPivot) return false;
+    r[j * l + j] = p;
+    for (let c = j + 1; c < l; c++) {
+      let t = g[j * l + c]!;
+      for (let k = 0; k < j; k++) t -= r[k * l + j]! * r[k * l + c]!;
+      r[j * l + c] = t / p;
+    }
+  }
+  for (let j = 0; j < l; j++) if (r[j * l + j]! * CHOLESKY_QR_CONDITION < maxPivot) return false;
+  // Q ← QR⁻¹ row by row: solve xR = q (forward substitution over the columns).
+  for (let i = 0; i < rows; i++) {
+    const o = i * l;
+    for (let c = 0; c < l; c++) {
+      let t = q[o + c]!;
+      for (let k = 0; k < c; k++) t -= q[o + k]! * r[k * l + c]!;
+      q[o + c] = t / r[c * l + c]!;
+    }
+  }
+  return true;
+}
+
+/**
+ * Classical Gram–Schmidt applied twice per column ("twice is enough":
+ * Giraud, Langou & Rozložník 2005), with R in `r`. A column left with
+ * (relatively) no length is replaced by a random unit direction orthogonal to
+ * the earlier ones, with R's diagonal entry set to the tiny length that was left.
+ */
+export function gramSchmidtTwice(q: Float64Array, rows: number, l: number, r: Float64Array, dots: Float64Array, rng: Rng): void {
   r.fill(0, 0, l * l);
   for (let j = 0; j < l; j++) {
     const before = columnNorm(q, rows, l, j);
@@ -184,25 +284,33 @@ export function truncatedSvd(matrix: Csr, options: Partial<ReduceOptions>, rng: 
   const l = Math.min(d + o.oversampling, n, m);
   const omega = new Float64Array(m * l); // Ω, then Q̃ⱼ, then Bᵀ and Q̂ (m × l)
   const y = new Float64Array(n * l); // Yⱼ, then Qⱼ (n × l)
-  const r = new Float64Array(l * l);
-  const dots = new Float64Array(l);
+  const ws = createOrthWorkspace(l);
 
-  // Stage A: Algorithm 4.4.
+  // Stage A: Algorithm 4.4, orthonormalising once per power step, on the side with fewer rows.
   fillGaussian(omega, rng);
-  multiplyCsrDense(matrix, omega, l, y);
-  orthonormalize(y, n, l, r, dots, rng);
-  for (let it = 0; it < o.powerIterations; it++) {
-    multiplyCsrTransposeDense(matrix, y, l, omega);
-    orthonormalize(omega, m, l, r, dots, rng);
+  if (n <= m) {
     multiplyCsrDense(matrix, omega, l, y);
-    orthonormalize(y, n, l, r, dots, rng);
+    orthonormalize(y, n, ws, rng);
+    for (let it = 0; it < o.powerIterations; it++) {
+      multiplyCsrTransposeDense(matrix, y, l, omega);
+      multiplyCsrDense(matrix, omega, l, y);
+      orthonormalize(y, n, ws, rng);
+    }
+  } else {
+    for (let it = 0; it < o.powerIterations; it++) {
+      multiplyCsrDense(matrix, omega, l, y);
+      multiplyCsrTransposeDense(matrix, y, l, omega);
+      orthonormalize(omega, m, ws, rng);
+    }
+    multiplyCsrDense(matrix, omega, l, y);
+    orthonormalize(y, n, ws, rng);
   }
 
   // Stage B: Algorithm 5.1 on Bᵀ = AᵀQ = Q̂R̂, so B = R̂ᵀQ̂ᵀ.
   multiplyCsrTransposeDense(matrix, y, l, omega);
-  orthonormalize(omega, m, l, r, dots, rng);
+  orthonormalize(omega, m, ws, rng);
   const rt = new Matrix(l, l);
-  for (let i = 0; i < l; i++) for (let j = 0; j < l; j++) rt.set(j, i, r[i * l + j]!);
+  for (let i = 0; i < l; i++) for (let j = 0; j < l; j++) rt.set(j, i, ws.r[i * l + j]!);
   const svd = new SingularValueDecomposition(rt, { computeLeftSingularVectors: false, computeRightSingularVectors: true, autoTranspose: false });
   const sigma = svd.diagonal;
   const w = svd.rightSingularVectors; // l × l, column j is Ŵ's j-th right singular vector
