@@ -39,6 +39,7 @@ import {
   type LabelOptions,
 } from './label/index.js';
 import { UsageError, show } from './util/errors.js';
+import { reduceForGrouping, resolveReduceSetting, termSpacePartition, type ReduceOptions, type ReducedGrouping } from './reduce/index.js';
 
 /** How groups are formed. */
 export type GroupMethod = 'kmeans' | 'agglomerative';
@@ -75,6 +76,8 @@ export interface GroupOptions {
   readonly kmeans?: Partial<Omit<KMeansOptions, 'groups'>> & { readonly groups?: number | 'auto' };
   readonly tree?: Partial<TreeOptions>;
   readonly label?: Partial<LabelOptions>;
+  /** Group in reduced vectors (truncated SVD of the TF-IDF rows): `true` or options; absent or `false` = TF-IDF rows (the default). */
+  readonly reduce?: Partial<ReduceOptions> | boolean;
 }
 
 /** Every stage's options after defaults were merged and values validated. */
@@ -88,6 +91,8 @@ export interface ResolvedGroupOptions {
   readonly kmeans: Omit<KMeansOptions, 'groups'>;
   readonly tree: TreeOptions;
   readonly label: LabelOptions;
+  /** Reduction before grouping, or null for none. */
+  readonly reduce: ReduceOptions | null;
 }
 
 /** Hooks the edges pass in; all optional. */
@@ -153,6 +158,8 @@ export interface GroupResult {
   /** Rows (document indices) with no terms left after analysis and pruning; they are in no group. */
   readonly emptyRows: Int32Array;
   readonly timings: readonly StageTiming[];
+  /** With `reduce`: the decomposition, the reduced rows and the reduced centres the groups were formed on (partition.centroids are term-space). */
+  readonly reduced: ReducedGrouping | null;
 }
 
 const METHODS: readonly GroupMethod[] = ['kmeans', 'agglomerative'];
@@ -209,6 +216,7 @@ export function resolveGroupOptions(options: GroupOptions): ResolvedGroupOptions
     kmeans,
     tree,
     label,
+    reduce: resolveReduceSetting(options.reduce),
   };
 }
 
@@ -321,11 +329,16 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
   if (typeof resolved.groups === 'number') resolveKMeansOptions({ ...resolved.kmeans, groups: resolved.groups }, nonEmpty);
   else resolveKMeansOptions({ ...resolved.kmeans, groups: 2 }, nonEmpty);
 
+  // Reduced vectors: groups are formed on the reduced rows, then named (and treed) from TF-IDF centroids.
+  const reduce = resolved.reduce;
+  const space = reduce ? time('reduce', nonEmpty, () => reduceForGrouping(matrix, reduce, resolved.kmeans.seed, nonEmpty)) : null;
   const tForm = now();
   const formed =
-    resolved.method === 'kmeans' ? yield* formByKMeans(matrix, nonEmpty, resolved, hooks) : formByDocumentTree(matrix, nonEmpty, resolved);
+    resolved.method === 'kmeans'
+      ? yield* formByKMeans(space?.matrix ?? matrix, nonEmpty, resolved, hooks)
+      : formByDocumentTree(space?.matrix ?? matrix, nonEmpty, resolved);
   timings.push({ stage: resolved.method === 'kmeans' ? 'k-means' : 'agglomerative', ms: now() - tForm, items: nonEmpty });
-  const { partition } = formed;
+  const partition = space ? termSpacePartition(matrix, formed.partition) : formed.partition;
   const k = partition.groups;
 
   const tree = time('tree', nonEmpty, () => groupAverageLink(matrix, partition.assignments, k));
@@ -359,6 +372,7 @@ function* groupSteps(input: readonly Doc[], options: GroupOptions, hooks: Pipeli
     groups,
     emptyRows: Int32Array.from(empty),
     timings,
+    reduced: space ? { ...space, centroids: formed.partition.centroids } : null,
   };
 }
 

@@ -77,7 +77,9 @@ describe('model.json and sheaf assign', () => {
     expect(refuse(good)).toBe('accepted');
     expect(refuse('{"format": "sheaf-model",')).toMatch(/^m\.json is not valid JSON \(/);
     expect(refuse({ hello: 1 })).toBe('m.json is not a sheaf model (no "format": "sheaf-model")');
-    expect(refuse({ ...good, version: 2 })).toBe('m.json has model version 2; this sheaf reads version 1');
+    expect(good.version).toBe(1); // no reduction: still written as version 1, which older readers read
+    expect(refuse({ ...good, version: 3 })).toBe('m.json has model version 3; this sheaf reads versions 1 and 2');
+    expect(refuse({ ...good, version: 2 })).toBe('m.json is damaged: version 2 needs reduce');
     expect(refuse({ ...good, groups: 7 })).toBe(`m.json is damaged: centroids hold ${good.vocabulary.terms.length * 8} values; ${good.vocabulary.terms.length} terms × 7 groups need ${good.vocabulary.terms.length * 7}`);
     expect(refuse({ ...good, vocabulary: { ...good.vocabulary, df: good.vocabulary.df.slice(1) } })).toBe(
       `m.json is damaged: vocabulary.df has ${good.vocabulary.terms.length - 1} entries for ${good.vocabulary.terms.length} terms`,

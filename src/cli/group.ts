@@ -35,7 +35,7 @@ import { assertReplaceable, writeOutputFolder, type FileContent } from '../repor
 import { toMatrixMarket } from '../vectorize/index.js';
 import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../near-copies.js';
 import { duplicatesCsv, duplicatesJson } from '../report/duplicates.js';
-import { modelToJson } from '../model/index.js';
+import { modelReduction, modelToJson } from '../model/index.js';
 import { renderReport } from '../report/html.js';
 import { reportFromRun } from '../report/report-from-run.js';
 import { UsageError } from '../util/errors.js';
@@ -76,6 +76,7 @@ export interface GroupFlags {
   truth?: string;
   threads?: string;
   memory?: string;
+  reduce?: string | false;
   duplicates?: string | false;
   report?: boolean;
   out: string;
@@ -176,6 +177,8 @@ export function addGroupingFlags(cmd: Command, groupsHelp: string): Command {
     .option('--seed <n>', 'random seed; the same seed and input give the same output')
     .option('--terms <n>', 'terms listed per group')
     .option('--truth <field>', 'compare the groups with a column of known labels')
+    .option('--reduce <dims>', 'group in reduced vectors: a truncated SVD (latent semantic analysis) of the TF-IDF rows, kept to this many dimensions; names still come from the terms')
+    .option('--no-reduce', 'group on the TF-IDF rows themselves (the default)')
     .option('--threads <n>', 'threads for k-means on large inputs (default: up to 2, the cores there are)')
     .option('--memory <size>', 'refuse to start what would need more memory than this, like 8G (default: 60% of the machine)');
 }
@@ -298,10 +301,12 @@ export async function groupOptionsFromFlags(
       seed: wholeNumber(flags.seed, 'seed'),
     },
     label: { terms: wholeNumber(flags.terms, 'terms') },
+    ...(flags.reduce !== undefined ? { reduce: flags.reduce === false ? false : { dims: wholeNumber(flags.reduce, 'reduce') } } : {}),
   };
   try {
     resolveGroupOptions(group);
   } catch (err) {
+    reduceFlagError(err);
     // The library calls the sample size sampleSize; the flag is --sample.
     if (err instanceof UsageError && err.option === 'sampleSize') {
       throw new UsageError(err.message.replace(/^sampleSize/, 'sample'), 'sample');
@@ -309,6 +314,11 @@ export async function groupOptionsFromFlags(
     throw err;
   }
   return { ingest: ingestOptions, group };
+}
+
+/** The reduction's dims are given as --reduce: rethrows a dims error under that name. */
+function reduceFlagError(err: unknown): void {
+  if (err instanceof UsageError && err.option === 'dims') throw new UsageError(err.message.replace(/^dims/, 'reduce'), 'reduce');
 }
 
 /** Options of the near-copy search a grouping run adds with `--duplicates t` (the flag names the threshold). */
@@ -365,6 +375,9 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   let result: GroupResult;
   try {
     result = await groupDocumentsAsync(docs, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t) });
+  } catch (err) {
+    reduceFlagError(err);
+    throw err;
   } finally {
     progress.done();
   }
@@ -411,6 +424,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
         fit: result.partition.fit,
         labels: result.groups.map((g) => ({ id: g.id, label: g.label, terms: g.terms.map((t) => ({ term: t.term, weight: round(t.weight, 6) })), size: g.size })),
         tree: groupsDoc.tree,
+        ...(result.reduced ? { reduce: modelReduction(result.reduced) } : {}),
       }),
     );
     if (flags.report !== false) {
@@ -536,7 +550,7 @@ function runJson(x: RunJsonInput): unknown {
       ingest: x.ingestOptions,
       analyzer: o.analyzer,
       vectorize: o.vectorize,
-      grouping: { method: o.method, groups: o.groups, minSimilarity: o.minSimilarity, choose: o.choose, tree: o.tree },
+      grouping: { method: o.method, groups: o.groups, minSimilarity: o.minSimilarity, choose: o.choose, tree: o.tree, reduce: o.reduce },
       kmeans: o.kmeans,
       threads: x.threads,
       label: o.label,

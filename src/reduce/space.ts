@@ -36,6 +36,12 @@ export interface ReducedSpace {
   readonly matrix: Csr;
 }
 
+/** A run's reduced space after grouping: the decomposition, the reduced rows, and the groups' unit centres there. */
+export interface ReducedGrouping extends ReducedSpace {
+  /** Unit centres in the reduced space, dimension-major: `centroids[dim * groups + g]` (as k-means' term-major centroids). */
+  readonly centroids: Float32Array;
+}
+
 /**
  * Wraps dense row-major rows (n × d) as a CSR matrix with full rows, sharing
  * `rows` as its values. Rows that are all zero get no entries.
