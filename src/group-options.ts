@@ -15,6 +15,7 @@ import { checkKeys, checkValues, type Constraint, type Constraints } from './uti
 import { DEFAULT_CHOOSE_OPTIONS, METHOD_NAMES, findMethod, type ChooseOptions, type GroupMethod, type MethodSettings } from './methods/index.js';
 import { stripUndefined } from './util/options.js';
 import { DEFAULT_REFINE_OPTIONS, resolveRefineOptions, type RefineOptions } from './cluster/unsorted.js';
+import { DEFAULT_REDUCE_OPTIONS, resolveReduceSetting, type ReduceOptions } from './reduce/index.js';
 import { UsageError, show } from './util/errors.js';
 
 /** Options for {@link groupDocuments}, one object per stage. */
@@ -38,6 +39,8 @@ export interface GroupOptions {
   readonly label?: Partial<LabelOptions>;
   /** Unsorted share, mixed groups and their splitting (cluster/unsorted.ts). */
   readonly refine?: Partial<RefineOptions>;
+  /** Group in reduced vectors (truncated SVD of the TF-IDF rows): `true` or options; absent or `false` = TF-IDF rows (the default). */
+  readonly reduce?: Partial<ReduceOptions> | boolean;
 }
 
 /** Every stage's options after defaults were merged and values validated. */
@@ -48,10 +51,12 @@ export interface ResolvedGroupOptions extends MethodSettings {
   readonly vectorize: VectorizeOptions;
   readonly label: LabelOptions;
   readonly refine: RefineOptions;
+  /** Reduction before grouping, or null for none. */
+  readonly reduce: ReduceOptions | null;
 }
 
 /** Top-level keys of {@link GroupOptions}. */
-const GROUP_KEYS = ['groups', 'minSimilarity', 'method', 'seed', 'choose', 'clean', 'analyzer', 'vectorize', 'kmeans', 'tree', 'label', 'refine'] as const;
+const GROUP_KEYS = ['groups', 'minSimilarity', 'method', 'seed', 'choose', 'clean', 'analyzer', 'vectorize', 'kmeans', 'tree', 'label', 'refine', 'reduce'] as const;
 
 /** Keys of each stage's options object, for the unknown-key check at the boundary. */
 const STAGE_KEYS: Readonly<Record<'choose' | 'clean' | 'analyzer' | 'vectorize' | 'kmeans' | 'tree' | 'label' | 'refine', readonly string[]>> = {
@@ -97,6 +102,7 @@ export function resolveGroupOptions(options: GroupOptions | ResolvedGroupOptions
   for (const stage of Object.keys(STAGE_KEYS) as (keyof typeof STAGE_KEYS)[]) {
     if (raw[stage] !== undefined) checkKeys(raw[stage], STAGE_KEYS[stage], stage);
   }
+  if (raw.reduce !== undefined && typeof raw.reduce === 'object' && raw.reduce !== null) checkKeys(raw.reduce, Object.keys(DEFAULT_REDUCE_OPTIONS), 'reduce');
   const clean = resolveCleanStage(raw.clean ?? {});
   const analyzer = resolveAnalyzerOptions(raw.analyzer ?? {});
   const vectorize = resolveVectorizeOptions(raw.vectorize ?? {});
@@ -142,6 +148,7 @@ export function resolveGroupOptions(options: GroupOptions | ResolvedGroupOptions
     tree,
     label,
     refine: resolveRefineOptions(raw.refine ?? {}),
+    reduce: resolveReduceSetting(raw.reduce),
   });
   RESOLVED.add(resolved);
   return resolved;

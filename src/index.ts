@@ -19,6 +19,7 @@ export { createRng, deriveSeed, type Rng } from './util/random.js';
 export * from './analyze/index.js';
 export * from './vectorize/index.js';
 export * from './cluster/index.js';
+export * from './reduce/index.js';
 export {
   allPairsCosine,
   duplicateSets,

@@ -22,6 +22,7 @@ import { findMethod, type GroupChoice, type GroupingMethod, type MethodOutcome }
 import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
 import { refineGroups } from './cluster/unsorted.js';
 import { guardNames, nameStopwords } from './label/names.js';
+import { reduceForGrouping, termSpacePartition, type ReducedGrouping } from './reduce/index.js';
 
 export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
 export type { PipelineHooks, StageTiming } from './types.js';
@@ -68,6 +69,8 @@ export interface GroupResultCommon {
   /** Per group: 1 when flagged as mixed (cohesion low relative to the others). */
   readonly mixed: Uint8Array;
   readonly timings: readonly StageTiming[];
+  /** With `reduce`: the decomposition, the reduced rows and the reduced centres the groups were formed on (partition.centroids are term-space). */
+  readonly reduced: ReducedGrouping | null;
 }
 
 /**
@@ -153,11 +156,15 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
   const method = findMethod(resolved.method) as GroupingMethod<string, object>;
   method.checkData?.(resolved, nonEmpty);
 
+  // Reduced vectors: groups are formed (and refined) on the reduced rows, then named and treed from TF-IDF centroids.
+  const reduce = resolved.reduce;
+  const space = reduce ? time('reduce', nonEmpty, () => reduceForGrouping(matrix, reduce, resolved.seed, nonEmpty)) : null;
+  const grouping = space?.matrix ?? matrix;
   const tForm = now();
-  const formed = yield* method.form({ matrix, nonEmpty, settings: resolved, hooks });
+  const formed = yield* method.form({ matrix: grouping, nonEmpty, settings: resolved, hooks });
   timings.push({ stage: method.stage, ms: now() - tForm, items: nonEmpty });
-  const refined = refineGroups(matrix, formed.partition, resolved.refine, resolved.kmeans);
-  const { partition } = refined;
+  const refined = refineGroups(grouping, formed.partition, resolved.refine, resolved.kmeans);
+  const partition = space ? termSpacePartition(matrix, refined.partition) : refined.partition;
   const k = partition.groups;
 
   const tree = time('tree', nonEmpty, () => groupAverageLink(matrix, partition.assignments, k));
@@ -193,6 +200,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
     unsorted: { rows: refined.unsorted, threshold: refined.threshold },
     mixed: refined.mixed,
     timings,
+    reduced: space ? { ...space, centroids: refined.partition.centroids } : null,
   } as unknown as GroupResult;
 }
 

@@ -78,6 +78,7 @@ describe('model.json and sheaf assign', () => {
     expect(refuse('{"format": "sheaf-model",')).toMatch(/^m\.json is not valid JSON \(/);
     expect(refuse({ hello: 1 })).toBe('m.json is not a sheaf model (no "format": "sheaf-model")');
     expect(refuse({ ...good, version: 3 })).toBe('m.json has model version 3; this sheaf reads versions 1 and 2');
+    expect(refuse({ ...good, version: 1, cleaning: undefined, reduce: { dims: 1, oversampling: 0, powerIterations: 0, components: '', singularValues: '', centroids: '' } })).toBe('m.json is damaged: reduce is a version 2 field (this file says version 1)');
     expect(refuse({ ...good, groups: 7 })).toBe(`m.json is damaged: centroids hold ${good.vocabulary.terms.length * 8} values; ${good.vocabulary.terms.length} terms × 7 groups need ${good.vocabulary.terms.length * 7}`);
     expect(refuse({ ...good, vocabulary: { ...good.vocabulary, df: good.vocabulary.df.slice(1) } })).toBe(
       `m.json is damaged: vocabulary.df has ${good.vocabulary.terms.length - 1} entries for ${good.vocabulary.terms.length} terms`,

@@ -8,7 +8,7 @@
 
 /** Library name → flag, where the flag is not the kebab-case name. `'*'` holds what applies to every command. */
 export const FLAG_NAMES: Readonly<Record<string, Readonly<Record<string, string>>>> = Object.freeze({
-  '*': Object.freeze({ sampleSize: '--sample' }),
+  '*': Object.freeze({ sampleSize: '--sample', dims: '--reduce' }),
   // `sheaf group --duplicates t`: the threshold of the near-copy search a grouping run adds.
   group: Object.freeze({ threshold: '--duplicates' }),
 });

@@ -53,6 +53,7 @@ export interface GroupFlags {
   threads?: string;
   memory?: string;
   unsorted?: boolean;
+  reduce?: string | false;
   splitMixed?: boolean;
   duplicates?: string | false;
   report?: boolean;

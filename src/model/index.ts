@@ -13,6 +13,12 @@
  * still loads, with the cleaning its `sheaf assign` applied: `auto` with the
  * default rules.
  *
+ * Version 2 adds `cleaning` and, only when the groups were formed on reduced
+ * vectors, `reduce`: the settings, the components (d × terms, Float32 base64,
+ * row-major) that project a new document's TF-IDF row, the singular values,
+ * and the groups' unit centres in the reduced space (Float32 base64,
+ * `[dim * groups + g]`); `centroids` stay the term-space ones.
+ *
  * @module
  */
 import { z } from 'zod';
@@ -22,11 +28,45 @@ import { createVocabulary, type Vocabulary } from '../vectorize/index.js';
 import { UsageError } from '../util/errors.js';
 import { DEFAULT_CLEAN_STAGE, resolveCleanStage, type CleanSettings } from '../clean/stage.js';
 
-/** Current model format version (2: cleaning settings recorded). */
+/** Current model format version (2: cleaning settings recorded, and `reduce` when the groups were formed on reduced vectors). */
 export const MODEL_VERSION = 2;
 
 /** Versions this code reads. */
 export const MODEL_VERSIONS_READ: readonly number[] = [1, 2];
+import { denseRowsAsCsr, projectRows, type ReducedGrouping } from '../reduce/index.js';
+
+/** The part of a run's reduced space that a model keeps. */
+export function modelReduction(reduced: ReducedGrouping): ModelReduction {
+  const { svd } = reduced;
+  return {
+    dims: svd.dims,
+    oversampling: svd.options.oversampling,
+    powerIterations: svd.options.powerIterations,
+    components: svd.components,
+    singularValues: svd.singularValues,
+    centroids: reduced.centroids,
+  };
+}
+
+/** A new document's TF-IDF rows projected on the model's components, re-normalised, as full CSR rows (rows with no known term stay empty). */
+export function projectForModel(reduce: ModelReduction, matrix: Csr): Csr {
+  return denseRowsAsCsr(projectRows(matrix, reduce.components, reduce.dims), matrix.rows, reduce.dims);
+}
+
+
+/** The projection of a model whose groups were formed on reduced vectors. */
+export interface ModelReduction {
+  /** Dimensions d. */
+  readonly dims: number;
+  readonly oversampling: number;
+  readonly powerIterations: number;
+  /** d × terms, row-major. */
+  readonly components: Float32Array;
+  /** Largest first, length d. */
+  readonly singularValues: Float64Array;
+  /** Unit centres in the reduced space, `[dim * groups + g]`. */
+  readonly centroids: Float32Array;
+}
 
 /** A model in memory, ready to apply. */
 export interface Model {
@@ -43,6 +83,8 @@ export interface Model {
   readonly minFit: Float32Array;
   /** Optional tree over the groups, as written to groups.json. */
   readonly tree?: unknown;
+  /** Present when the groups were formed on reduced vectors: new documents are projected and compared with these centres. */
+  readonly reduce?: ModelReduction;
 }
 
 /** The share of a group's own members allowed below its default fit threshold. */
@@ -140,6 +182,16 @@ const modelSchema = z.strictObject({
     z.strictObject({ id: z.number().int().min(0), label: z.string(), terms: z.array(termSchema), size: z.number().int().min(0) }),
   ),
   tree: z.unknown().optional(),
+  reduce: z
+    .strictObject({
+      dims: z.number().int().min(1).max(100_000),
+      oversampling: z.number().int().min(0),
+      powerIterations: z.number().int().min(0),
+      components: base64,
+      singularValues: base64,
+      centroids: base64,
+    })
+    .optional(),
 });
 
 /** What a fitted run hands over to become a model. */
@@ -154,6 +206,7 @@ export interface ModelSource {
   readonly fit: Float32Array;
   readonly labels: Model['labels'];
   readonly tree?: unknown;
+  readonly reduce?: ModelReduction;
 }
 
 /** Serialises a model as JSON text (deterministic for the same run). */
@@ -189,6 +242,18 @@ export function modelToJson(src: ModelSource): string {
       size: l.size,
     })),
     ...(src.tree !== undefined ? { tree: src.tree } : {}),
+    ...(src.reduce
+      ? {
+          reduce: {
+            dims: src.reduce.dims,
+            oversampling: src.reduce.oversampling,
+            powerIterations: src.reduce.powerIterations,
+            components: encodeFloat32(src.reduce.components),
+            singularValues: encodeFloat64(src.reduce.singularValues),
+            centroids: encodeFloat32(src.reduce.centroids),
+          },
+        }
+      : {}),
   };
   return JSON.stringify(doc) + '\n';
 }
@@ -242,6 +307,18 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
     if (seen.has(t)) fail(`vocabulary.terms lists ${JSON.stringify(t)} twice`);
     seen.add(t);
   }
+  let reduce: ModelReduction | undefined;
+  if (version === 1 && m.reduce) fail('reduce is a version 2 field (this file says version 1)');
+  if (m.reduce) {
+    const d = m.reduce.dims;
+    const components = decodeFloats(m.reduce.components, 4, 'reduce.components') as Float32Array;
+    if (components.length !== d * cols) fail(`reduce.components hold ${components.length} values; ${d} dims × ${cols} terms need ${d * cols}`);
+    const singularValues = decodeFloats(m.reduce.singularValues, 8, 'reduce.singularValues') as Float64Array;
+    if (singularValues.length !== d) fail(`reduce.singularValues has ${singularValues.length} entries for ${d} dims`);
+    const rc = decodeFloats(m.reduce.centroids, 4, 'reduce.centroids') as Float32Array;
+    if (rc.length !== d * m.groups) fail(`reduce.centroids hold ${rc.length} values; ${d} dims × ${m.groups} groups need ${d * m.groups}`);
+    reduce = { dims: d, oversampling: m.reduce.oversampling, powerIterations: m.reduce.powerIterations, components, singularValues, centroids: rc };
+  }
   for (const d of m.vocabulary.df) if (d > m.vocabulary.documents) fail(`a document frequency exceeds the ${m.vocabulary.documents} documents`);
   let vocabulary: Vocabulary;
   try {
@@ -255,6 +332,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
     if (Math.abs(vocabulary.idf[i] - idf[i]) > 1e-9) fail(`vocabulary.idf of ${JSON.stringify(m.vocabulary.terms[i])} does not follow from its document frequency`);
   }
   checkUnitCentroids(centroids, m.groups, m.labels, fail);
+  if (reduce) checkUnitCentroids(reduce.centroids, m.groups, m.labels, fail);
   return {
     createdBy: m.createdBy,
     cleaning: m.cleaning ? resolveCleanStage({ ...m.cleaning.rules, mode: m.cleaning.mode }) : DEFAULT_CLEAN_STAGE,
@@ -265,6 +343,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
     labels: m.labels,
     minFit: Float32Array.from(m.minFit),
     ...(m.tree !== undefined ? { tree: m.tree } : {}),
+    ...(reduce ? { reduce } : {}),
   };
 }
 
@@ -294,7 +373,7 @@ function checkUnitCentroids(centroids: Float32Array, groups: number, labels: rea
 export interface Assignment {
   /** Nearest group per row, -1 for rows with no known terms. */
   readonly assignments: Int32Array;
-  /** Cosine to that group's centroid. */
+  /** Cosine to that group's centroid (in the reduced space when the model has a projection). */
   readonly fit: Float32Array;
   /** 1 when the fit is below the threshold (or the row has no known terms): the document looks new. */
   readonly unmatched: Uint8Array;
@@ -314,7 +393,9 @@ export function assignWithModel(
   if (minFit !== undefined && (!Number.isFinite(minFit) || minFit < -1 || minFit > 1)) {
     throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
   }
-  const { assignments, fit } = nearest(matrix, model.centroids, model.groups);
+  const { assignments, fit } = model.reduce
+    ? nearest(projectForModel(model.reduce, matrix), model.reduce.centroids, model.groups)
+    : nearest(matrix, model.centroids, model.groups);
   const unmatched = new Uint8Array(matrix.rows);
   for (let r = 0; r < matrix.rows; r++) {
     const g = assignments[r];

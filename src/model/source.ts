@@ -5,7 +5,7 @@
  */
 import type { GroupResult } from '../pipeline.js';
 import { round } from '../util/round.js';
-import { modelToJson, type ModelSource } from './index.js';
+import { modelReduction, modelToJson, type ModelSource } from './index.js';
 
 /** What {@link modelToJson} needs, from a grouping result; `tree` is the tree as groups.json writes it. */
 export function modelSourceOf(result: GroupResult, createdBy: string, tree: unknown): ModelSource {
@@ -20,6 +20,7 @@ export function modelSourceOf(result: GroupResult, createdBy: string, tree: unkn
     fit: result.partition.fit,
     labels: result.groups.map((g) => ({ id: g.id, label: g.label, terms: g.terms.map((t) => ({ term: t.term, weight: round(t.weight, 6) })), size: g.size })),
     tree,
+    ...(result.reduced ? { reduce: modelReduction(result.reduced) } : {}),
   };
 }
 

@@ -100,7 +100,7 @@ export function groupRunRecord(result: GroupResult, x: GroupRunInput): Record<st
       ingest: x.ingestOptions,
       analyzer: o.analyzer,
       vectorize: o.vectorize,
-      grouping: { method: o.method, groups: o.groups, minSimilarity: o.minSimilarity, choose: o.choose, tree: o.tree },
+      grouping: { method: o.method, groups: o.groups, minSimilarity: o.minSimilarity, choose: o.choose, tree: o.tree, reduce: o.reduce },
       kmeans: o.kmeans,
       threads: x.threads,
       label: o.label,

@@ -6,7 +6,7 @@
  * body; the label is the message group without its suffix, in field `label`).
  */
 import { createRequire } from 'node:module';
-import type { Doc } from '../../src/types.js';
+import type { Csr, Doc } from '../../src/types.js';
 
 const SUBSET: readonly (readonly [group: string, count: number, label: string])[] = [
   ['easy-ham-1', 1000, 'easy-ham'],
@@ -44,4 +44,25 @@ export function spamDocs(): Doc[] {
   }
   cached = docs;
   return docs;
+}
+
+/** Analyzer settings pinned as in test/kmeans-spam.test.ts. */
+export const SPAM_ANALYZER = { lang: 'en', stem: true, minLength: 2, numbers: false, phrases: false } as const;
+/** Vocabulary settings pinned as in test/kmeans-spam.test.ts. */
+export const SPAM_VECTORIZE = { minDf: 2, maxDf: 0.5 } as const;
+
+/** The 2250 messages (text and label) in the package's order: the texts and labels of {@link spamDocs}. */
+export function loadSpamSubset(): { texts: string[]; labels: string[] } {
+  const docs = spamDocs();
+  return { texts: docs.map((d) => d.text), labels: docs.map((d) => d.fields.get('label') ?? '') };
+}
+
+/** FNV-1a (32-bit) over the bytes of the matrix arrays, as an 8-digit hex string. */
+export function csrDigest(m: Csr): string {
+  let h = 0x811c9dc5;
+  for (const arr of [m.indptr, m.indices, m.values]) {
+    const bytes = new Uint8Array(arr.buffer, arr.byteOffset, arr.byteLength);
+    for (let i = 0; i < bytes.length; i++) h = Math.imul(h ^ bytes[i]!, 0x01000193);
+  }
+  return (h >>> 0).toString(16).padStart(8, '0');
 }
