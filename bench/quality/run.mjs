@@ -53,7 +53,7 @@ const variants = (all('--variant').length ? all('--variant') : ['sheaf={}']).map
   const at = label.lastIndexOf('@');
   return { name: label, ref: at > 0 ? label.slice(at + 1) : null, options: JSON.parse(spec.slice(eq + 1)) };
 });
-if (REDUCE !== null) variants.push({ name: `sheaf reduce ${REDUCE}`, ref: null, options: { reduce: Number(REDUCE) }, optional: true });
+if (REDUCE !== null) variants.push({ name: `sheaf reduce ${REDUCE}`, ref: null, options: { reduce: { dims: Number(REDUCE) } }, optional: true });
 
 if (!has('--no-build')) {
   log('quality: npm run build');
@@ -155,12 +155,21 @@ for (const c of corpora) {
     const truth = encodeLabels(labels).codes;
     const runs = [];
     for (const seed of SEEDS) {
-      const options = { ...v.options, groups: k, kmeans: { ...(v.options.kmeans ?? {}), seed } };
+      // The seed is a top-level option since the options were reshaped; commits before that read kmeans.seed
+      // (and ignored unknown top-level keys), so a built commit that refuses kmeans.seed gets the new spelling.
+      const oldStyle = { ...v.options, groups: k, seed, kmeans: { ...(v.options.kmeans ?? {}), seed } };
+      const newStyle = { ...v.options, groups: k, seed };
+      const call = (o) => groupDocuments(docs.map((d) => ({ id: d.id, text: d.text })), o);
       const t0 = performance.now();
       const c0 = cpuMs();
       let res;
       try {
-        res = groupDocuments(docs.map((d) => ({ id: d.id, text: d.text })), options);
+        try {
+          res = call(oldStyle);
+        } catch (e) {
+          if (e?.option !== 'seed') throw e;
+          res = call(newStyle);
+        }
       } catch (e) {
         if (v.optional) {
           log(`quality: ${v.name} is not available in this build (${e.message}); column skipped`);
@@ -234,7 +243,7 @@ const py = refOk ? spawnSync(PYTHON, ['-c', 'import sys, sklearn, scipy, numpy; 
 say(`- Machine: ${os.cpus()[0]?.model ?? 'unknown CPU'}, ${os.cpus().length} cores; Node ${process.version}; load average (1 min) ${Math.min(...loads).toFixed(2)}–${Math.max(...loads).toFixed(2)} during the run (shared machine: times are indicative).`);
 say(`- sheaf: ${[...new Set(shown.map((v) => `${v.commit}${v.ref ? ` (${v.ref})` : ''}`))].join(', ')}${py ? `; reference: Python ${py[0]}, scikit-learn ${py[1]}, scipy ${py[2]}, numpy ${py[3]}` : ''}.`);
 say(`- Each cell: mean over seeds ${SEEDS.join(', ')} (worst seed in brackets), at k = the number of classes. NMI uses the arithmetic-mean normaliser on both sides; documents left without terms count as one extra group.`);
-say(`- sheaf columns: \`groupDocuments(docs, { groups: k, kmeans: { seed } , ...variant })\` on the texts as given (no ticket cleaning). ${shown.map((v) => `**${v.name}**: ${JSON.stringify(v.options) === '{}' ? 'library defaults' : `\`${JSON.stringify(v.options)}\``}`).join('; ')}.`);
+say(`- sheaf columns: \`groupDocuments(docs, { groups: k, seed, ...variant })\` on the texts as given (no ticket cleaning). ${shown.map((v) => `**${v.name}**: ${JSON.stringify(v.options) === '{}' ? 'library defaults' : `\`${JSON.stringify(v.options)}\``}`).join('; ')}.`);
 if (refOk) say('- scikit-learn: `TfidfVectorizer(stop_words="english", sublinear_tf=True, min_df=2, max_df=0.5)` + `KMeans(n_clusters=k, n_init=4, random_state=seed)`; **+ LSA 50**: the same TF-IDF, then `TruncatedSVD(50, random_state=seed)` and `Normalizer()` before KMeans (bench/quality/reference.py).');
 say();
 say(table(['corpus', 'what', 'docs', 'k'], results.map((r) => [r.corpus.name, `${r.corpus.kind} — ${r.corpus.source}`, String(r.corpus.docs), String(r.k)])));
