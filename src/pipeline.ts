@@ -21,7 +21,7 @@ import { labelGroups, surfaceForms, withDisplayForms, type GroupLabel, type Labe
 import { findMethod, type GroupChoice, type GroupingMethod, type MethodOutcome } from './methods/index.js';
 import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
 import { refineGroups } from './cluster/unsorted.js';
-import { guardNames, nameStopwords } from './label/names.js';
+import { GUARD_SPARE_TERMS, groupNameStopwords, guardNames } from './label/names.js';
 import { reduceForGrouping, termSpacePartition, type ReducedGrouping } from './reduce/index.js';
 
 export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
@@ -177,9 +177,11 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
   const groups = time('label', nonEmpty, () => {
     const stemmed = labelGroups(
       { matrix, assignments: partition.assignments, fit: partition.fit, groups: k, centroids: partition.centroids, terms: vocabulary.terms },
-      resolved.label,
+      // Spare terms, so the name guard below still has terms to take once it drops a foreign language's stop words.
+      { ...resolved.label, terms: resolved.label.terms + GUARD_SPARE_TERMS },
     );
-    return guardNames(readableLabels(stemmed, docs, analyzer, resolved.label), nameStopwords(resolved.analyzer), resolved.label);
+    const stop = groupNameStopwords(resolved.analyzer, docs.map((d) => d.text), partition.assignments, k);
+    return guardNames(readableLabels(stemmed, docs, analyzer, resolved.label), stop, resolved.label);
   });
 
   return {

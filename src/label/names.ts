@@ -8,7 +8,7 @@
  *
  * @module
  */
-import { builtInStopwords, normalizeTerm, type AnalyzerSettings } from '../analyze/index.js';
+import { SUPPORTED_LANGUAGES, builtInStopwords, normalizeTerm, type AnalyzerSettings } from '../analyze/index.js';
 import { PLACEHOLDERS } from '../clean/index.js';
 import type { GroupLabel, LabelOptions } from './index.js';
 
@@ -42,13 +42,98 @@ export function isNameable(term: string, stop: ReadonlySet<string>): boolean {
   return true;
 }
 
+/** Extra terms asked of the label stage so that a guarded name and terms list still have enough to take from. */
+export const GUARD_SPARE_TERMS = 20;
+
 /**
  * Rebuilds each group's name from its first `nameTerms` nameable terms (in the
- * terms' order); `(no terms)` when none is left. The terms list itself is kept.
+ * terms' order); `(no terms)` when none is left. The terms list drops the
+ * group's stop words (those of a group in another language than the run's:
+ * see {@link groupNameStopwords}) and is cut to `terms`; terms with digits stay
+ * listed there, with their weights, as found.
  */
-export function guardNames(labels: readonly GroupLabel[], stop: ReadonlySet<string>, options: Pick<LabelOptions, 'nameTerms'>): GroupLabel[] {
-  return labels.map((g) => {
-    const named = g.terms.filter((t) => isNameable(t.term, stop)).slice(0, options.nameTerms);
-    return { ...g, label: named.map((t) => t.term).join(' · ') || '(no terms)' };
+export function guardNames(
+  labels: readonly GroupLabel[],
+  stop: ReadonlySet<string> | readonly ReadonlySet<string>[],
+  options: Pick<LabelOptions, 'nameTerms'> & Partial<Pick<LabelOptions, 'terms'>>,
+): GroupLabel[] {
+  return labels.map((g, i) => {
+    const groupStop = stop instanceof Set ? stop : (stop as readonly ReadonlySet<string>[])[i]!;
+    const named = g.terms.filter((t) => isNameable(t.term, groupStop)).slice(0, options.nameTerms);
+    const listed = g.terms.filter((t) => !t.term.split(/\s+/).some((p) => groupStop.has(p.toLowerCase()))).slice(0, options.terms ?? g.terms.length);
+    return { ...g, terms: listed, label: named.map((t) => t.term).join(' · ') || '(no terms)' };
+  });
+}
+
+/** Members read per group to tell its language. */
+export const LANGUAGE_SAMPLE = 40;
+
+let stopSets: Map<string, Set<string>> | null = null;
+
+/** Every supported language's built-in stop words, lower-cased (built once). */
+function allStopSets(): Map<string, Set<string>> {
+  if (stopSets === null) {
+    stopSets = new Map();
+    for (const lang of SUPPORTED_LANGUAGES) stopSets.set(lang, new Set(builtInStopwords(lang).map((w) => w.toLowerCase())));
+  }
+  return stopSets;
+}
+
+/**
+ * The language each group is written in, told by stop words: over the first
+ * {@link LANGUAGE_SAMPLE} members (in row order) the language whose stop list
+ * covers the most tokens, when it covers at least 1.5 times as many as the
+ * run's language and at least a tenth of the tokens; otherwise the run's
+ * language. Counting stop words to tell a language is common practice; the
+ * thresholds are ours. A pile of English tickets with a few German ones
+ * groups the German ones together, and their name must not be `die · der · wir`.
+ */
+export function groupLanguages(texts: readonly string[], assignments: Int32Array, groups: number, runLang: string): string[] {
+  const sets = allStopSets();
+  const langs = [...sets.keys()];
+  const hits = new Float64Array(groups * langs.length);
+  const tokens = new Float64Array(groups);
+  const seen = new Int32Array(groups);
+  for (let r = 0; r < assignments.length; r++) {
+    const g = assignments[r]!;
+    if (g < 0 || seen[g]! >= LANGUAGE_SAMPLE) continue;
+    seen[g]!++;
+    for (const m of texts[r]!.toLowerCase().matchAll(/[\p{L}']+/gu)) {
+      tokens[g]!++;
+      for (let l = 0; l < langs.length; l++) if (sets.get(langs[l]!)!.has(m[0])) hits[g * langs.length + l]!++;
+    }
+  }
+  const run = langs.indexOf(runLang);
+  const out: string[] = [];
+  for (let g = 0; g < groups; g++) {
+    let best = -1;
+    for (let l = 0; l < langs.length; l++) if (best < 0 || hits[g * langs.length + l]! > hits[g * langs.length + best]!) best = l;
+    const runHits = run >= 0 ? hits[g * langs.length + run]! : 0;
+    const top = best >= 0 ? hits[g * langs.length + best]! : 0;
+    out.push(best >= 0 && best !== run && top > 0 && top >= 1.5 * runHits && top >= 0.1 * tokens[g]! ? langs[best]! : runLang);
+  }
+  return out;
+}
+
+/**
+ * Per group, the stop words its name must not hold: the run's ({@link nameStopwords}),
+ * plus those of the group's own language when {@link groupLanguages} found another.
+ */
+export function groupNameStopwords(
+  settings: Pick<AnalyzerSettings, 'lang' | 'stopwords'>,
+  texts: readonly string[],
+  assignments: Int32Array,
+  groups: number,
+): Set<string>[] {
+  const base = nameStopwords(settings);
+  const byLang = new Map<string, Set<string>>([[settings.lang, base]]);
+  return groupLanguages(texts, assignments, groups, settings.lang).map((lang) => {
+    let set = byLang.get(lang);
+    if (!set) {
+      set = new Set(base);
+      for (const w of nameStopwords({ lang, stopwords: [] })) set.add(w);
+      byLang.set(lang, set);
+    }
+    return set;
   });
 }
