@@ -15,7 +15,7 @@ import { checkKeys, checkValues, type Constraint, type Constraints } from './uti
 import { DEFAULT_CHOOSE_OPTIONS, METHOD_NAMES, findMethod, type ChooseOptions, type GroupMethod, type MethodSettings } from './methods/index.js';
 import { stripUndefined } from './util/options.js';
 import { DEFAULT_REFINE_OPTIONS, resolveRefineOptions, type RefineOptions } from './cluster/unsorted.js';
-import { DEFAULT_REDUCE_OPTIONS, resolveReduceSetting, type ReduceOptions } from './reduce/index.js';
+import { DEFAULT_REDUCE_OPTIONS, resolveReduceSetting, type ReduceOptions, type ReduceSetting } from './reduce/index.js';
 import { UsageError, show } from './util/errors.js';
 
 /** Options for {@link groupDocuments}, one object per stage. */
@@ -39,8 +39,12 @@ export interface GroupOptions {
   readonly label?: Partial<LabelOptions>;
   /** Unsorted share, mixed groups and their splitting (cluster/unsorted.ts). */
   readonly refine?: Partial<RefineOptions>;
-  /** Group in reduced vectors (truncated SVD of the TF-IDF rows): `true` or options; absent or `false` = TF-IDF rows (the default). */
-  readonly reduce?: Partial<ReduceOptions> | boolean;
+  /**
+   * Group in reduced vectors (truncated SVD of the TF-IDF rows, rows re-normalised; names still from the terms):
+   * `'auto'` (the default: 50 dims for piles of up to 100,000 documents with terms, fewer for tiny piles), `true` or
+   * options (always), `false` (the TF-IDF rows themselves).
+   */
+  readonly reduce?: Partial<ReduceOptions> | boolean | 'auto';
 }
 
 /** Every stage's options after defaults were merged and values validated. */
@@ -51,8 +55,8 @@ export interface ResolvedGroupOptions extends MethodSettings {
   readonly vectorize: VectorizeOptions;
   readonly label: LabelOptions;
   readonly refine: RefineOptions;
-  /** Reduction before grouping, or null for none. */
-  readonly reduce: ReduceOptions | null;
+  /** Reduction before grouping (see {@link ReduceSetting.auto}), or null for none. */
+  readonly reduce: ReduceSetting | null;
 }
 
 /** Top-level keys of {@link GroupOptions}. */

@@ -22,7 +22,7 @@ import { findMethod, type GroupChoice, type GroupingMethod, type MethodOutcome }
 import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
 import { refineGroups } from './cluster/unsorted.js';
 import { GUARD_SPARE_TERMS, groupNameStopwords, guardNames } from './label/names.js';
-import { reduceForGrouping, termSpacePartition, type ReducedGrouping } from './reduce/index.js';
+import { reduceForGrouping, reductionFor, termSpacePartition, type ReducedGrouping } from './reduce/index.js';
 
 export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
 export type { PipelineHooks, StageTiming } from './types.js';
@@ -157,7 +157,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
   method.checkData?.(resolved, nonEmpty);
 
   // Reduced vectors: groups are formed (and refined) on the reduced rows, then named and treed from TF-IDF centroids.
-  const reduce = resolved.reduce;
+  const reduce = reductionFor(resolved.reduce, nonEmpty, matrix.cols);
   const space = reduce ? time('reduce', nonEmpty, () => reduceForGrouping(matrix, reduce, resolved.seed, nonEmpty)) : null;
   const grouping = space?.matrix ?? matrix;
   const tForm = now();

@@ -28,8 +28,8 @@ export function addGroupingFlags(cmd: Command, groupsHelp: string): Command {
     .option('--terms <n>', 'terms listed per group')
     .option('--truth <field>', 'compare the groups with a column of known labels')
     .option('--threads <n>', 'threads for k-means on large inputs (default: up to 2, the cores there are)')
-    .option('--reduce <dims>', 'group in reduced vectors: a truncated SVD (latent semantic analysis) of the TF-IDF rows, kept to this many dimensions; names still come from the terms')
-    .option('--no-reduce', 'group on the TF-IDF rows themselves (the default)')
+    .option('--reduce <dims>', 'group in reduced vectors: a truncated SVD (latent semantic analysis) of the TF-IDF rows kept to this many dimensions, or auto (the default: 50 for piles of up to 100,000 documents); names still come from the terms')
+    .option('--no-reduce', 'group on the TF-IDF rows themselves')
     .option('--unsorted', 'set apart documents that fit no group well (fit below a threshold learned from the pile) as unsorted')
     .option('--split-mixed', 'split each group flagged as mixed (low cohesion) in two by bisecting k-means')
     .option('--memory <size>', 'refuse to start what would need more memory than this, like 8G (default: 60% of the machine)');
@@ -69,7 +69,7 @@ export async function groupOptionsFromFlags(
     clean: { mode: cleanModeFromFlags(flags) ?? 'auto' },
     label: { terms: wholeNumber(flags.terms, 'terms') },
     refine: { unsorted: flags.unsorted, splitMixed: flags.splitMixed },
-    ...(flags.reduce !== undefined ? { reduce: flags.reduce === false ? false : { dims: wholeNumber(flags.reduce, 'reduce') } } : {}),
+    ...(flags.reduce !== undefined ? { reduce: flags.reduce === false ? false : flags.reduce.trim().toLowerCase() === 'auto' ? 'auto' : { dims: wholeNumber(flags.reduce, 'reduce') } } : {}),
     ...(memoryLimitBytes !== undefined ? { tree: { memoryLimitBytes } } : {}),
   };
   return { ingest: ingestOptions, group: resolveGroupOptions(group) };

@@ -28,6 +28,7 @@ import { checkOutputFolders } from './out-paths.js';
 import { visibleJson, visibleLines } from './visible.js';
 import { withFileDigests, type RunFile } from './organize.js';
 import { nearCopiesOfVectors } from '../near-copies.js';
+import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
 
 export type { GroupFlags } from './inputs.js';
 
@@ -115,6 +116,9 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     : null;
   for (const line of [...notes, ...cleaningNotes(result.clean)]) note(line);
   for (const w of result.choice?.warnings ?? []) note(`sheaf: warning: ${w}`);
+  if (result.options.reduce?.auto && result.reduced === null && result.docs.length - result.emptyRows.length > AUTO_REDUCE_MAX_DOCUMENTS) {
+    note(`sheaf: note: grouped on the TF-IDF rows: reduced vectors are the default up to ${AUTO_REDUCE_MAX_DOCUMENTS} documents (--reduce 50 asks for them)`);
+  }
   if (result.emptyRows.length > 0) {
     note(
       `sheaf: note: ${result.emptyRows.length} document(s) have no terms after analysis; they are in no group ` +

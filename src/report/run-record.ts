@@ -129,6 +129,8 @@ export function groupRunRecord(result: GroupResult, x: GroupRunInput): Record<st
           tried: choiceTable(result.choice),
         }
       : null,
+    // The space the groups were formed in: reduced vectors (dims kept) or null for the TF-IDF rows.
+    reduced: result.reduced ? { dims: result.reduced.svd.dims } : null,
     quality: {
       silhouette: Number.isFinite(result.quality.silhouette.mean) ? round(result.quality.silhouette.mean, 6) : null,
       silhouetteSampled: result.quality.silhouette.sampled,
