@@ -67,6 +67,7 @@ describe('the model records its cleaning and assign applies it', () => {
   it('a version-1 model (no cleaning field) still loads, with the cleaning the old assign applied (auto)', () => {
     const m = JSON.parse(readFileSync(path.join(dir, 'raw', 'model.json'), 'utf8'));
     delete m.cleaning;
+    delete m.reduce; // a version-1 model never held a projection
     m.version = 1;
     const model = modelFromJson(JSON.stringify(m));
     expect(model.cleaning.mode).toBe('auto');

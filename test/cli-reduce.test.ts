@@ -29,7 +29,8 @@ describe('sheaf group --reduce and sheaf assign', () => {
 
   it('records the reduction in run.json (settings, a timed stage) and the projection in model.json (version 2)', () => {
     const run = JSON.parse(readFileSync(path.join(out, 'run.json'), 'utf8'));
-    expect(run.settings.grouping.reduce).toEqual({ dims: 20, oversampling: 10, powerIterations: 5 });
+    expect(run.settings.grouping.reduce).toEqual({ dims: 20, oversampling: 10, powerIterations: 5, auto: false });
+    expect(run.reduced).toEqual({ dims: 20 });
     expect(run.timings.map((t: { stage: string }) => t.stage)).toEqual(
       expect.arrayContaining(['analyze+vectorize', 'reduce', 'k-means', 'label']),
     );
@@ -95,16 +96,19 @@ describe('sheaf group --reduce and sheaf assign', () => {
     expect(refuse({ ...good, reduce: { ...good.reduce, extra: 1 } })).toBe('m.json is damaged: reduce: unexpected field(s) "extra"');
   });
 
-  it('--no-reduce is the default: same documents.csv as no flag', async () => {
+  it('--reduce auto is the default (50 dims on the demo: same documents.csv as --reduce 50); --no-reduce keeps the TF-IDF rows', async () => {
     const dir = tempDir();
     const plain = await sheaf(['group', demoCsv, ...demoFlags, '--groups', '8', '--out', 'p', '--quiet', '--no-report', '--no-duplicates'], { cwd: dir });
+    const fifty = await sheaf(['group', demoCsv, ...demoFlags, '--groups', '8', '--reduce', '50', '--out', 'f', '--quiet', '--no-report', '--no-duplicates'], { cwd: dir });
     const off = await sheaf(['group', demoCsv, ...demoFlags, '--groups', '8', '--no-reduce', '--out', 'q', '--quiet', '--no-report', '--no-duplicates'], { cwd: dir });
-    expect(plain.code).toBe(0);
-    expect(off.code).toBe(0);
-    expect(readFileSync(path.join(dir, 'q', 'documents.csv'), 'utf8')).toBe(readFileSync(path.join(dir, 'p', 'documents.csv'), 'utf8'));
+    expect([plain.code, fifty.code, off.code]).toEqual([0, 0, 0]);
+    expect(readFileSync(path.join(dir, 'f', 'documents.csv'), 'utf8')).toBe(readFileSync(path.join(dir, 'p', 'documents.csv'), 'utf8'));
+    expect(JSON.parse(readFileSync(path.join(dir, 'p', 'run.json'), 'utf8')).reduced).toEqual({ dims: 50 });
+    expect(JSON.parse(readFileSync(path.join(dir, 'q', 'run.json'), 'utf8')).reduced).toBeNull();
     const model = JSON.parse(readFileSync(path.join(dir, 'q', 'model.json'), 'utf8'));
     expect(model.version).toBe(2);
     expect(model.reduce).toBeUndefined();
+    expect(JSON.parse(readFileSync(path.join(dir, 'p', 'model.json'), 'utf8')).reduce.dims).toBe(50);
   });
 
   it('bad --reduce values: one line, exit 2', async () => {
@@ -132,7 +136,7 @@ describe('groupDocuments with reduce', () => {
 
   it('forms groups on the reduced rows and names them from TF-IDF centroids of their members', () => {
     const res = groupDocuments(docs, { groups: 8, reduce: { dims: 30 }, seed: 2 });
-    expect(res.options.reduce).toEqual({ dims: 30, oversampling: 10, powerIterations: 5 });
+    expect(res.options.reduce).toEqual({ dims: 30, oversampling: 10, powerIterations: 5, auto: false });
     expect(res.reduced).not.toBeNull();
     const reduced = res.reduced!;
     expect(reduced.matrix.cols).toBe(30);
@@ -150,11 +154,12 @@ describe('groupDocuments with reduce', () => {
     expect(res.timings.map((t) => t.stage)).toContain('reduce');
   });
 
-  it('reduce: false and no reduce give the same result; the same seed the same groups', () => {
+  it('no reduce setting is auto (50 dims here, as reduce: true); the same seed the same groups', () => {
     const a = groupDocuments(docs, { groups: 5 });
-    const b = groupDocuments(docs, { groups: 5, reduce: false });
+    const b = groupDocuments(docs, { groups: 5, reduce: true });
     expect(b.partition.assignments).toEqual(a.partition.assignments);
-    expect(a.reduced).toBeNull();
+    expect(a.reduced!.svd.dims).toBe(50);
+    expect(groupDocuments(docs, { groups: 5, reduce: false }).reduced).toBeNull();
     const c = groupDocuments(docs, { groups: 5, reduce: true });
     const d = groupDocuments(docs, { groups: 5, reduce: true });
     expect(d.partition.assignments).toEqual(c.partition.assignments);

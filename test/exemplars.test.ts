@@ -139,8 +139,9 @@ describe('diverseExemplars', () => {
 
 describe('exemplars on the demo', () => {
   it('no group’s exemplars are near-copies (cosine ≥ 0.9), where the closest-first rule picked some', () => {
-    // At 12 groups the closest-first rule took two 'Cancellation fee question' tickets at cosine 0.903.
-    const r = groupDocuments(demoDocs(), { groups: 12 });
+    // At 12 groups on the TF-IDF rows the closest-first rule took two 'Cancellation fee question' tickets at cosine
+    // 0.903 (pinned to the TF-IDF rows: on the default reduced vectors the case does not arise at this seed).
+    const r = groupDocuments(demoDocs(), { groups: 12, reduce: false });
     const m = r.matrix;
     const cos = (a: number, b: number) => {
       const x = rowOf(m, a);

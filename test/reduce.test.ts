@@ -10,6 +10,8 @@ import {
   projectRows,
   resolveReduceOptions,
   resolveReduceSetting,
+  reductionFor,
+  AUTO_REDUCE_MAX_DOCUMENTS,
   termSpacePartition,
   truncatedSvd,
 } from '../src/reduce/index.js';
@@ -75,11 +77,27 @@ describe('resolveReduceOptions', () => {
     expect(msg(() => resolveReduceOptions({ powerIterations: '3' as unknown as number }))).toBe(
       'powerIterations: powerIterations must be a whole number >= 0; got "3"',
     );
-    expect(msg(() => resolveReduceSetting('50' as unknown as boolean))).toBe('reduce: reduce must be false, true or an object like { dims: 50 }; got "50"');
-    expect(resolveReduceSetting(undefined)).toBeNull();
+    expect(msg(() => resolveReduceSetting('50' as unknown as boolean))).toBe('reduce: reduce must be auto, false, true or an object like { dims: 50 }; got "50"');
+    expect(resolveReduceSetting(undefined)).toEqual({ ...DEFAULT_REDUCE_OPTIONS, auto: true });
+    expect(resolveReduceSetting('auto')).toEqual({ ...DEFAULT_REDUCE_OPTIONS, auto: true });
     expect(resolveReduceSetting(false)).toBeNull();
-    expect(resolveReduceSetting(true)).toEqual(DEFAULT_REDUCE_OPTIONS);
-    expect(resolveReduceSetting({ dims: 3 })).toEqual({ ...DEFAULT_REDUCE_OPTIONS, dims: 3 });
+    expect(resolveReduceSetting(true)).toEqual({ ...DEFAULT_REDUCE_OPTIONS, auto: false });
+    expect(resolveReduceSetting({ dims: 3 })).toEqual({ ...DEFAULT_REDUCE_OPTIONS, dims: 3, auto: false });
+  });
+  it('reductionFor: auto fits dims to a small pile and stands aside above the size limit; explicit options are kept as given', () => {
+    const auto = resolveReduceSetting('auto');
+    const given = resolveReduceSetting({ dims: 80 });
+    const plain = { oversampling: 10, powerIterations: 5 };
+    expect(reductionFor(auto, 3000, 5000)).toEqual({ dims: 50, ...plain });
+    expect(reductionFor(auto, 70, 624)).toEqual({ dims: 50, ...plain });
+    expect(reductionFor(auto, 40, 624)).toEqual({ dims: 39, ...plain });
+    expect(reductionFor(auto, 500, 20)).toEqual({ dims: 19, ...plain });
+    expect(reductionFor(auto, 2, 10)).toBeNull();
+    expect(reductionFor(auto, AUTO_REDUCE_MAX_DOCUMENTS, 9000)).toEqual({ dims: 50, ...plain });
+    expect(reductionFor(auto, AUTO_REDUCE_MAX_DOCUMENTS + 1, 9000)).toBeNull();
+    expect(reductionFor(given, AUTO_REDUCE_MAX_DOCUMENTS + 1, 9000)).toEqual({ dims: 80, ...plain });
+    expect(reductionFor(given, 40, 624)).toEqual({ dims: 80, ...plain });
+    expect(reductionFor(null, 3000, 5000)).toBeNull();
   });
   it('truncatedSvd refuses more dims than the data has', () => {
     const m = csrFrom([[1, 0, 2], [0, 1, 0]], 3);

@@ -65,6 +65,9 @@ export function guardNames(
   });
 }
 
+/** Fewest stop-word hits that can tell a language (a word or two, such as Czech `proto`, tells nothing). */
+export const MIN_LANGUAGE_HITS = 5;
+
 /** Members read per group to tell its language. */
 export const LANGUAGE_SAMPLE = 40;
 
@@ -80,15 +83,16 @@ function allStopSets(): Map<string, Set<string>> {
 }
 
 /**
- * The language each group is written in, told by stop words: over the first
- * {@link LANGUAGE_SAMPLE} members (in row order) the language whose stop list
- * covers the most tokens, when it covers at least 1.5 times as many as the
- * run's language and at least a tenth of the tokens; otherwise the run's
- * language. Counting stop words to tell a language is common practice; the
- * thresholds are ours. A pile of English tickets with a few German ones
- * groups the German ones together, and their name must not be `die · der · wir`.
+ * The languages other than the run's that each group is written in, told by
+ * stop words: over the first {@link LANGUAGE_SAMPLE} members (in row order),
+ * every language whose stop list covers at least 15% of the tokens (words of
+ * two letters or more), at least {@link MIN_LANGUAGE_HITS} of them, and no
+ * fewer than the run's language's list does. Counting stop words to
+ * tell a language is common practice; the thresholds are ours. A pile of
+ * English tickets with a few German and Dutch ones groups those together, and
+ * their name must not be `die · der · wir` or `de · het · op`.
  */
-export function groupLanguages(texts: readonly string[], assignments: Int32Array, groups: number, runLang: string): string[] {
+export function groupLanguages(texts: readonly string[], assignments: Int32Array, groups: number, runLang: string): string[][] {
   const sets = allStopSets();
   const langs = [...sets.keys()];
   const hits = new Float64Array(groups * langs.length);
@@ -98,26 +102,29 @@ export function groupLanguages(texts: readonly string[], assignments: Int32Array
     const g = assignments[r]!;
     if (g < 0 || seen[g]! >= LANGUAGE_SAMPLE) continue;
     seen[g]!++;
-    for (const m of texts[r]!.toLowerCase().matchAll(/[\p{L}']+/gu)) {
+    // Single letters are left out: several lists hold them, and markup and encoded mail are full of them.
+    for (const m of texts[r]!.toLowerCase().matchAll(/[\p{L}']{2,}/gu)) {
       tokens[g]!++;
       for (let l = 0; l < langs.length; l++) if (sets.get(langs[l]!)!.has(m[0])) hits[g * langs.length + l]!++;
     }
   }
   const run = langs.indexOf(runLang);
-  const out: string[] = [];
+  const out: string[][] = [];
   for (let g = 0; g < groups; g++) {
-    let best = -1;
-    for (let l = 0; l < langs.length; l++) if (best < 0 || hits[g * langs.length + l]! > hits[g * langs.length + best]!) best = l;
     const runHits = run >= 0 ? hits[g * langs.length + run]! : 0;
-    const top = best >= 0 ? hits[g * langs.length + best]! : 0;
-    out.push(best >= 0 && best !== run && top > 0 && top >= 1.5 * runHits && top >= 0.1 * tokens[g]! ? langs[best]! : runLang);
+    const found: string[] = [];
+    for (let l = 0; l < langs.length; l++) {
+      const h = hits[g * langs.length + l]!;
+      if (l !== run && h >= MIN_LANGUAGE_HITS && h >= 0.15 * tokens[g]! && h >= runHits) found.push(langs[l]!);
+    }
+    out.push(found);
   }
   return out;
 }
 
 /**
  * Per group, the stop words its name must not hold: the run's ({@link nameStopwords}),
- * plus those of the group's own language when {@link groupLanguages} found another.
+ * plus those of the other languages {@link groupLanguages} found the group written in.
  */
 export function groupNameStopwords(
   settings: Pick<AnalyzerSettings, 'lang' | 'stopwords'>,
@@ -126,13 +133,14 @@ export function groupNameStopwords(
   groups: number,
 ): Set<string>[] {
   const base = nameStopwords(settings);
-  const byLang = new Map<string, Set<string>>([[settings.lang, base]]);
-  return groupLanguages(texts, assignments, groups, settings.lang).map((lang) => {
-    let set = byLang.get(lang);
+  const byLang = new Map<string, Set<string>>([['', base]]);
+  return groupLanguages(texts, assignments, groups, settings.lang).map((others) => {
+    const key = others.join(',');
+    let set = byLang.get(key);
     if (!set) {
       set = new Set(base);
-      for (const w of nameStopwords({ lang, stopwords: [] })) set.add(w);
-      byLang.set(lang, set);
+      for (const lang of others) for (const w of nameStopwords({ lang, stopwords: [] })) set.add(w);
+      byLang.set(key, set);
     }
     return set;
   });
