@@ -265,14 +265,15 @@ describe('staging folders after a signal or a dead process (case 13)', () => {
     child.stderr.on('data', (b: Buffer) => (stderr += b.toString()));
     let finished = false;
     const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => ((finished = true), resolve(code))));
+    // Wait for a staging folder holding every output file (run.json is written last): the run is then held just
+    // before the swap. The folder list is read afresh each time: the writability probe made before the work is a
+    // short-lived folder of the same prefix, and waiting inside it would wait for ever.
     let staged: string[] = [];
     while (staged.length === 0 && !finished) {
-      staged = readdirSync(dir).filter((f) => f.startsWith('.sheaf-tmp-o-'));
+      staged = readdirSync(dir).filter((f) => f.startsWith('.sheaf-tmp-o-') && existsSync(path.join(dir, f, 'run.json')));
       if (staged.length === 0) await new Promise((r) => setTimeout(r, 20));
     }
     expect(staged).toHaveLength(1);
-    // Every output file is in the staging folder: the run is held just before the swap.
-    while (!finished && !existsSync(path.join(dir, staged[0], 'run.json'))) await new Promise((r) => setTimeout(r, 20));
     expect(finished).toBe(false);
     child.kill('SIGINT');
     expect(await exited).toBe(130);
