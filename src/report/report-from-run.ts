@@ -37,6 +37,12 @@ export function reportFromRun(
   const unsortedSet = new Set(result.unsorted.rows);
   const settings = [
     { name: 'method', value: methodOf(result).title },
+    {
+      name: 'vectors grouped',
+      value: result.reduced
+        ? `reduced: ${result.reduced.svd.dims} dimensions (truncated SVD of the TF-IDF rows); names from the terms`
+        : 'TF-IDF rows',
+    },
     { name: 'groups', value: result.choice ? `${k} (chosen by ${result.choice.by})` : String(k) },
     { name: 'language', value: o.analyzer.lang },
     { name: 'stemming', value: o.analyzer.stem ? 'on' : 'off' },
