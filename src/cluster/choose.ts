@@ -25,6 +25,7 @@
 import type { Csr } from '../types.js';
 import { cutToGroups, type Dendrogram } from './tree.js';
 import { silhouetteForCuts } from './quality.js';
+import { groupSums } from './partition.js';
 
 /** What {@link kneedle} found. */
 export interface KneeResult {
@@ -124,13 +125,7 @@ export function objectiveForCuts(
 
 /** Σ_g ‖Σ_{i∈g} x_i‖ for a given assignment (-1 rows left out): the naive reference. */
 export function sphericalObjective(matrix: Csr, assignments: Int32Array, groups: number): number {
-  const { rows, cols, indptr, indices, values } = matrix;
-  const sums = new Float64Array(cols * groups);
-  for (let r = 0; r < rows; r++) {
-    const g = assignments[r];
-    if (g < 0) continue;
-    for (let p = indptr[r]; p < indptr[r + 1]; p++) sums[indices[p] * groups + g] += values[p];
-  }
+  const sums = groupSums(matrix, assignments, groups);
   const norm2 = new Float64Array(groups);
   for (let i = 0; i < sums.length; i++) norm2[i % groups] += sums[i] * sums[i];
   let total = 0;

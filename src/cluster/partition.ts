@@ -42,11 +42,8 @@ export function canonicalGroups(assignments: Int32Array, groups: number): Int32A
   return assignments.map((g) => (g < 0 ? -1 : rename[g]));
 }
 
-/**
- * Unit centroids and fits for a given assignment (sums of member rows,
- * normalised; an all-zero sum stays zero). O(nnz + cols·groups).
- */
-export function partitionFromAssignments(matrix: Csr, assignments: Int32Array, groups: number): Partition {
+/** Per group, the sum of its member rows, term-major (`[term * groups + g]`); rows assigned -1 are left out. O(nnz + cols·groups). */
+export function groupSums(matrix: Csr, assignments: Int32Array, groups: number): Float64Array {
   const { rows, cols, indptr, indices, values } = matrix;
   const sums = new Float64Array(cols * groups);
   for (let r = 0; r < rows; r++) {
@@ -54,6 +51,16 @@ export function partitionFromAssignments(matrix: Csr, assignments: Int32Array, g
     if (g < 0) continue;
     for (let p = indptr[r]; p < indptr[r + 1]; p++) sums[indices[p] * groups + g] += values[p];
   }
+  return sums;
+}
+
+/**
+ * Unit centroids and fits for a given assignment (sums of member rows,
+ * normalised; an all-zero sum stays zero). O(nnz + cols·groups).
+ */
+export function partitionFromAssignments(matrix: Csr, assignments: Int32Array, groups: number): Partition {
+  const { rows, cols, indptr, indices, values } = matrix;
+  const sums = groupSums(matrix, assignments, groups);
   const norm = new Float64Array(groups);
   for (let t = 0; t < cols; t++) for (let g = 0; g < groups; g++) norm[g] += sums[t * groups + g] ** 2;
   for (let g = 0; g < groups; g++) norm[g] = Math.sqrt(norm[g]);
