@@ -10,24 +10,7 @@ import { exemplarRows, resolveLabelOptions } from '../src/label/index.js';
 import { groupDocuments } from '../src/pipeline.js';
 import type { Csr } from '../src/types.js';
 import { demoDocs } from './helpers/demo.js';
-
-function csrFromDense(rows: number[][]): Csr {
-  const cols = rows[0].length;
-  const indptr = new Int32Array(rows.length + 1);
-  const indices: number[] = [];
-  const values: number[] = [];
-  rows.forEach((r, i) => {
-    const norm = Math.hypot(...r);
-    r.forEach((v, j) => {
-      if (v !== 0 && norm > 0) {
-        indices.push(j);
-        values.push(v / norm);
-      }
-    });
-    indptr[i + 1] = indices.length;
-  });
-  return { rows: rows.length, cols, indptr, indices: Int32Array.from(indices), values: Float32Array.from(values) };
-}
+import { csrFromDense } from './helpers/csr.js';
 
 function rowOf(m: Csr, r: number): number[] {
   const out = new Array<number>(m.cols).fill(0);

@@ -1,26 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { exemplarRows, labelGroups, mutualInformation, resolveLabelOptions } from '../src/label/index.js';
-import type { Csr } from '../src/types.js';
-
-/** Builds an L2-normalised CSR from dense rows (test helper). */
-function csrFromDense(rows: number[][]): Csr {
-  const cols = rows[0].length;
-  const indptr = new Int32Array(rows.length + 1);
-  const indices: number[] = [];
-  const values: number[] = [];
-  rows.forEach((r, i) => {
-    const norm = Math.hypot(...r);
-    r.forEach((v, j) => {
-      if (v !== 0) {
-        indices.push(j);
-        values.push(v / norm);
-      }
-    });
-    indptr[i + 1] = indices.length;
-  });
-  return { rows: rows.length, cols, indptr, indices: Int32Array.from(indices), values: Float32Array.from(values) };
-}
+import { csrFromDense } from './helpers/csr.js';
 
 describe('mutualInformation', () => {
   it('matches the worked example of IIR §13.5.1 (class poultry, term export, Reuters-RCV1)', () => {
