@@ -7,7 +7,7 @@
  * @module
  */
 import type { Doc } from '../types.js';
-import { firstLine } from '../ingest/text.js';
+import { firstLine } from '../util/title.js';
 import { UsageError, show } from '../util/errors.js';
 import { cleanDocuments, type CleanReport } from './index.js';
 import { PLACEHOLDERS } from './placeholders.js';
