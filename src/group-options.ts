@@ -65,7 +65,7 @@ const GROUP_KEYS = ['groups', 'minSimilarity', 'method', 'seed', 'choose', 'clea
 /** Keys of each stage's options object, for the unknown-key check at the boundary. */
 const STAGE_KEYS: Readonly<Record<'choose' | 'clean' | 'analyzer' | 'vectorize' | 'kmeans' | 'tree' | 'label' | 'refine', readonly string[]>> = {
   choose: Object.keys(DEFAULT_CHOOSE_OPTIONS),
-  clean: Object.keys(DEFAULT_CLEAN_OPTIONS),
+  clean: [...Object.keys(DEFAULT_CLEAN_OPTIONS), 'detect'],
   analyzer: Object.keys(DEFAULT_ANALYZER_OPTIONS),
   vectorize: Object.keys(DEFAULT_VECTORIZE_OPTIONS),
   kmeans: ['groups', ...Object.keys(DEFAULT_KMEANS_OPTIONS).filter((k) => k !== 'seed')],

@@ -13,7 +13,8 @@ import { ingest } from '../src/ingest/index.js';
 import { groupDocuments } from '../src/pipeline.js';
 import { modelFromJson } from '../src/model/index.js';
 import { applyModel } from '../src/model/apply.js';
-import { cleanStage, resolveCleanStage, titleLine } from '../src/clean/stage.js';
+import { AUTO_CLUTTER_SHARE, cleanStage, resolveCleanStage, titleLine } from '../src/clean/stage.js';
+import { modelJsonOf } from '../src/model/source.js';
 import { DEMO_ARGS } from './golden-demo.test.js';
 
 const root = path.resolve(__dirname, '..');
@@ -121,5 +122,48 @@ describe('titles recomputed after cleaning show the words a person wrote, not pl
     const out = cleanStage({ docs, exportRows: Uint8Array.of(1) }, resolveCleanStage({}));
     expect(out.docs[0]!.text).toContain('xnumx');
     expect(out.docs[0]!.title).toBe('invoice for bk29-91344 is wrong');
+  });
+});
+
+describe('auto cleaning decides per pile whether its rows hold ticket clutter', () => {
+  const rows = (texts: string[]) => ({
+    docs: texts.map((text, i) => ({ id: String(i + 1), source: `t.csv#${i + 1}`, title: text.split('\n')[0]!, text, fields: new Map<string, string>() })),
+    exportRows: new Uint8Array(texts.length).fill(1),
+  });
+
+  it('cleans the demo tickets (a third of the rows hold replies, signatures or greetings)', async () => {
+    const read = await ingest([path.join(root, 'corpus-demo', 'tickets.csv')], { text: ['subject', 'body'], id: 'ticket_id' }, { cwd: root });
+    const out = cleanStage(read, resolveCleanStage({}));
+    expect(out.report.detected).toEqual({ share: out.report.withClutter / 457, threshold: AUTO_CLUTTER_SHARE, applied: true });
+    expect(out.report.withClutter).toBe(148);
+    expect(out.report.changed).toBeGreaterThan(0);
+  });
+
+  it('keeps rows of other text as written, and says what it found', () => {
+    // Descriptions with a line that looks like a quoted reply and one like a signature: 2 of 12 rows (17%).
+    const texts = Array.from({ length: 10 }, (_, i) => `Tool number ${i} sorts files by size.\nIt reads folders recursively.`);
+    texts.push('Shell helper.\n> prompt examples are shown like this\nand more text here');
+    texts.push('Library for parsing.\n--\nMaintainer team');
+    const input = rows(texts);
+    const out = cleanStage(input, resolveCleanStage({}));
+    expect(out.report.detected?.applied).toBe(false);
+    expect(out.report.detected?.share).toBeCloseTo(2 / 12, 10);
+    expect(out.docs.map((d) => d.text)).toEqual(texts);
+    expect(out.report.changed).toBe(0);
+    // detect: false (or --clean tickets) cleans them whatever they hold.
+    expect(cleanStage(input, resolveCleanStage({ detect: false })).docs[10]!.text).not.toContain('> prompt');
+  });
+
+  it('the model keeps the decision: assign cleans new rows as the pile was cleaned, without deciding again', () => {
+    const kept = groupDocuments(rows(Array.from({ length: 8 }, (_, i) => `pump ${i % 2 ? 'water' : 'tank'} leak report\nsee attached`)), { groups: 2 });
+    expect(kept.clean.detected?.applied).toBe(false);
+    const model = modelFromJson(modelJsonOf(kept, 'test', null));
+    expect(model.cleaning).toEqual({ ...model.cleaning, mode: 'none', detect: false });
+    const one = rows(['Hi team,\npump water leak\n> earlier message\nThanks']);
+    expect(applyModel(model, one).docs[0]!.text).toBe(one.docs[0]!.text);
+  });
+
+  it('refuses a detect that is not true or false', () => {
+    expect(() => resolveCleanStage({ detect: 'yes' as unknown as boolean })).toThrow('detect must be true or false; got "yes"');
   });
 });

@@ -279,6 +279,7 @@ describe('cleanDocuments', () => {
       options: DEFAULT_CLEAN_OPTIONS,
       documents: 4,
       changed: 2,
+      withClutter: 2, // rows 1 (greeting, signature) and 2 (history, quote); row 3 is kept whole
       keptWhole: 1,
       charsBefore: before,
       charsAfter: after,

@@ -35,6 +35,14 @@ export interface CleanReport {
   readonly documents: number;
   /** Documents whose text changed. */
   readonly changed: number;
+  /** Documents where ticket clutter was found: quoted replies or history, a signature or a greeting (not boilerplate or placeholders). */
+  readonly withClutter: number;
+  /**
+   * With the cleaning stage's `auto` mode: the share of export rows holding ticket clutter, the share at which
+   * cleaning is applied, and whether it was (when not, the rows are kept as written and the counts are of what
+   * was found, not removed).
+   */
+  readonly detected?: { readonly share: number; readonly threshold: number; readonly applied: boolean };
   /** Documents cleaning would have emptied; they keep their text as it was (and count in nothing else). */
   readonly keptWhole: number;
   /** Total text length before and after, in UTF-16 code units (JavaScript string length). */
@@ -118,6 +126,7 @@ export function cleanDocuments(
       report: {
         ...base,
         changed: 0,
+        withClutter: 0,
         keptWhole: 0,
         charsAfter: charsBefore,
         linesRemoved: { ...zeroReplies(), boilerplate: 0 },
@@ -185,6 +194,7 @@ export function cleanDocuments(
   const lines = { ...zeroReplies(), boilerplate: 0 };
   const placeholders = zeroPlaceholders();
   let changed = 0;
+  let withClutter = 0;
   let keptWhole = 0;
   let charsAfter = 0;
   for (let i = 0; i < n; i++) {
@@ -194,6 +204,7 @@ export function cleanDocuments(
       keptWhole++;
       text = d.text;
     } else {
+      if ((perDoc.quoted[i] as number) + (perDoc.history[i] as number) + (perDoc.signature[i] as number) + (perDoc.greeting[i] as number) > 0) withClutter++;
       lines.quoted += perDoc.quoted[i] as number;
       lines.history += perDoc.history[i] as number;
       lines.signature += perDoc.signature[i] as number;
@@ -216,6 +227,7 @@ export function cleanDocuments(
     report: {
       ...base,
       changed,
+      withClutter,
       keptWhole,
       charsAfter,
       linesRemoved: lines,

@@ -128,6 +128,13 @@ export async function readInputs(
 
 /** The note on what cleaning removed, when it removed anything. */
 export function cleaningNotes(r: CleanReport): string[] {
+  if (r.detected && !r.detected.applied) {
+    if (r.withClutter === 0) return [];
+    return [
+      `sheaf: note: rows kept as written: ${Math.round(100 * r.detected.share)}% hold quoted replies, signatures or greetings ` +
+        `(cleaning starts at ${Math.round(100 * r.detected.threshold)}%); --clean tickets cleans them anyway`,
+    ];
+  }
   if (!(r.changed > 0 && r.charsBefore > 0)) return [];
   return [
     `sheaf: note: cleaning removed ${Math.round((100 * (r.charsBefore - r.charsAfter)) / r.charsBefore)}% of the text ` +

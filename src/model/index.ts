@@ -161,6 +161,7 @@ const cleaningSchema = z.strictObject({
     boilerplateMinDocs: z.number().int().min(2),
     placeholders: z.boolean(),
   }),
+  detect: z.boolean().optional(),
 });
 
 const modelSchema = z.strictObject({
@@ -216,7 +217,7 @@ export function modelToJson(src: ModelSource): string {
     format: 'sheaf-model',
     version: MODEL_VERSION,
     createdBy: src.createdBy,
-    cleaning: { mode: src.cleaning.mode, rules: { ...src.cleaning.rules } },
+    cleaning: { mode: src.cleaning.mode, rules: { ...src.cleaning.rules }, detect: src.cleaning.detect },
     analyzer: {
       lang: src.analyzer.lang,
       stem: src.analyzer.stem,
@@ -335,7 +336,11 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   if (reduce) checkUnitCentroids(reduce.centroids, m.groups, m.labels, fail);
   return {
     createdBy: m.createdBy,
-    cleaning: m.cleaning ? resolveCleanStage({ ...m.cleaning.rules, mode: m.cleaning.mode }) : DEFAULT_CLEAN_STAGE,
+    // A model records the cleaning decision made when it was fitted, so new documents are cleaned the same way
+    // (no detection again); version 1 models cleaned export rows whatever they held.
+    cleaning: m.cleaning
+      ? resolveCleanStage({ ...m.cleaning.rules, mode: m.cleaning.mode, detect: m.cleaning.detect ?? false })
+      : { ...DEFAULT_CLEAN_STAGE, detect: false },
     analyzer: Object.freeze({ ...m.analyzer, junk: m.analyzer.junk ?? false, stopwords: Object.freeze([...m.analyzer.stopwords]) }),
     vocabulary,
     groups: m.groups,

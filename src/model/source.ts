@@ -11,7 +11,10 @@ import { modelReduction, modelToJson, type ModelSource } from './index.js';
 export function modelSourceOf(result: GroupResult, createdBy: string, tree: unknown): ModelSource {
   return {
     createdBy,
-    cleaning: result.options.clean,
+    // The decision the cleaning stage made on this pile, kept so `assign` cleans new documents the same way.
+    cleaning: result.clean.detected
+      ? { ...result.options.clean, mode: result.clean.detected.applied ? 'auto' : 'none', detect: false }
+      : { ...result.options.clean, detect: false },
     analyzer: result.options.analyzer,
     vocabulary: result.vocabulary,
     groups: result.partition.groups,
