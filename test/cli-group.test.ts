@@ -410,7 +410,7 @@ describe('real-world inputs through the CLI', () => {
 
   it('rejects an unknown --clean mode and an unknown --encoding before reading', async () => {
     const a = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--clean', 'all', '--out', path.join(tempDir(), 'o')]);
-    expect(a.stderr).toBe('sheaf: --clean must be one of tickets, none; got "all"\n');
+    expect(a.stderr).toBe('sheaf: --clean must be one of auto, tickets, none; got "all"\n');
     expect(a.code).toBe(2);
     const b = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--encoding', 'klingon', '--out', path.join(tempDir(), 'o')]);
     expect(b.stderr).toBe('sheaf: --encoding must be a character encoding iconv-lite knows (such as utf-8, windows-1252, iso-8859-2, utf-16le) or null to detect it; got "klingon"\n');

@@ -13,8 +13,8 @@ import { collect, decimal, list, wholeNumber } from './parse.js';
 import { ingest, resolveIngestOptions, type IngestOptions, type IngestResult } from '../ingest/index.js';
 import type { GroupOptions } from '../pipeline.js';
 import { UsageError } from '../util/errors.js';
-import { CLEAN_MODES, resolveCleanOptions, type CleanMode, type CleanReport } from '../clean/index.js';
-import { cleanStage, resolveCleanStage, type CleanSettings } from '../clean/stage.js';
+import type { CleanReport } from '../clean/index.js';
+import { CLEAN_CHOICES, cleanStage, resolveCleanStage, type CleanChoice, type CleanSettings } from '../clean/stage.js';
 import type { Doc } from '../types.js';
 
 /** Raw flag values as commander hands them over. */
@@ -73,7 +73,7 @@ export function addInputFlags(cmd: Command): Command {
     .option('--delimiter <char>', 'field separator for delimited exports')
     .option('--include <glob>', 'only files in folders matching this pattern (repeatable)', collect)
     .option('--exclude <glob>', 'skip files in folders matching this pattern (repeatable)', collect)
-    .option('--clean <mode>', 'tickets (drop quoted replies, signatures, greetings, repeated boilerplate; fold links, addresses, numbers) or none; default: tickets for export rows, none for document files')
+    .option('--clean <mode>', 'auto (default: export rows when at least 20% hold quoted replies, signatures or greetings; never document files), tickets (everything: drop quoted replies, signatures, greetings, repeated boilerplate; fold links, addresses, numbers) or none')
     .option('--encoding <name>', 'read every file in this character encoding (default: detect)')
     .option('--max-bytes <n>', 'longest document text kept, in bytes (longer ones are cut, and listed in run.json)')
     .option('--max-files <n>', 'read at most this many files from folders')
@@ -91,12 +91,12 @@ export interface ReadInputs {
 }
 
 /** The cleaning mode from `--clean` (validated), or null for the default. */
-export function cleanModeFromFlags(flags: GroupFlags): CleanMode | null {
+export function cleanModeFromFlags(flags: GroupFlags): CleanChoice | null {
   if (flags.clean === undefined) return null;
-  if (!(CLEAN_MODES as readonly string[]).includes(flags.clean)) {
-    throw new UsageError(`clean must be one of ${CLEAN_MODES.join(', ')}; got ${JSON.stringify(flags.clean)}`, 'clean');
+  if (!(CLEAN_CHOICES as readonly string[]).includes(flags.clean)) {
+    throw new UsageError(`clean must be one of ${CLEAN_CHOICES.join(', ')}; got ${JSON.stringify(flags.clean)}`, 'clean');
   }
-  return resolveCleanOptions({ mode: flags.clean as CleanMode }).mode;
+  return flags.clean as CleanChoice;
 }
 
 /**
