@@ -17,7 +17,9 @@
  * | 63k  |  24,999,783 | on  | 524,536 KiB = 537 MB  | 468 MB (−13%)  | 472 MB (−12%)  |
  * | 318k | 126,674,740 | off | 1,163,952 KiB = 1.19 GB | 1.28 GB (+8%) | 1.54 GB (+29%) |
  *
- * (near-copies on, the default, in all three). Earlier bench peaks (k = 100,
+ * (near-copies on, the default, in all three). With reduced vectors, the default since for piles up
+ * to 100k documents, the 63k run without the report peaked at 523,484 KiB = 536 MB (estimate −13%;
+ * `/usr/bin/time -v node dist/cli/main.js group synth-63k.csv --text text --id id --groups 50 --no-report`). Earlier bench peaks (k = 100,
  * near-copies on) stay within 25% as well: 764 MB for 40 MB of CSV (100k rows;
  * estimate 588 MB, −23%) and 4.05 GB for 398 MB (1M rows; 3.45 GB, −15%). The fit
  * is the line through the two runs without the report, rounded (256 MiB + 8 ×
