@@ -5,7 +5,8 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { bisectRows, rowSubset, splitGroups } from '../src/cluster/bisect.js';
+import { bisectRows, splitGroups } from '../src/cluster/bisect.js';
+import { selectRows } from '../src/util/csr.js';
 import { sphericalKMeans } from '../src/cluster/kmeans.js';
 import { median, mixedGroups, refineGroups, resolveRefineOptions, unsortedRows, unsortedThreshold } from '../src/cluster/unsorted.js';
 import { partitionFromAssignments } from '../src/cluster/partition.js';
@@ -76,7 +77,7 @@ describe('bisecting spherical k-means', () => {
           const sub = csrFromDense(Array.from(pick, (i) => rows[i]));
           const want = sphericalKMeans(sub, { groups: 2, seed, restarts: 2 }).assignments;
           expect(Array.from(bisectRows(m, pick, { seed, restarts: 2 })!)).toEqual(Array.from(want));
-          expect(rowSubset(m, pick).indptr.length).toBe(pick.length + 1);
+          expect(selectRows(m, pick).indptr.length).toBe(pick.length + 1);
         },
       ),
       { numRuns: 50 },
