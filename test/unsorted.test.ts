@@ -26,6 +26,17 @@ describe('the unsorted threshold', () => {
     expect(median(Float64Array.from([3, 1, 2, 10]))).toBe(2.5);
   });
 
+  it('with more than half the fits equal (MAD 0), uses the mean absolute deviation instead of setting apart every fit below the median', () => {
+    // Six exact copies (fit 1) in groups 0 and 1; group 2 has fits 0.95, 0.9, 0.92, 0.3. Median 1, MAD 0 (before: threshold 1,
+    // so 0.9 and 0.92 were set apart too). Absolute deviations 0 ×6, .05, .1, .08, .7: mean .093;
+    // threshold 1 − 2 · 1.253314 · .093 = 0.76688 (√(π/2) = 1.253314: mean absolute deviation over σ under normality).
+    const a = Int32Array.from([0, 0, 0, 1, 1, 1, 2, 2, 2, 2]);
+    const fit = Float32Array.from([1, 1, 1, 1, 1, 1, 0.95, 0.9, 0.92, 0.3]);
+    const t = unsortedThreshold(a, fit, 2);
+    expect(t).toBeCloseTo(0.76688, 5);
+    expect(Array.from(unsortedRows(a, fit, 3, t))).toEqual([9]);
+  });
+
   it('never takes a group’s most central member, so no group empties', () => {
     const a = Int32Array.from([0, 0, 1]);
     const fit = Float32Array.from([0.1, 0.2, 0.9]);
