@@ -129,7 +129,7 @@ export function resolveGroupOptions(options: GroupOptions | ResolvedGroupOptions
     throw new UsageError(`method must be one of ${METHOD_NAMES.join(', ')}; got ${show(method)}`, 'method');
   }
   const c = { ...DEFAULT_CHOOSE_OPTIONS, ...stripUndefined(raw.choose ?? {}) };
-  const [lo, hi] = c.range;
+  const [lo, hi] = Array.isArray(c.range) && c.range.length === 2 ? c.range : [NaN, NaN];
   if (!Number.isInteger(lo) || !Number.isInteger(hi) || lo < 2 || hi < lo) {
     throw new UsageError(`range must be two whole numbers from 2 up, the first not above the second (like 4..40); got ${show(c.range)}`, 'range');
   }

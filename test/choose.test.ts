@@ -191,6 +191,16 @@ describe('chooseCut: the choice and its warnings', () => {
     });
   });
 
+  it('fewer than three cuts because the tree has few leaves: the warning names the cap, not a wider range', () => {
+    // Range 2..20 over a tree of 3 leaves: only cuts 2 and 3 exist; a wider --range would not help.
+    const c = chooseCut(table([1, 2]), [2, 20]);
+    expect(c).toEqual({
+      chosen: 3,
+      rule: 'silhouette',
+      warnings: ['only 2..3 groups can be tried (the tree has only 3 leaves), too few for a knee; chose by silhouette'],
+    });
+  });
+
   it('cuts capped by the leaves of the tree: the warning names the cap', () => {
     // Difference curve 0, −.1, −.2, −.3, .1, 0: the highest point is groups 6, the last Kneedle can return.
     const c = chooseCut(table([0, 1, 2, 3, 9, 10]), [2, 20]);

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { createReadStream, mkdirSync, mkdtempSync, symlinkSync, writeFileSync } from 'node:fs';
-import os from 'node:os';
+import { createReadStream, symlinkSync } from 'node:fs';
 import path from 'node:path';
 import fc from 'fast-check';
 import iconv from 'iconv-lite';
@@ -13,16 +12,7 @@ import { readMail } from '../src/ingest/mail.js';
 import { createAnalyzer } from '../src/analyze/index.js';
 import { cleanDocuments } from '../src/clean/index.js';
 import { UsageError } from '../src/util/errors.js';
-
-function tmp(): string {
-  return mkdtempSync(path.join(os.tmpdir(), 'sheaf-ingest-bad-'));
-}
-
-function put(root: string, rel: string, content: string | Uint8Array): void {
-  const p = path.join(root, rel);
-  mkdirSync(path.dirname(p), { recursive: true });
-  writeFileSync(p, content);
-}
+import { tmp, put } from './helpers/files.js';
 
 async function onePagePdf(text: string): Promise<Uint8Array> {
   const doc = await PDFDocument.create();

@@ -1,20 +1,16 @@
 import { describe, expect, it } from 'vitest';
 import { Readable } from 'node:stream';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import fc from 'fast-check';
 import { ingest, type IngestOptions } from '../src/ingest/index.js';
-import { UsageError } from '../src/util/errors.js';
+import { tmp, usage } from './helpers/files.js';
 
 const FIX = path.join(path.dirname(fileURLToPath(import.meta.url)), 'fixtures', 'ingest');
 // Rows as read by Python's csv module (test/fixtures/ingest/make_fixtures.py).
 const PY = JSON.parse(readFileSync(path.join(FIX, 'expected.json'), 'utf8')) as Record<string, unknown>;
-
-function tmp(): string {
-  return mkdtempSync(path.join(os.tmpdir(), 'sheaf-ingest-csv-'));
-}
 
 function write(dir: string, name: string, content: string | Buffer): string {
   writeFileSync(path.join(dir, name), content);
@@ -23,16 +19,6 @@ function write(dir: string, name: string, content: string | Buffer): string {
 
 function stdinOf(...chunks: (string | Buffer)[]): NodeJS.ReadableStream {
   return Readable.from(chunks.map((c) => (typeof c === 'string' ? Buffer.from(c, 'utf8') : c)));
-}
-
-async function usage(p: Promise<unknown>): Promise<UsageError> {
-  try {
-    await p;
-  } catch (err) {
-    expect(err).toBeInstanceOf(UsageError);
-    return err as UsageError;
-  }
-  throw new Error('expected a UsageError');
 }
 
 /** Every document as the row it came from: id column first, then fields. */

@@ -1,21 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import iconv from 'iconv-lite';
 import { ingest } from '../src/ingest/index.js';
 import { canonicalEncoding, chooseEncoding, declaredHtmlCharset, utf16ByNulPattern } from '../src/ingest/charset.js';
 import { decodeBuffer, InputDecoder } from '../src/ingest/decode.js';
-
-function tmp(): string {
-  return mkdtempSync(path.join(os.tmpdir(), 'sheaf-ingest-enc-'));
-}
-
-function put(root: string, rel: string, content: string | Buffer): void {
-  const p = path.join(root, rel);
-  mkdirSync(path.dirname(p), { recursive: true });
-  writeFileSync(p, content);
-}
+import { tmp, put } from './helpers/files.js';
 
 describe('Windows-1252', () => {
   it('decodes 0x80–0x9F as the published code chart; the five undefined bytes become U+FFFD, counted', () => {

@@ -1,33 +1,17 @@
 import { describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
-import { createReadStream, mkdirSync, mkdtempSync, readdirSync, readFileSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
+import { createReadStream, mkdirSync, mkdtempSync, readdirSync, readFileSync, statSync, symlinkSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ingest, type IngestIo } from '../src/ingest/index.js';
-import { UsageError } from '../src/util/errors.js';
+import { put, usage } from './helpers/files.js';
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 const ROOT = path.join(HERE, '..');
 
 function sha(b: Buffer | string): string {
   return createHash('sha256').update(b).digest('hex');
-}
-
-function put(root: string, rel: string, content: string | Buffer): void {
-  const p = path.join(root, rel);
-  mkdirSync(path.dirname(p), { recursive: true });
-  writeFileSync(p, content);
-}
-
-async function usage(p: Promise<unknown>): Promise<UsageError> {
-  try {
-    await p;
-  } catch (err) {
-    expect(err).toBeInstanceOf(UsageError);
-    return err as UsageError;
-  }
-  throw new Error('expected a UsageError');
 }
 
 /** A folder with every kind of entry the reader must handle. */

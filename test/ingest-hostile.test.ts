@@ -3,35 +3,14 @@
  * issue 12 item 5 for title columns): each test failed before its fix.
  */
 import { describe, expect, it } from 'vitest';
-import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
-import os from 'node:os';
+import { writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { Readable } from 'node:stream';
 import { deflateSync } from 'node:zlib';
 import { ingest } from '../src/ingest/index.js';
 import { PDF_INFLATED_MAX, readPdf } from '../src/ingest/pdf.js';
-import { UsageError } from '../src/util/errors.js';
 import { sheaf } from './helpers/cli.js';
-
-function tmp(): string {
-  return mkdtempSync(path.join(os.tmpdir(), 'sheaf-hostile-'));
-}
-
-function put(root: string, rel: string, content: string | Buffer): void {
-  const p = path.join(root, rel);
-  mkdirSync(path.dirname(p), { recursive: true });
-  writeFileSync(p, content);
-}
-
-async function usage(p: Promise<unknown>): Promise<UsageError> {
-  try {
-    await p;
-  } catch (err) {
-    expect(err).toBeInstanceOf(UsageError);
-    return err as UsageError;
-  }
-  throw new Error('expected a UsageError');
-}
+import { tmp, put, usage } from './helpers/files.js';
 
 describe('rows nested very deep (case 10)', () => {
   const deep = (n: number): string => '{"text":"deep row","x":' + '['.repeat(n) + ']'.repeat(n) + '}';

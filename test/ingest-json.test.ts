@@ -1,29 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import { Readable } from 'node:stream';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ingest } from '../src/ingest/index.js';
-import { UsageError } from '../src/util/errors.js';
+import { tmp, usage } from './helpers/files.js';
 
 const FIX = path.join(path.dirname(fileURLToPath(import.meta.url)), 'fixtures', 'ingest');
 // Values as Python's json module parsed them (test/fixtures/ingest/make_fixtures.py).
 const PY = JSON.parse(readFileSync(path.join(FIX, 'expected.json'), 'utf8')) as Record<string, unknown>;
-
-function tmp(): string {
-  return mkdtempSync(path.join(os.tmpdir(), 'sheaf-ingest-json-'));
-}
-
-async function usage(p: Promise<unknown>): Promise<UsageError> {
-  try {
-    await p;
-  } catch (err) {
-    expect(err).toBeInstanceOf(UsageError);
-    return err as UsageError;
-  }
-  throw new Error('expected a UsageError');
-}
 
 describe('JSON arrays', () => {
   it('reaches nested values with dotted paths and keeps top-level columns as fields', async () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import iconv from 'iconv-lite';
@@ -15,15 +15,10 @@ import {
   splitMultipart,
   unflow,
 } from '../src/ingest/mail.js';
+import { put } from './helpers/files.js';
 
 const crlf = (lines: string[]): Buffer => Buffer.from(lines.join('\r\n'), 'latin1');
 const b64 = (s: string, enc: BufferEncoding = 'utf8'): string => Buffer.from(s, enc).toString('base64');
-
-function put(root: string, rel: string, content: string | Buffer): void {
-  const p = path.join(root, rel);
-  mkdirSync(path.dirname(p), { recursive: true });
-  writeFileSync(p, content);
-}
 
 describe('RFC 2047 encoded words', () => {
   it('decodes the examples of RFC 2047 §8 (from memory)', () => {

@@ -1,7 +1,5 @@
 import { describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
-import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { PDFDocument, StandardFonts, rgb } from 'pdf-lib';
 import { Document, HeadingLevel, Packer, Paragraph, TextRun } from 'docx';
@@ -9,16 +7,7 @@ import { ingest } from '../src/ingest/index.js';
 import { readPdf, headingOf, joinHyphenated } from '../src/ingest/pdf.js';
 import { readDocx, coreTitle, decodeXmlText } from '../src/ingest/docx.js';
 import { InputSkip } from '../src/ingest/decode.js';
-
-function tmp(): string {
-  return mkdtempSync(path.join(os.tmpdir(), 'sheaf-ingest-pdf-'));
-}
-
-function put(root: string, rel: string, content: string | Uint8Array): void {
-  const p = path.join(root, rel);
-  mkdirSync(path.dirname(p), { recursive: true });
-  writeFileSync(p, content);
-}
+import { tmp, put } from './helpers/files.js';
 
 async function skipOf(p: Promise<unknown>): Promise<string> {
   try {

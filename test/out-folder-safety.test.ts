@@ -20,6 +20,8 @@ import {
   writeOutput,
 } from '../src/report/folder.js';
 import { installStagingCleanup } from '../src/cli/signals.js';
+import { checkOutputFolders } from '../src/cli/out-paths.js';
+import type { CliIo } from '../src/cli/io.js';
 import { UsageError } from '../src/util/errors.js';
 
 /** Twelve short tickets on two invented themes (a ferry line's bookings and its lost property desk). */
@@ -186,6 +188,20 @@ describe('--save-vectors overlapping --out (case 4)', () => {
       });
     }
   }
+});
+
+describe('a --save-vectors folder sheaf did not write', () => {
+  it('is refused naming --save-vectors, and the error names option saveVectors (was out)', async () => {
+    const dir = tempDir();
+    mkdirSync(path.join(dir, 'v'));
+    writeFileSync(path.join(dir, 'v', 'mine.txt'), 'my own file');
+    const io = { cwd: dir, stderr: { write: () => true } } as unknown as CliIo;
+    const err = await checkOutputFolders({ inputs: [], out: 'o', saveVectors: 'v' }, io).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(UsageError);
+    expect((err as UsageError).message).toBe('output folder v already exists and was not written by sheaf; choose another --save-vectors or empty it');
+    expect((err as UsageError).option).toBe('saveVectors');
+    expect(readdirSync(path.join(dir, 'v'))).toEqual(['mine.txt']);
+  });
 });
 
 describe('staging folders after a signal or a dead process (case 13)', () => {

@@ -8,7 +8,8 @@ import fc from 'fast-check';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { parse } from 'csv-parse/sync';
-import { canonicalOrder, compareIds, groupDocuments, selectRows } from '../src/pipeline.js';
+import { canonicalOrder, compareIds, groupDocuments, resolveGroupOptions, selectRows } from '../src/pipeline.js';
+import { UsageError } from '../src/util/errors.js';
 import { canonicalGroups, partitionFromAssignments } from '../src/cluster/partition.js';
 import { cutToGroups, groupAverageLink } from '../src/cluster/tree.js';
 import type { Csr, Doc } from '../src/types.js';
@@ -88,6 +89,12 @@ describe('groupDocuments', () => {
     expect(() => groupDocuments(demo, { groups: 'auto', choose: { range: [5, 3] } })).toThrow(
       'range must be two whole numbers from 2 up, the first not above the second (like 4..40); got [5,3]',
     );
+    // Not a pair (was a TypeError "not iterable" for a number, and [2, 9, 40] passed as 2..9).
+    for (const [range, shown] of [[5, '5'], [null, 'null'], [[2, 9, 40], '[2,9,40]']] as const) {
+      expect(() => resolveGroupOptions({ groups: 'auto', choose: { range: range as unknown as [number, number] } })).toThrow(
+        new UsageError(`range must be two whole numbers from 2 up, the first not above the second (like 4..40); got ${shown}`, 'range'),
+      );
+    }
     expect(() => groupDocuments(demo.slice(0, 5), { groups: 'auto', choose: { range: [8, 9] } })).toThrow(
       'range starts at 8 groups but there are only 5 to split into; lower the range',
     );

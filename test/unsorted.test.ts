@@ -5,7 +5,8 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { bisectRows, rowSubset, splitGroups } from '../src/cluster/bisect.js';
+import { bisectRows, splitGroups } from '../src/cluster/bisect.js';
+import { selectRows } from '../src/util/csr.js';
 import { sphericalKMeans } from '../src/cluster/kmeans.js';
 import { median, mixedGroups, refineGroups, resolveRefineOptions, unsortedRows, unsortedThreshold } from '../src/cluster/unsorted.js';
 import { partitionFromAssignments } from '../src/cluster/partition.js';
@@ -23,6 +24,17 @@ describe('the unsorted threshold', () => {
     expect(unsortedThreshold(a, fit, 2)).toBeCloseTo(0.30348, 5);
     expect(Array.from(unsortedRows(a, fit, 2, 0.30348))).toEqual([0]);
     expect(median(Float64Array.from([3, 1, 2, 10]))).toBe(2.5);
+  });
+
+  it('with more than half the fits equal (MAD 0), uses the mean absolute deviation instead of setting apart every fit below the median', () => {
+    // Six exact copies (fit 1) in groups 0 and 1; group 2 has fits 0.95, 0.9, 0.92, 0.3. Median 1, MAD 0 (before: threshold 1,
+    // so 0.9 and 0.92 were set apart too). Absolute deviations 0 ×6, .05, .1, .08, .7: mean .093;
+    // threshold 1 − 2 · 1.253314 · .093 = 0.76688 (√(π/2) = 1.253314: mean absolute deviation over σ under normality).
+    const a = Int32Array.from([0, 0, 0, 1, 1, 1, 2, 2, 2, 2]);
+    const fit = Float32Array.from([1, 1, 1, 1, 1, 1, 0.95, 0.9, 0.92, 0.3]);
+    const t = unsortedThreshold(a, fit, 2);
+    expect(t).toBeCloseTo(0.76688, 5);
+    expect(Array.from(unsortedRows(a, fit, 3, t))).toEqual([9]);
   });
 
   it('never takes a group’s most central member, so no group empties', () => {
@@ -76,7 +88,7 @@ describe('bisecting spherical k-means', () => {
           const sub = csrFromDense(Array.from(pick, (i) => rows[i]));
           const want = sphericalKMeans(sub, { groups: 2, seed, restarts: 2 }).assignments;
           expect(Array.from(bisectRows(m, pick, { seed, restarts: 2 })!)).toEqual(Array.from(want));
-          expect(rowSubset(m, pick).indptr.length).toBe(pick.length + 1);
+          expect(selectRows(m, pick).indptr.length).toBe(pick.length + 1);
         },
       ),
       { numRuns: 50 },

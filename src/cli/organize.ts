@@ -12,6 +12,7 @@ import { parse } from 'csv-parse/sync';
 import type { CliIo } from './io.js';
 import { UsageError } from '../util/errors.js';
 import { visible } from './visible.js';
+import { isWithin } from './out-paths.js';
 
 interface OrganizeFlags {
   into: string;
@@ -120,12 +121,6 @@ export async function withFileDigests<T extends { files?: readonly RunFile[] }>(
   return { ...run, files };
 }
 
-/** Whether `p` is `root` or lies under it (both absolute and resolved). */
-function isUnder(p: string, root: string): boolean {
-  const rel = path.relative(root, p);
-  return rel === '' || (rel !== '..' && !rel.startsWith('..' + path.sep) && !path.isAbsolute(rel));
-}
-
 /**
  * The folder of `to` made under `into`, one component at a time, never through
  * a link: each existing component is checked with lstat. Returns null when made,
@@ -176,7 +171,7 @@ async function checkedSource(f: { path: string; sha256?: string }, roots: readon
   } catch {
     return { reason: 'the input file is gone' };
   }
-  if (!roots.some((r) => isUnder(real, r))) return { reason: 'not under an input of the run; not copied' };
+  if (!roots.some((r) => isWithin(real, r))) return { reason: 'not under an input of the run; not copied' };
   let bytes: Buffer;
   try {
     const handle = await open(real, constants.O_RDONLY | constants.O_NOFOLLOW);

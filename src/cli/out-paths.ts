@@ -57,7 +57,7 @@ export function isWithin(inner: string, outer: string): boolean {
  * each folder that holds an earlier run.
  */
 export async function checkOutputFolders(plan: OutputPlan, io: CliIo): Promise<void> {
-  const folders: { flag: string; shown: string; real: string }[] = [{ flag: '--out', shown: plan.out, real: await realPathAsFarAsExists(path.resolve(io.cwd, plan.out)) }];
+  const folders: { flag: string; option: string; shown: string; real: string }[] = [{ flag: '--out', option: 'out', shown: plan.out, real: await realPathAsFarAsExists(path.resolve(io.cwd, plan.out)) }];
   if (plan.saveVectors !== undefined) {
     const real = await realPathAsFarAsExists(path.resolve(io.cwd, plan.saveVectors));
     if (isWithin(real, folders[0].real) || isWithin(folders[0].real, real)) {
@@ -66,7 +66,7 @@ export async function checkOutputFolders(plan: OutputPlan, io: CliIo): Promise<v
         'saveVectors',
       );
     }
-    folders.push({ flag: '--save-vectors', shown: plan.saveVectors, real });
+    folders.push({ flag: '--save-vectors', option: 'saveVectors', shown: plan.saveVectors, real });
   }
   const reads = [...plan.inputs.filter((i) => i !== '-'), ...(plan.alsoReads ?? []).filter((i): i is string => i !== undefined)];
   for (const input of reads) {
@@ -75,7 +75,7 @@ export async function checkOutputFolders(plan: OutputPlan, io: CliIo): Promise<v
       if (isWithin(real, f.real)) {
         throw new UsageError(
           `input ${input} lies inside the output folder ${f.shown}, which this run would replace; move it or choose another ${f.flag}`,
-          f.flag === '--out' ? 'out' : 'saveVectors',
+          f.option,
         );
       }
     }
@@ -84,10 +84,10 @@ export async function checkOutputFolders(plan: OutputPlan, io: CliIo): Promise<v
   for (const f of folders) {
     const target = path.resolve(io.cwd, f.shown);
     const state = await assertReplaceable(target, f.shown).catch((err: unknown) => {
-      if (err instanceof UsageError && f.flag !== '--out') throw new UsageError(err.message.replace(/--out\b/, f.flag), err.option);
+      if (err instanceof UsageError && f.flag !== '--out') throw new UsageError(err.message.replace(/--out\b/, f.flag), f.option);
       throw err;
     });
-    await assertWritable(target, f.shown, f.flag, f.flag === '--out' ? 'out' : 'saveVectors');
+    await assertWritable(target, f.shown, f.flag, f.option);
     if (state === 'earlier-run') replacing.push(f.shown);
   }
   if (!plan.quiet) for (const dir of replacing) io.stderr.write(`sheaf: replacing the earlier run in ${dir}\n`);

@@ -11,21 +11,7 @@
 import type { Csr } from '../types.js';
 import { sphericalKMeans, type KMeansOptions } from './kmeans.js';
 import { canonicalGroups } from './partition.js';
-
-/** The given rows of a CSR matrix as a new CSR matrix (values copied). */
-export function rowSubset(matrix: Csr, rows: Int32Array): Csr {
-  const indptr = new Int32Array(rows.length + 1);
-  for (let i = 0; i < rows.length; i++) indptr[i + 1] = indptr[i] + matrix.indptr[rows[i] + 1] - matrix.indptr[rows[i]];
-  const indices = new Int32Array(indptr[rows.length]);
-  const values = new Float32Array(indptr[rows.length]);
-  for (let i = 0; i < rows.length; i++) {
-    const from = matrix.indptr[rows[i]];
-    const to = matrix.indptr[rows[i] + 1];
-    indices.set(matrix.indices.subarray(from, to), indptr[i]);
-    values.set(matrix.values.subarray(from, to), indptr[i]);
-  }
-  return { rows: rows.length, cols: matrix.cols, indptr, indices, values };
-}
+import { selectRows } from '../util/csr.js';
 
 /**
  * Splits the given rows in two with spherical k-means (k = 2) on those rows
@@ -33,7 +19,7 @@ export function rowSubset(matrix: Csr, rows: Int32Array): Csr {
  * rows cannot be split (fewer than two with terms).
  */
 export function bisectRows(matrix: Csr, rows: Int32Array, options: Partial<Omit<KMeansOptions, 'groups' | 'initialAssignments'>> = {}): Int32Array | null {
-  const sub = rowSubset(matrix, rows);
+  const sub = selectRows(matrix, rows);
   let nonEmpty = 0;
   for (let i = 0; i < sub.rows; i++) if (sub.indptr[i + 1] > sub.indptr[i]) nonEmpty++;
   if (nonEmpty < 2) return null;

@@ -197,7 +197,11 @@ export function chooseCut(scores: readonly CutScore[], range: readonly [number, 
     return {
       chosen,
       rule: 'silhouette',
-      warnings: [`the range ${lo}..${hi} holds fewer than three numbers of groups, too few for a knee; chose by silhouette; try --range ${wider}`],
+      warnings: [
+        top < hi
+          ? `only ${lo}..${top} groups can be tried (the tree has only ${top} leaves), too few for a knee; chose by silhouette`
+          : `the range ${lo}..${hi} holds fewer than three numbers of groups, too few for a knee; chose by silhouette; try --range ${wider}`,
+      ],
     };
   }
   const k = kneedle(

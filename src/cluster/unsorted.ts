@@ -9,7 +9,9 @@
  *   unit centre) has median M and median absolute deviation D, scaled by
  *   1.4826 so it estimates a standard deviation under normality. A document
  *   with fit below `M − spread · 1.4826 · D` is unsorted (one threshold for the
- *   pile). A group always keeps its most central member, so no group empties.
+ *   pile). When more than half the fits are equal, D is 0; the mean absolute
+ *   deviation scaled by √(π/2) ≈ 1.253314 stands in for 1.4826 · D.
+ *   A group always keeps its most central member, so no group empties.
  *   The centres are then recomputed from the members that stay; an unsorted
  *   document keeps the fit it had.
  * - **Mixed**: a group of at least 4 documents whose cohesion (mean fit) is
@@ -67,15 +69,22 @@ export function median(values: Float64Array): number {
   return s.length % 2 === 1 ? s[h] : (s[h - 1] + s[h]) / 2;
 }
 
-/** The fit below which a grouped document is unsorted: median − spread · 1.4826 · MAD over grouped rows. */
+/** The fit below which a grouped document is unsorted: median − spread · 1.4826 · MAD over grouped rows (MAD 0: 1.253314 · mean absolute deviation instead). */
 export function unsortedThreshold(assignments: Int32Array, fit: Float32Array, spread: number): number {
   let n = 0;
   for (let r = 0; r < assignments.length; r++) if (assignments[r] >= 0) n++;
   const f = new Float64Array(n);
   for (let r = 0, i = 0; r < assignments.length; r++) if (assignments[r] >= 0) f[i++] = fit[r];
   const m = median(f);
-  for (let i = 0; i < n; i++) f[i] = Math.abs(f[i] - m);
-  return m - spread * 1.4826 * median(f);
+  let meanAd = 0;
+  for (let i = 0; i < n; i++) {
+    f[i] = Math.abs(f[i] - m);
+    meanAd += f[i] / n;
+  }
+  const mad = median(f);
+  // More than half the fits equal (exact copies, one-member groups): MAD is 0 and would set apart every fit below
+  // the median; the mean absolute deviation (× √(π/2) ≈ 1.253314 to estimate σ) stands in (common practice, from memory).
+  return mad > 0 ? m - spread * 1.4826 * mad : m - spread * 1.253314 * meanAd;
 }
 
 /**

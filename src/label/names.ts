@@ -95,6 +95,7 @@ function allStopSets(): Map<string, Set<string>> {
 export function groupLanguages(texts: readonly string[], assignments: Int32Array, groups: number, runLang: string): string[][] {
   const sets = allStopSets();
   const langs = [...sets.keys()];
+  const lists = [...sets.values()];
   const hits = new Float64Array(groups * langs.length);
   const tokens = new Float64Array(groups);
   const seen = new Int32Array(groups);
@@ -105,7 +106,7 @@ export function groupLanguages(texts: readonly string[], assignments: Int32Array
     // Single letters are left out: several lists hold them, and markup and encoded mail are full of them.
     for (const m of texts[r]!.toLowerCase().matchAll(/[\p{L}']{2,}/gu)) {
       tokens[g]!++;
-      for (let l = 0; l < langs.length; l++) if (sets.get(langs[l]!)!.has(m[0])) hits[g * langs.length + l]!++;
+      for (let l = 0; l < lists.length; l++) if (lists[l]!.has(m[0])) hits[g * langs.length + l]!++;
     }
   }
   const run = langs.indexOf(runLang);

@@ -9,6 +9,7 @@ import type { DuplicateRun } from '../near-copies.js';
 import type { ReportData } from './report-data.js';
 import { groupMap } from './map.js';
 import { methodOf } from '../methods/index.js';
+import { round } from '../util/round.js';
 
 /** What the report shows besides the run itself. */
 export interface ReportContext {
@@ -120,12 +121,11 @@ export function reportFromRun(
 
 /** The score table of an automatic choice (run.json and the report): one row per number of groups tried; NaN becomes null. */
 export function choiceTable(choice: GroupChoice): { groups: number; objective: number; knee: number; silhouette: number | null; chosen: boolean }[] {
-  const r6 = (v: number): number => Math.round(v * 1e6) / 1e6;
   return choice.tried.map((t) => ({
     groups: t.groups,
-    objective: r6(t.objective),
-    knee: r6(t.knee),
-    silhouette: Number.isFinite(t.silhouette) ? r6(t.silhouette) : null,
+    objective: round(t.objective, 6),
+    knee: round(t.knee, 6),
+    silhouette: Number.isFinite(t.silhouette) ? round(t.silhouette, 6) : null,
     chosen: t.groups === choice.chosen,
   }));
 }
