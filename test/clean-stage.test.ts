@@ -163,6 +163,14 @@ describe('auto cleaning decides per pile whether its rows hold ticket clutter', 
     expect(applyModel(model, one).docs[0]!.text).toBe(one.docs[0]!.text);
   });
 
+  it('a pile of files judged no rows: the model keeps auto with detection, so new rows are judged by their own batch', () => {
+    const files = Array.from({ length: 8 }, (_, i) => ({ id: String(i), source: `n${i}.txt`, title: 't', text: `pump ${i % 2 ? 'water' : 'tank'} leak note`, fields: new Map<string, string>() }));
+    const r = groupDocuments(files, { groups: 2 });
+    expect(r.clean.detected).toBeUndefined();
+    const model = modelFromJson(modelJsonOf(r, 'test', null));
+    expect([model.cleaning.mode, model.cleaning.detect]).toEqual(['auto', true]);
+  });
+
   it('refuses a detect that is not true or false', () => {
     expect(() => resolveCleanStage({ detect: 'yes' as unknown as boolean })).toThrow('detect must be true or false; got "yes"');
   });
