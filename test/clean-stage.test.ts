@@ -51,7 +51,8 @@ describe('the model records its cleaning and assign applies it', () => {
     const m = JSON.parse(readFileSync(path.join(dir, 'raw', 'model.json'), 'utf8'));
     expect(m.version).toBe(2);
     expect(m.cleaning.mode).toBe('none');
-    expect(JSON.parse(readFileSync(path.join(dir, 'cleaned', 'model.json'), 'utf8')).cleaning.mode).toBe('auto');
+    // Under auto the pile (every row greets and signs) was judged worth cleaning: the model records that decision.
+    expect(JSON.parse(readFileSync(path.join(dir, 'cleaned', 'model.json'), 'utf8')).cleaning).toMatchObject({ mode: 'tickets', detect: false });
   });
 
   it('sheaf assign cleans new documents as the model was fitted: not at all for --clean none', async () => {
@@ -83,7 +84,8 @@ describe('the model records its cleaning and assign applies it', () => {
     const doc = { id: 'x', source: 's#1', title: 'Hi team,', text: 'Hi team,\nrefund never came back\nThanks\nAnna', fields: new Map(), titleFromText: true };
     const a = applyModel(model, { docs: [doc], exportRows: [1] });
     expect(a.docs[0]!.text).toBe('refund never came back');
-    expect(applyModel(model, [doc]).docs[0]!.text).toBe(doc.text);
+    // The fitted pile was judged ticket-like, so a document file is cleaned the same way.
+    expect(applyModel(model, [doc]).docs[0]!.text).toBe('refund never came back');
   });
 });
 
@@ -163,12 +165,16 @@ describe('auto cleaning decides per pile whether its rows hold ticket clutter', 
     expect(applyModel(model, one).docs[0]!.text).toBe(one.docs[0]!.text);
   });
 
-  it('a pile of files judged no rows: the model keeps auto with detection, so new rows are judged by their own batch', () => {
-    const files = Array.from({ length: 8 }, (_, i) => ({ id: String(i), source: `n${i}.txt`, title: 't', text: `pump ${i % 2 ? 'water' : 'tank'} leak note`, fields: new Map<string, string>() }));
-    const r = groupDocuments(files, { groups: 2 });
-    expect(r.clean.detected).toBeUndefined();
-    const model = modelFromJson(modelJsonOf(r, 'test', null));
-    expect([model.cleaning.mode, model.cleaning.detect]).toEqual(['auto', true]);
+  it('files are judged as rows are: mail files full of replies are cleaned, notes are kept as written', () => {
+    const file = (i: number, text: string) => ({ id: String(i), source: `n${i}.txt`, title: 't', text, fields: new Map<string, string>() });
+    const notes = Array.from({ length: 8 }, (_, i) => file(i, `pump ${i % 2 ? 'water' : 'tank'} leak note`));
+    const kept = groupDocuments(notes, { groups: 2 });
+    expect(kept.clean.detected).toEqual({ share: 0, threshold: AUTO_CLUTTER_SHARE, applied: false });
+    expect(modelFromJson(modelJsonOf(kept, 'test', null)).cleaning).toMatchObject({ mode: 'none', detect: false });
+    const mails = Array.from({ length: 8 }, (_, i) => file(i, `Hi team,\npump ${i % 2 ? 'water' : 'tank'} leak again\nThanks\nAnna`));
+    const cleaned = groupDocuments(mails, { groups: 2 });
+    expect(cleaned.clean.detected?.applied).toBe(true);
+    expect(cleaned.docs.map((d) => d.text)).toEqual(mails.map((m) => m.text.split('\n')[1]));
   });
 
   it('refuses a detect that is not true or false', () => {

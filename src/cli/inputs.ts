@@ -73,7 +73,7 @@ export function addInputFlags(cmd: Command): Command {
     .option('--delimiter <char>', 'field separator for delimited exports')
     .option('--include <glob>', 'only files in folders matching this pattern (repeatable)', collect)
     .option('--exclude <glob>', 'skip files in folders matching this pattern (repeatable)', collect)
-    .option('--clean <mode>', 'auto (default: export rows when at least 20% hold quoted replies, signatures or greetings; never document files), tickets (everything: drop quoted replies, signatures, greetings, repeated boilerplate; fold links, addresses, numbers) or none')
+    .option('--clean <mode>', 'auto (default: clean when at least 20% of the documents hold quoted replies, signatures or greetings), tickets (always: drop quoted replies, signatures, greetings, repeated boilerplate; fold links, addresses, numbers) or none')
     .option('--encoding <name>', 'read every file in this character encoding (default: detect)')
     .option('--max-bytes <n>', 'longest document text kept, in bytes (longer ones are cut, and listed in run.json)')
     .option('--max-files <n>', 'read at most this many files from folders')
@@ -131,7 +131,7 @@ export function cleaningNotes(r: CleanReport): string[] {
   if (r.detected && !r.detected.applied) {
     if (r.withClutter === 0) return [];
     return [
-      `sheaf: note: rows kept as written: ${Math.round(100 * r.detected.share)}% hold quoted replies, signatures or greetings ` +
+      `sheaf: note: documents kept as written: ${Math.round(100 * r.detected.share)}% hold quoted replies, signatures or greetings ` +
         `(cleaning starts at ${Math.round(100 * r.detected.threshold)}%); --clean tickets cleans them anyway`,
     ];
   }

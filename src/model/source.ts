@@ -12,10 +12,10 @@ export function modelSourceOf(result: GroupResult, createdBy: string, tree: unkn
   return {
     createdBy,
     // The decision the cleaning stage made on this pile, kept so `assign` cleans new documents the same way.
+    // (Under `auto` the pile was judged: cleaned as tickets, or kept as written.)
     cleaning: result.clean.detected
-      ? { ...result.options.clean, mode: result.clean.detected.applied ? 'auto' : 'none', detect: false }
-      : // No export rows were judged (a pile of files, or tickets/none): the setting as given, so under `auto` new rows are judged by their own batch.
-        result.options.clean,
+      ? { ...result.options.clean, mode: result.clean.detected.applied ? 'tickets' : 'none', detect: false }
+      : result.options.clean,
     analyzer: result.options.analyzer,
     vocabulary: result.vocabulary,
     groups: result.partition.groups,
