@@ -24,7 +24,7 @@
  */
 import type { Csr } from '../types.js';
 import { cutToGroups, type Dendrogram } from './tree.js';
-import { silhouetteForCuts } from './quality.js';
+import { silhouetteForCuts, termMajorGram } from './quality.js';
 import { groupSums } from './partition.js';
 
 /** What {@link kneedle} found. */
@@ -135,26 +135,7 @@ export function sphericalObjective(matrix: Csr, assignments: Int32Array, groups:
 
 /** Gram matrix (leaves × leaves, row-major) of the leaf sum vectors. */
 function leafGram(matrix: Csr, leafOf: Int32Array, leaves: number): Float64Array {
-  const { rows, cols, indptr, indices, values } = matrix;
-  const sums = new Float64Array(cols * leaves);
-  for (let r = 0; r < rows; r++) {
-    const l = leafOf[r];
-    if (l < 0) continue;
-    for (let p = indptr[r]; p < indptr[r + 1]; p++) sums[indices[p] * leaves + l] += values[p];
-  }
-  const gram = new Float64Array(leaves * leaves);
-  const nz = new Int32Array(leaves);
-  for (let t = 0; t < cols; t++) {
-    const base = t * leaves;
-    let z = 0;
-    for (let l = 0; l < leaves; l++) if (sums[base + l] !== 0) nz[z++] = l;
-    for (let a = 0; a < z; a++) {
-      const la = nz[a];
-      const va = sums[base + la];
-      for (let b = 0; b < z; b++) gram[la * leaves + nz[b]] += va * sums[base + nz[b]];
-    }
-  }
-  return gram;
+  return termMajorGram(groupSums(matrix, leafOf, leaves), matrix.cols, leaves);
 }
 
 /** One number of groups tried, with its scores. */

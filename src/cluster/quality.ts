@@ -106,21 +106,7 @@ export function groupSeparation(centroids: Float32Array, terms: number, groups: 
     throw new Error(`groupSeparation: centroids have ${centroids.length} values; expected terms * groups = ${terms * groups}`);
   }
   const k = groups;
-  const gram = new Float64Array(k * k);
-  const nz = new Int32Array(k);
-  for (let t = 0; t < terms; t++) {
-    const base = t * k;
-    let z = 0;
-    for (let g = 0; g < k; g++) if (centroids[base + g] !== 0) nz[z++] = g;
-    for (let a = 0; a < z; a++) {
-      const ga = nz[a]!;
-      const va = centroids[base + ga]!;
-      for (let b = a; b < z; b++) {
-        const gb = nz[b]!;
-        gram[ga * k + gb]! += va * centroids[base + gb]!;
-      }
-    }
-  }
+  const gram = termMajorGram(centroids, terms, k);
   const out = new Float64Array(k);
   for (let g = 0; g < k; g++) {
     let best = -Infinity;
@@ -408,4 +394,30 @@ function drawSample(matrix: Csr, assignments: Int32Array, opts: SilhouetteOption
       }
     },
   };
+}
+
+/**
+ * The Gram matrix (k × k, row-major, symmetric) of k vectors stored
+ * term-major (`x[term * k + g]`), skipping zeros: O(Σ_t z_t²) for z_t vectors
+ * with a non-zero weight on term t. Shared by the groups' separation and the
+ * objective of a tree's cuts.
+ */
+export function termMajorGram(x: ArrayLike<number>, terms: number, k: number): Float64Array {
+  const gram = new Float64Array(k * k);
+  const nz = new Int32Array(k);
+  for (let t = 0; t < terms; t++) {
+    const base = t * k;
+    let z = 0;
+    for (let g = 0; g < k; g++) if (x[base + g] !== 0) nz[z++] = g;
+    for (let a = 0; a < z; a++) {
+      const ga = nz[a]!;
+      const va = x[base + ga]!;
+      for (let b = a; b < z; b++) {
+        const gb = nz[b]!;
+        gram[ga * k + gb]! += va * x[base + gb]!;
+      }
+    }
+  }
+  for (let a = 0; a < k; a++) for (let b = a + 1; b < k; b++) gram[b * k + a] = gram[a * k + b]!;
+  return gram;
 }
