@@ -6,13 +6,11 @@
  * @module
  */
 import type { Csr } from '../types.js';
-import { cutAtSimilarity, cutToGroups, documentAverageLink, type Dendrogram } from '../cluster/tree.js';
-import { chooseFromTree } from '../cluster/choose.js';
+import { cutToGroups, documentAverageLink, type Dendrogram } from '../cluster/tree.js';
 import { canonicalGroups, partitionFromAssignments } from '../cluster/partition.js';
 import { toNewick } from '../cluster/newick.js';
 import { rowsWithEntries, selectRows } from '../util/csr.js';
-import { UsageError } from '../util/errors.js';
-import { checkGroupsFit, countGroups, cutRange, kneeChoice, type GroupChoice, type MethodSettings } from './choose.js';
+import { checkGroupsFit, countGroups, cutTree, type GroupChoice, type MethodSettings } from './choose.js';
 import type { Formed, GroupingMethod } from './method.js';
 
 /** The fields method `agglomerative` adds to the result. */
@@ -51,19 +49,9 @@ function formByDocumentTree(matrix: Csr, nonEmpty: number, settings: MethodSetti
   let choice: GroupChoice | null = null;
   if (typeof settings.groups === 'number') {
     leafClusters = cutToGroups(docTree, settings.groups);
-  } else if (settings.minSimilarity !== null) {
-    leafClusters = cutAtSimilarity(docTree, settings.minSimilarity);
-    const chosen = countGroups(leafClusters);
-    if (chosen < 2) throw new UsageError(`minSimilarity ${settings.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
-    choice = { by: 'similarity', chosen, treeLeaves: nonEmpty, tried: [], sampled: 0, warnings: [] };
   } else {
     const identity = Int32Array.from({ length: nonEmpty }, (_, i) => i);
-    const picked = chooseFromTree(sub, identity, docTree, cutRange(settings, nonEmpty), settings.choose.range, {
-      sampleSize: settings.choose.sampleSize,
-      seed: settings.seed,
-    });
-    leafClusters = picked.leafClusters;
-    choice = kneeChoice(picked, nonEmpty);
+    ({ leafClusters, choice } = cutTree(sub, identity, docTree, nonEmpty, settings));
   }
   const k = countGroups(leafClusters);
   const raw = new Int32Array(matrix.rows).fill(-1);

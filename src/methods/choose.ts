@@ -9,7 +9,9 @@ import type { KMeansOptions } from '../cluster/kmeans-types.js';
 import type { TreeOptions } from '../cluster/tree.js';
 import { UsageError } from '../util/errors.js';
 import { checkGroupCount } from '../cluster/kmeans.js';
-import type { CutChoice, CutScore, TreeChoice } from '../cluster/choose.js';
+import { chooseFromTree, type CutChoice, type CutScore, type TreeChoice } from '../cluster/choose.js';
+import { cutAtSimilarity, type Dendrogram } from '../cluster/tree.js';
+import type { Csr } from '../types.js';
 
 /** Settings for choosing the number of groups (`groups: 'auto'`). */
 export interface ChooseOptions {
@@ -85,4 +87,31 @@ export function countGroups(leafClusters: Int32Array): number {
 /** The usual data check of a method: a given number of groups from 2 to the documents with terms (and at least 2 of those). */
 export function checkGroupsFit(settings: MethodSettings, nonEmpty: number): void {
   checkGroupCount(typeof settings.groups === 'number' ? settings.groups : 2, nonEmpty);
+}
+
+/**
+ * Cuts a tree whose leaves are `leaves` items (row r of `matrix` in leaf
+ * `leafOf[r]`, -1 for none) as the settings ask: where the average similarity
+ * falls below `minSimilarity`, or else at the knee of the objective over the
+ * range of numbers of groups. Returns each leaf's cluster and the record of
+ * the choice. Throws {@link UsageError} when a similarity leaves one group.
+ */
+export function cutTree(
+  matrix: Csr,
+  leafOf: Int32Array,
+  tree: Dendrogram,
+  leaves: number,
+  settings: MethodSettings,
+): { leafClusters: Int32Array; choice: GroupChoice } {
+  if (settings.minSimilarity !== null) {
+    const leafClusters = cutAtSimilarity(tree, settings.minSimilarity);
+    const chosen = countGroups(leafClusters);
+    if (chosen < 2) throw new UsageError(`minSimilarity ${settings.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
+    return { leafClusters, choice: { by: 'similarity', chosen, treeLeaves: leaves, tried: [], sampled: 0, warnings: [] } };
+  }
+  const picked = chooseFromTree(matrix, leafOf, tree, cutRange(settings, leaves), settings.choose.range, {
+    sampleSize: settings.choose.sampleSize,
+    seed: settings.seed,
+  });
+  return { leafClusters: picked.leafClusters, choice: kneeChoice(picked, leaves) };
 }

@@ -7,14 +7,12 @@
  */
 import type { Csr } from '../types.js';
 import type { KMeansResult } from '../cluster/kmeans.js';
-import { cutAtSimilarity, groupAverageLink } from '../cluster/tree.js';
-import { chooseFromTree } from '../cluster/choose.js';
+import { groupAverageLink } from '../cluster/tree.js';
 import type { Partition } from '../cluster/partition.js';
 import type { PipelineHooks } from '../types.js';
 import type { PipelineStep, StepReply } from '../runners.js';
-import { UsageError } from '../util/errors.js';
 import { round } from '../util/round.js';
-import { checkGroupsFit, countGroups, cutRange, kneeChoice, type GroupChoice, type MethodSettings } from './choose.js';
+import { checkGroupsFit, cutTree, type GroupChoice, type MethodSettings } from './choose.js';
 import type { GroupingMethod } from './method.js';
 
 /** The fields method `kmeans` adds to the result. */
@@ -76,27 +74,9 @@ function* formByKMeans(
   const over = Math.min(nonEmpty, settings.choose.overGroups ?? Math.max(2 * hi, 40));
   const first = yield* run(over);
   const overTree = groupAverageLink(matrix, first.assignments, over);
-  let chosen: number;
-  let choice: GroupChoice;
-  let leafClusters: Int32Array;
-  if (settings.minSimilarity !== null) {
-    leafClusters = cutAtSimilarity(overTree, settings.minSimilarity);
-    chosen = countGroups(leafClusters);
-    choice = { by: 'similarity', chosen, treeLeaves: over, tried: [], sampled: 0, warnings: [] };
-  } else {
-    const picked = chooseFromTree(matrix, first.assignments, overTree, cutRange(settings, over), settings.choose.range, {
-      sampleSize: settings.choose.sampleSize,
-      seed: settings.seed,
-    });
-    chosen = picked.chosen;
-    leafClusters = picked.leafClusters;
-    choice = kneeChoice(picked, over);
-  }
-  if (chosen < 2) {
-    throw new UsageError(`minSimilarity ${settings.minSimilarity} leaves a single group; raise it`, 'minSimilarity');
-  }
+  const { leafClusters, choice } = cutTree(matrix, first.assignments, overTree, over, settings);
   // Refine the chosen cut: k-means started from the partition the cut gives (each row in its over-group's cluster).
   const initial = first.assignments.map((g) => (g < 0 ? -1 : leafClusters[g]!));
-  const km = yield* run(chosen, initial);
+  const km = yield* run(choice.chosen, initial);
   return { partition: kmeansPartition(km), kmeans: km, choice };
 }
