@@ -71,15 +71,24 @@ export const MIN_LANGUAGE_HITS = 5;
 /** Members read per group to tell its language. */
 export const LANGUAGE_SAMPLE = 40;
 
-let stopSets: Map<string, Set<string>> | null = null;
+/** The supported languages, and for each stop word the indices (in that list) of the languages whose list holds it. */
+let stopIndex: { langs: readonly string[]; byWord: Map<string, Int32Array> } | null = null;
 
-/** Every supported language's built-in stop words, lower-cased (built once). */
-function allStopSets(): Map<string, Set<string>> {
-  if (stopSets === null) {
-    stopSets = new Map();
-    for (const lang of SUPPORTED_LANGUAGES) stopSets.set(lang, new Set(builtInStopwords(lang).map((w) => w.toLowerCase())));
+/** Every supported language's built-in stop words, lower-cased, as one word → languages map (built once). */
+function languagesByStopword(): { langs: readonly string[]; byWord: Map<string, Int32Array> } {
+  if (stopIndex === null) {
+    const langs = [...SUPPORTED_LANGUAGES];
+    const lists = new Map<string, number[]>();
+    langs.forEach((lang, l) => {
+      for (const w of new Set(builtInStopwords(lang).map((x) => x.toLowerCase()))) {
+        const at = lists.get(w);
+        if (at) at.push(l);
+        else lists.set(w, [l]);
+      }
+    });
+    stopIndex = { langs, byWord: new Map([...lists].map(([w, ls]) => [w, Int32Array.from(ls)])) };
   }
-  return stopSets;
+  return stopIndex;
 }
 
 /**
@@ -93,9 +102,7 @@ function allStopSets(): Map<string, Set<string>> {
  * their name must not be `die · der · wir` or `de · het · op`.
  */
 export function groupLanguages(texts: readonly string[], assignments: Int32Array, groups: number, runLang: string): string[][] {
-  const sets = allStopSets();
-  const langs = [...sets.keys()];
-  const lists = [...sets.values()];
+  const { langs, byWord } = languagesByStopword();
   const hits = new Float64Array(groups * langs.length);
   const tokens = new Float64Array(groups);
   const seen = new Int32Array(groups);
@@ -106,7 +113,9 @@ export function groupLanguages(texts: readonly string[], assignments: Int32Array
     // Single letters are left out: several lists hold them, and markup and encoded mail are full of them.
     for (const m of texts[r]!.toLowerCase().matchAll(/[\p{L}']{2,}/gu)) {
       tokens[g]!++;
-      for (let l = 0; l < lists.length; l++) if (lists[l]!.has(m[0])) hits[g * langs.length + l]!++;
+      // One lookup a token, not one per language.
+      const ls = byWord.get(m[0]);
+      if (ls) for (let i = 0; i < ls.length; i++) hits[g * langs.length + ls[i]!]!++;
     }
   }
   const run = langs.indexOf(runLang);
