@@ -47,9 +47,9 @@ describe('the model records its cleaning and assign applies it', () => {
     expect(raw.code).toBe(0);
   });
 
-  it('model.json (version 2) holds the cleaning settings', () => {
+  it('model.json (version 3) holds the cleaning settings', () => {
     const m = JSON.parse(readFileSync(path.join(dir, 'raw', 'model.json'), 'utf8'));
-    expect(m.version).toBe(2);
+    expect(m.version).toBe(3);
     expect(m.cleaning.mode).toBe('none');
     // Under auto the pile (every row greets and signs) was judged worth cleaning: the model records that decision.
     expect(JSON.parse(readFileSync(path.join(dir, 'cleaned', 'model.json'), 'utf8')).cleaning).toMatchObject({ mode: 'tickets', detect: false });

@@ -27,7 +27,7 @@ describe('sheaf group --reduce and sheaf assign', () => {
     expect(run.code).toBe(0);
   });
 
-  it('records the reduction in run.json (settings, a timed stage) and the projection in model.json (version 2)', () => {
+  it('records the reduction in run.json (settings, a timed stage) and the projection in model.json (version 3)', () => {
     const run = JSON.parse(readFileSync(path.join(out, 'run.json'), 'utf8'));
     expect(run.settings.grouping.reduce).toEqual({ dims: 20, oversampling: 10, powerIterations: 5, auto: false });
     expect(run.reduced).toEqual({ dims: 20 });
@@ -35,7 +35,7 @@ describe('sheaf group --reduce and sheaf assign', () => {
       expect.arrayContaining(['analyze+vectorize', 'reduce', 'k-means', 'label']),
     );
     const text = readFileSync(path.join(out, 'model.json'), 'utf8');
-    expect(JSON.parse(text).version).toBe(2);
+    expect(JSON.parse(text).version).toBe(3);
     const model = modelFromJson(text, 'model.json');
     const terms = model.vocabulary.terms.length;
     expect(model.reduce?.dims).toBe(20);

@@ -11,8 +11,7 @@ import type { CleanReport } from '../clean/index.js';
 import { cleanStage, type CleanSettings, type DocumentInput } from '../clean/stage.js';
 import { createAnalyzer } from '../analyze/index.js';
 import { transformTfidf } from '../vectorize/index.js';
-import { assignToCentroids } from '../cluster/kmeans.js';
-import { assignWithModel, type Assignment, type Model } from './index.js';
+import { fileWithModel, type Assignment, type Model } from './index.js';
 
 /** The documents, their vectors' fate, and counts per group. */
 export interface ModelApplication extends Assignment {
@@ -44,7 +43,7 @@ export function applyModel(model: Model, input: readonly Doc[] | DocumentInput, 
     })(),
     model.vocabulary,
   );
-  const a = assignWithModel(model, matrix, (m, c, k) => assignToCentroids(m, c, k), minFit);
+  const a = fileWithModel(model, matrix, minFit);
   const matched = new Int32Array(model.groups);
   const nearButNew = new Int32Array(model.groups);
   let noKnownTerms = 0;

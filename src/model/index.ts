@@ -19,6 +19,11 @@
  * and the groups' unit centres in the reduced space (Float32 base64,
  * `[dim * groups + g]`); `centroids` stay the term-space ones.
  *
+ * Version 3 adds `novelty`: how `minFit` was calibrated from the training
+ * fits (`{ method: "quantile", quantile, margin }`: each group's `quantile` of
+ * its members' fits minus `margin`; see `./filing.ts`). Versions 1 and 2 still
+ * load; their `minFit` (the 5% quantile, no margin) is used as stored.
+ *
  * @module
  */
 import { z } from 'zod';
@@ -27,12 +32,13 @@ import type { AnalyzerSettings } from '../analyze/index.js';
 import { createVocabulary, type Vocabulary } from '../vectorize/index.js';
 import { UsageError } from '../util/errors.js';
 import { DEFAULT_CLEAN_STAGE, resolveCleanStage, type CleanSettings } from '../clean/stage.js';
+import { bestTwoGroups, calibrateThresholds, DEFAULT_NOVELTY_OPTIONS, type NoveltyOptions } from './filing.js';
 
-/** Current model format version (2: cleaning settings recorded, and `reduce` when the groups were formed on reduced vectors). */
-export const MODEL_VERSION = 2;
+/** Current model format version (2: cleaning settings recorded, and `reduce` when the groups were formed on reduced vectors; 3: `novelty`, the calibration of `minFit`). */
+export const MODEL_VERSION = 3;
 
 /** Versions this code reads. */
-export const MODEL_VERSIONS_READ: readonly number[] = [1, 2];
+export const MODEL_VERSIONS_READ: readonly number[] = [1, 2, 3];
 import { denseRowsAsCsr, projectRows, type ReducedGrouping } from '../reduce/index.js';
 
 /** The part of a run's reduced space that a model keeps. */
@@ -81,29 +87,28 @@ export interface Model {
   readonly labels: readonly { id: number; label: string; terms: readonly { term: string; weight: number }[]; size: number }[];
   /** Per group: a new document whose fit is below this is unmatched by default. */
   readonly minFit: Float32Array;
+  /** How `minFit` was calibrated (version 3 on; absent in older models, whose thresholds were the 5% quantile). */
+  readonly novelty?: ModelNovelty;
   /** Optional tree over the groups, as written to groups.json. */
   readonly tree?: unknown;
   /** Present when the groups were formed on reduced vectors: new documents are projected and compared with these centres. */
   readonly reduce?: ModelReduction;
 }
 
-/** The share of a group's own members allowed below its default fit threshold. */
-export const MIN_FIT_QUANTILE = 0.05;
+/** The calibration of a model's `minFit`, as recorded in model.json (version 3). */
+export interface ModelNovelty {
+  readonly method: 'quantile';
+  readonly quantile: number;
+  readonly margin: number;
+}
 
 /**
- * Per-group default fit thresholds from the training fits: the
- * {@link MIN_FIT_QUANTILE} quantile of each group's members' fits (lower
- * nearest rank), so about 95% of a group's own documents would still match it.
+ * Per-group default fit thresholds from the training fits (see
+ * {@link calibrateThresholds}: each group's `quantile` of its members' fits
+ * minus `margin`; by default the 1% quantile minus 0.01).
  */
-export function trainingFitThresholds(assignments: Int32Array, fit: Float32Array, groups: number): Float32Array {
-  const byGroup: number[][] = Array.from({ length: groups }, () => []);
-  for (let r = 0; r < assignments.length; r++) if (assignments[r] >= 0) byGroup[assignments[r]].push(fit[r]);
-  const out = new Float32Array(groups);
-  for (let g = 0; g < groups; g++) {
-    const f = byGroup[g].sort((a, b) => a - b);
-    out[g] = f.length ? f[Math.floor(MIN_FIT_QUANTILE * (f.length - 1))] : 0;
-  }
-  return out;
+export function trainingFitThresholds(assignments: Int32Array, fit: Float32Array, groups: number, novelty: NoveltyOptions = DEFAULT_NOVELTY_OPTIONS): Float32Array {
+  return calibrateThresholds(assignments, fit, groups, novelty);
 }
 
 function encodeFloat32(a: Float32Array): string {
@@ -179,6 +184,7 @@ const modelSchema = z.strictObject({
   groups: z.number().int().min(2).max(1_000_000),
   centroids: base64,
   minFit: z.array(z.number().min(-1).max(1)),
+  novelty: z.strictObject({ method: z.literal('quantile'), quantile: z.number().min(0).max(0.5), margin: z.number().min(0).max(1) }).optional(),
   labels: z.array(
     z.strictObject({ id: z.number().int().min(0), label: z.string(), terms: z.array(termSchema), size: z.number().int().min(0) }),
   ),
@@ -208,11 +214,14 @@ export interface ModelSource {
   readonly labels: Model['labels'];
   readonly tree?: unknown;
   readonly reduce?: ModelReduction;
+  /** Calibration of the novelty thresholds (default {@link DEFAULT_NOVELTY_OPTIONS}). */
+  readonly novelty?: NoveltyOptions;
 }
 
 /** Serialises a model as JSON text (deterministic for the same run). */
 export function modelToJson(src: ModelSource): string {
-  const minFit = trainingFitThresholds(src.assignments, src.fit, src.groups);
+  const novelty = src.novelty ?? DEFAULT_NOVELTY_OPTIONS;
+  const minFit = trainingFitThresholds(src.assignments, src.fit, src.groups, novelty);
   const doc = {
     format: 'sheaf-model',
     version: MODEL_VERSION,
@@ -236,6 +245,7 @@ export function modelToJson(src: ModelSource): string {
     groups: src.groups,
     centroids: encodeFloat32(src.centroids),
     minFit: Array.from(minFit, (v) => Math.round(v * 1e6) / 1e6),
+    novelty: { method: 'quantile', quantile: novelty.quantile, margin: novelty.margin },
     labels: src.labels.map((l) => ({
       id: l.id,
       label: l.label,
@@ -276,7 +286,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   }
   const version = (raw as { version?: unknown }).version;
   if (!MODEL_VERSIONS_READ.includes(version as number)) {
-    throw new UsageError(`${shownPath} has model version ${JSON.stringify(version)}; this sheaf reads versions ${MODEL_VERSIONS_READ.join(' and ')}`, 'model');
+    throw new UsageError(`${shownPath} has model version ${JSON.stringify(version)}; this sheaf reads versions ${MODEL_VERSIONS_READ.slice(0, -1).join(', ')} and ${MODEL_VERSIONS_READ[MODEL_VERSIONS_READ.length - 1]}`, 'model');
   }
   if (version === 1 && 'cleaning' in (raw as object)) throw new UsageError(`${shownPath} is damaged: cleaning: not part of model version 1`, 'model');
   if (version !== 1 && !('cleaning' in (raw as object))) throw new UsageError(`${shownPath} is damaged: cleaning: missing`, 'model');
@@ -310,6 +320,8 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   }
   let reduce: ModelReduction | undefined;
   if (version === 1 && m.reduce) fail('reduce is a version 2 field (this file says version 1)');
+  if (version !== 3 && m.novelty) fail(`novelty is a version 3 field (this file says version ${version})`);
+  if (version === 3 && !m.novelty) fail('novelty: missing');
   if (m.reduce) {
     const d = m.reduce.dims;
     const components = decodeFloats(m.reduce.components, 4, 'reduce.components') as Float32Array;
@@ -347,6 +359,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
     centroids,
     labels: m.labels,
     minFit: Float32Array.from(m.minFit),
+    ...(m.novelty ? { novelty: m.novelty } : {}),
     ...(m.tree !== undefined ? { tree: m.tree } : {}),
     ...(reduce ? { reduce } : {}),
   };
@@ -380,32 +393,47 @@ export interface Assignment {
   readonly assignments: Int32Array;
   /** Cosine to that group's centroid (in the reduced space when the model has a projection). */
   readonly fit: Float32Array;
+  /** Second-nearest group per row, -1 when there is none (rows with no known terms). */
+  readonly second: Int32Array;
+  /** Cosine to the second group's centroid (0 when there is none). */
+  readonly secondFit: Float32Array;
   /** 1 when the fit is below the threshold (or the row has no known terms): the document looks new. */
   readonly unmatched: Uint8Array;
 }
 
 /**
  * Files vectors (made with the model's analyzer and vocabulary) into the
- * model's groups. `minFit` overrides the per-group thresholds with one value.
- * `nearest` is the scoring kernel (k-means' own), passed in so both share it.
+ * model's groups: best and second group with their fits, and the rows that
+ * look new (fit below the best group's threshold; `minFit` overrides the
+ * per-group thresholds with one value). Works on any block of rows, so a
+ * streaming caller files chunk by chunk with the same result.
+ */
+export function fileWithModel(model: Model, matrix: Csr, minFit?: number): Assignment {
+  if (minFit !== undefined && (!Number.isFinite(minFit) || minFit < -1 || minFit > 1)) {
+    throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
+  }
+  const two = model.reduce
+    ? bestTwoGroups(projectForModel(model.reduce, matrix), model.reduce.centroids, model.groups)
+    : bestTwoGroups(matrix, model.centroids, model.groups);
+  const unmatched = new Uint8Array(matrix.rows);
+  for (let r = 0; r < matrix.rows; r++) {
+    const g = two.best[r]!;
+    if (g < 0) unmatched[r] = 1;
+    else if (two.bestFit[r]! < (minFit ?? model.minFit[g]!)) unmatched[r] = 1;
+  }
+  return { assignments: two.best, fit: two.bestFit, second: two.second, secondFit: two.secondFit, unmatched };
+}
+
+/**
+ * Files vectors into the model's groups: {@link fileWithModel}. `nearest` is
+ * no longer used (kept so older callers compile): the best and second group
+ * are scored in `./filing.ts`, with the same tie rule as k-means.
  */
 export function assignWithModel(
   model: Model,
   matrix: Csr,
-  nearest: (m: Csr, centroids: Float32Array, groups: number) => { assignments: Int32Array; fit: Float32Array },
+  _nearest?: (m: Csr, centroids: Float32Array, groups: number) => { assignments: Int32Array; fit: Float32Array },
   minFit?: number,
 ): Assignment {
-  if (minFit !== undefined && (!Number.isFinite(minFit) || minFit < -1 || minFit > 1)) {
-    throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
-  }
-  const { assignments, fit } = model.reduce
-    ? nearest(projectForModel(model.reduce, matrix), model.reduce.centroids, model.groups)
-    : nearest(matrix, model.centroids, model.groups);
-  const unmatched = new Uint8Array(matrix.rows);
-  for (let r = 0; r < matrix.rows; r++) {
-    const g = assignments[r];
-    if (g < 0) unmatched[r] = 1;
-    else if (fit[r] < (minFit ?? model.minFit[g])) unmatched[r] = 1;
-  }
-  return { assignments, fit, unmatched };
+  return fileWithModel(model, matrix, minFit);
 }
