@@ -14,6 +14,8 @@ import { canonicalOrder } from './util/id-order.js';
 import { rowsWithoutEntries } from './util/csr.js';
 import { groupAverageLink, type Dendrogram } from './cluster/tree.js';
 import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
+import { carryGroups, carriedNames } from './continuity/carry.js';
+import type { Continuity } from './continuity/match.js';
 import type { Partition } from './cluster/partition.js';
 import { PLACEHOLDERS, type CleanReport } from './clean/index.js';
 import { cleanStage, type DocumentInput } from './clean/stage.js';
@@ -71,6 +73,8 @@ export interface GroupResultCommon {
   readonly timings: readonly StageTiming[];
   /** With `reduce`: the decomposition, the reduced rows and the reduced centres the groups were formed on (partition.centroids are term-space). */
   readonly reduced: ReducedGrouping | null;
+  /** With a previous run (`hooks.previous`): what became of each group since then; the group numbers are the carried ones. */
+  readonly continuity?: Continuity;
 }
 
 /**
@@ -163,8 +167,12 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
   const tForm = now();
   const formed = yield* method.form({ matrix: grouping, nonEmpty, settings: resolved, hooks });
   timings.push({ stage: method.stage, ms: now() - tForm, items: nonEmpty });
-  const refined = refineGroups(grouping, formed.partition, resolved.refine, resolved.kmeans);
-  const partition = space ? termSpacePartition(matrix, refined.partition) : refined.partition;
+  const refinedAsFormed = refineGroups(grouping, formed.partition, resolved.refine, resolved.kmeans);
+  const partitionAsFormed = space ? termSpacePartition(matrix, refinedAsFormed.partition) : refinedAsFormed.partition;
+  // With a previous run: groups matched to its groups, renumbered so continued groups keep their numbers.
+  const carried = hooks.previous ? carryGroups(hooks.previous, partitionAsFormed, refinedAsFormed, vocabulary.terms) : null;
+  const refined = carried?.refined ?? refinedAsFormed;
+  const partition = carried?.partition ?? partitionAsFormed;
   const k = partition.groups;
 
   const tree = time('tree', nonEmpty, () => groupAverageLink(matrix, partition.assignments, k));
@@ -181,7 +189,8 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
       { ...resolved.label, terms: resolved.label.terms + GUARD_SPARE_TERMS },
     );
     const stop = groupNameStopwords(resolved.analyzer, docs.map((d) => d.text), partition.assignments, k);
-    return guardNames(readableLabels(stemmed, docs, analyzer, resolved.label), stop, resolved.label);
+    const named = guardNames(readableLabels(stemmed, docs, analyzer, resolved.label), stop, resolved.label);
+    return carried ? carriedNames(named, carried.continuity) : named;
   });
 
   return {
@@ -203,6 +212,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
     mixed: refined.mixed,
     timings,
     reduced: space ? { ...space, centroids: refined.partition.centroids } : null,
+    ...(carried ? { continuity: carried.continuity } : {}),
   } as unknown as GroupResult;
 }
 

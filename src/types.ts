@@ -46,7 +46,11 @@ export interface PipelineHooks {
   readonly now?: () => number;
   /** Called as a stage makes progress. */
   readonly progress?: (stage: string, done: number, total: number) => void;
+  /** A previous run's groups to continue: numbers and names carried where a group matches one closely (src/continuity). */
+  readonly previous?: { readonly groups: PreviousGroups; readonly options: ContinuityOptions };
 }
+
+import type { ContinuityOptions, PreviousGroups } from './continuity/match.js';
 
 /** Wall time of one stage. */
 export interface StageTiming {

@@ -29,6 +29,8 @@ import { visibleJson, visibleLines } from './visible.js';
 import { withFileDigests, type RunFile } from './organize.js';
 import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
+import { previousFromFlags, type PreviousFlags } from './previous.js';
+import { continuityLines } from '../report/continuity.js';
 
 export type { GroupFlags } from './inputs.js';
 
@@ -47,6 +49,8 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
     .option('--duplicates <t>', 'near-copies at cosine >= t go in duplicate_set, duplicates.csv/json and the report', '0.9')
     .option('--no-duplicates', 'do not look for near-copies')
     .option('--no-report', 'do not write report.html')
+    .option('--previous <model>', 'a previous run’s model.json (or its folder): keep its group numbers and names where a group matches one')
+    .option('--match-similarity <s>', 'least centre cosine for a group to continue a previous one (default 0.5)')
     .option('--json', 'print the groups as JSON on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: GroupFlags) => {
@@ -83,7 +87,8 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const threads = resolveParallelOptions({ threads: wholeNumber(flags.threads, 'threads') ?? Math.min(2, availableParallelism()) }).threads;
   const dupOptions = command === 'group' && typeof flags.duplicates === 'string' ? groupDuplicateOptions(flags.duplicates, group) : null;
   const outDir = path.resolve(io.cwd, flags.out);
-  await checkOutputFolders({ inputs, alsoReads: [flags.stopwords], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
+  const previous = await previousFromFlags(flags as PreviousFlags, io.cwd);
+  await checkOutputFolders({ inputs, alsoReads: [flags.stopwords, previous?.file], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
   checkMemory(await fileInputBytes(inputs, io.cwd), limit, 'this input');
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(visibleLines(line) + '\n');
@@ -100,7 +105,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const progress = progressReporter(io, flags.quiet ?? false);
   let result: GroupResult;
   try {
-    result = await groupDocumentsAsync({ docs, exportRows: read.exportRows }, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t) });
+    result = await groupDocumentsAsync({ docs, exportRows: read.exportRows }, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t), ...(previous ? { previous } : {}) });
   } finally {
     progress.done();
   }
@@ -169,6 +174,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   }
   const width = Math.max(60, io.stdout.columns ?? 110);
   const lines = groupSummaryLines(result, { command, width, evaluation, near, read: { documents: n, skipped: read.skipped.length }, written });
+  if (result.continuity) lines.push('', ...continuityLines(result.continuity, (id) => result.groups[id]?.label ?? '').map((l) => visibleLines(l)));
   io.stdout.write(lines.join('\n') + '\n');
   return 0;
 }

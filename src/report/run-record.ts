@@ -5,6 +5,7 @@
  *
  * @module
  */
+import { continuityRecord } from './continuity.js';
 import path from 'node:path';
 import type { Doc, StageTiming } from '../types.js';
 import type { IngestResult, IngestOptions } from '../ingest/index.js';
@@ -118,6 +119,7 @@ export function groupRunRecord(result: GroupResult, x: GroupRunInput): Record<st
       terms: result.vocabulary.terms.length,
       nonZeros: result.matrix.indptr[result.matrix.rows],
     },
+    ...(result.continuity ? { continuity: continuityRecord(result.continuity) } : {}),
     choice: result.choice
       ? {
           by: result.choice.by,
