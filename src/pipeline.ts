@@ -14,6 +14,7 @@ import { canonicalOrder } from './util/id-order.js';
 import { rowsWithoutEntries } from './util/csr.js';
 import { groupAverageLink, type Dendrogram } from './cluster/tree.js';
 import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
+import { editPartition, pinnedNames, type EditOutcome, type GroupEdit } from './edits/index.js';
 import { carryGroups, carriedNames } from './continuity/carry.js';
 import type { Continuity } from './continuity/match.js';
 import type { Partition } from './cluster/partition.js';
@@ -75,6 +76,8 @@ export interface GroupResultCommon {
   readonly reduced: ReducedGrouping | null;
   /** With a previous run (`hooks.previous`): what became of each group since then; the group numbers are the carried ones. */
   readonly continuity?: Continuity;
+  /** With edits (`hooks.edits`): the edits applied, each earlier group's numbers after them, and the pins by final group. */
+  readonly edits?: { readonly source: string; readonly applied: readonly GroupEdit[]; readonly numbers: readonly (readonly number[])[]; readonly pins: EditOutcome['pins'] };
 }
 
 /**
@@ -171,8 +174,14 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
   const partitionAsFormed = space ? termSpacePartition(matrix, refinedAsFormed.partition) : refinedAsFormed.partition;
   // With a previous run: groups matched to its groups, renumbered so continued groups keep their numbers.
   const carried = hooks.previous ? carryGroups(hooks.previous, partitionAsFormed, refinedAsFormed, vocabulary.terms) : null;
-  const refined = carried?.refined ?? refinedAsFormed;
-  const partition = carried?.partition ?? partitionAsFormed;
+  const refinedCarried = carried?.refined ?? refinedAsFormed;
+  const partitionCarried = carried?.partition ?? partitionAsFormed;
+  // A person's edits (merge, split, rename, pin), on the numbers this run shows (the carried ones with a previous run).
+  const edited = hooks.edits
+    ? editPartition(hooks.edits, grouping, matrix, refinedCarried.partition, refinedCarried.mixed, space ? (p) => termSpacePartition(matrix, p) : null, { ...resolved.kmeans, seed: resolved.seed })
+    : null;
+  const refined = edited ? { ...refinedCarried, partition: edited.formed, mixed: edited.mixed } : refinedCarried;
+  const partition = edited?.partition ?? partitionCarried;
   const k = partition.groups;
 
   const tree = time('tree', nonEmpty, () => groupAverageLink(matrix, partition.assignments, k));
@@ -190,7 +199,8 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
     );
     const stop = groupNameStopwords(resolved.analyzer, docs.map((d) => d.text), partition.assignments, k);
     const named = guardNames(readableLabels(stemmed, docs, analyzer, resolved.label), stop, resolved.label);
-    return carried ? carriedNames(named, carried.continuity) : named;
+    const kept = carried ? carriedNames(named, carried.continuity) : named;
+    return edited ? pinnedNames(kept, edited.outcome.names, edited.outcome.pins, resolved.label.nameTerms) : kept;
   });
 
   return {
@@ -213,6 +223,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
     timings,
     reduced: space ? { ...space, centroids: refined.partition.centroids } : null,
     ...(carried ? { continuity: carried.continuity } : {}),
+    ...(edited && hooks.edits ? { edits: { source: hooks.edits.source, applied: hooks.edits.edits, numbers: edited.outcome.numbers, pins: edited.outcome.pins } } : {}),
   } as unknown as GroupResult;
 }
 

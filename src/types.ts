@@ -48,9 +48,12 @@ export interface PipelineHooks {
   readonly progress?: (stage: string, done: number, total: number) => void;
   /** A previous run's groups to continue: numbers and names carried where a group matches one closely (src/continuity). */
   readonly previous?: { readonly groups: PreviousGroups; readonly options: ContinuityOptions };
+  /** A person's edits to apply to the final groups (src/edits). */
+  readonly edits?: GroupEdits;
 }
 
 import type { ContinuityOptions, PreviousGroups } from './continuity/match.js';
+import type { GroupEdits } from './edits/index.js';
 
 /** Wall time of one stage. */
 export interface StageTiming {

@@ -4,12 +4,13 @@
  *
  * @module
  */
-import { stat } from 'node:fs/promises';
+import { readFile, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { decimal } from './parse.js';
 import { loadModel } from './assign.js';
 import { UsageError } from '../util/errors.js';
 import { previousGroupsOf } from '../continuity/carry.js';
+import { parseEdits, type GroupEdits } from '../edits/index.js';
 import { resolveContinuityOptions, type ContinuityOptions, type PreviousGroups } from '../continuity/match.js';
 
 /** The flags involved. */
@@ -40,4 +41,22 @@ export async function previousFromFlags(flags: PreviousFlags, cwd: string): Prom
   const file = await previousModelFile(flags.previous, cwd);
   const model = await loadModel(file, cwd);
   return { groups: previousGroupsOf(model, file), options, file };
+}
+
+/** The flag involved. */
+export interface EditsFlags {
+  edits?: string;
+}
+
+/** The edits file of `--edits`, read and parsed (checked against the groups once they are formed), or null. */
+export async function editsFromFlags(flags: EditsFlags, cwd: string): Promise<GroupEdits | null> {
+  if (flags.edits === undefined) return null;
+  let text: string;
+  try {
+    text = await readFile(path.resolve(cwd, flags.edits), 'utf8');
+  } catch (err) {
+    const code = (err as { code?: string }).code;
+    throw new UsageError(code === 'ENOENT' ? `no such edits file: ${flags.edits}` : `cannot read edits file ${flags.edits} (${code ?? 'error'})`, 'edits');
+  }
+  return parseEdits(text, flags.edits);
 }

@@ -32,6 +32,7 @@ import type { AnalyzerSettings } from '../analyze/index.js';
 import { createVocabulary, type Vocabulary } from '../vectorize/index.js';
 import { UsageError } from '../util/errors.js';
 import { DEFAULT_CLEAN_STAGE, resolveCleanStage, type CleanSettings } from '../clean/stage.js';
+import { editSchema, type GroupEdit } from '../edits/index.js';
 import { bestTwoGroups, calibrateThresholds, DEFAULT_NOVELTY_OPTIONS, type NoveltyOptions } from './filing.js';
 
 /** Current model format version (2: cleaning settings recorded, and `reduce` when the groups were formed on reduced vectors; 3: `novelty`, the calibration of `minFit`). */
@@ -89,6 +90,8 @@ export interface Model {
   readonly minFit: Float32Array;
   /** How `minFit` was calibrated (version 3 on; absent in older models, whose thresholds were the 5% quantile). */
   readonly novelty?: ModelNovelty;
+  /** The person's edits applied when the model was made (version 3, only when there were some). */
+  readonly edits?: readonly GroupEdit[];
   /** Optional tree over the groups, as written to groups.json. */
   readonly tree?: unknown;
   /** Present when the groups were formed on reduced vectors: new documents are projected and compared with these centres. */
@@ -184,6 +187,7 @@ const modelSchema = z.strictObject({
   groups: z.number().int().min(2).max(1_000_000),
   centroids: base64,
   minFit: z.array(z.number().min(-1).max(1)),
+  edits: z.array(editSchema).max(10_000).optional(),
   novelty: z.strictObject({ method: z.literal('quantile'), quantile: z.number().min(0).max(0.5), margin: z.number().min(0).max(1) }).optional(),
   labels: z.array(
     z.strictObject({ id: z.number().int().min(0), label: z.string(), terms: z.array(termSchema), size: z.number().int().min(0) }),
@@ -216,6 +220,8 @@ export interface ModelSource {
   readonly reduce?: ModelReduction;
   /** Calibration of the novelty thresholds (default {@link DEFAULT_NOVELTY_OPTIONS}). */
   readonly novelty?: NoveltyOptions;
+  /** A person's edits applied to the groups of this run (recorded as given). */
+  readonly edits?: readonly GroupEdit[];
 }
 
 /** Serialises a model as JSON text (deterministic for the same run). */
@@ -246,6 +252,7 @@ export function modelToJson(src: ModelSource): string {
     centroids: encodeFloat32(src.centroids),
     minFit: Array.from(minFit, (v) => Math.round(v * 1e6) / 1e6),
     novelty: { method: 'quantile', quantile: novelty.quantile, margin: novelty.margin },
+    ...(src.edits && src.edits.length ? { edits: src.edits } : {}),
     labels: src.labels.map((l) => ({
       id: l.id,
       label: l.label,
@@ -322,6 +329,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   if (version === 1 && m.reduce) fail('reduce is a version 2 field (this file says version 1)');
   if (version !== 3 && m.novelty) fail(`novelty is a version 3 field (this file says version ${version})`);
   if (version === 3 && !m.novelty) fail('novelty: missing');
+  if (version !== 3 && m.edits) fail(`edits is a version 3 field (this file says version ${version})`);
   if (m.reduce) {
     const d = m.reduce.dims;
     const components = decodeFloats(m.reduce.components, 4, 'reduce.components') as Float32Array;
@@ -360,6 +368,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
     labels: m.labels,
     minFit: Float32Array.from(m.minFit),
     ...(m.novelty ? { novelty: m.novelty } : {}),
+    ...(m.edits ? { edits: m.edits as GroupEdit[] } : {}),
     ...(m.tree !== undefined ? { tree: m.tree } : {}),
     ...(reduce ? { reduce } : {}),
   };

@@ -25,6 +25,7 @@ export function modelSourceOf(result: GroupResult, createdBy: string, tree: unkn
     labels: result.groups.map((g) => ({ id: g.id, label: g.label, terms: g.terms.map((t) => ({ term: t.term, weight: round(t.weight, 6) })), size: g.size })),
     tree,
     ...(result.reduced ? { reduce: modelReduction(result.reduced) } : {}),
+    ...(result.edits ? { edits: result.edits.applied } : {}),
   };
 }
 

@@ -120,6 +120,7 @@ export function groupRunRecord(result: GroupResult, x: GroupRunInput): Record<st
       nonZeros: result.matrix.indptr[result.matrix.rows],
     },
     ...(result.continuity ? { continuity: continuityRecord(result.continuity) } : {}),
+    ...(result.edits ? { edits: { file: result.edits.source, applied: result.edits.applied, numbers: result.edits.numbers } } : {}),
     choice: result.choice
       ? {
           by: result.choice.by,
