@@ -106,7 +106,7 @@ describe('sheaf group --reduce and sheaf assign', () => {
     expect(JSON.parse(readFileSync(path.join(dir, 'p', 'run.json'), 'utf8')).reduced).toEqual({ dims: 50 });
     expect(JSON.parse(readFileSync(path.join(dir, 'q', 'run.json'), 'utf8')).reduced).toBeNull();
     const model = JSON.parse(readFileSync(path.join(dir, 'q', 'model.json'), 'utf8'));
-    expect(model.version).toBe(2);
+    expect(model.version).toBe(3);
     expect(model.reduce).toBeUndefined();
     expect(JSON.parse(readFileSync(path.join(dir, 'p', 'model.json'), 'utf8')).reduce.dims).toBe(50);
   });

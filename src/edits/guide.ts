@@ -1,0 +1,198 @@
+/**
+ * Guided groups: a person names some groups and gives a few seed terms or
+ * example documents for each. k-means starts those groups' centres from them
+ * (the other groups start from a seeded k-means of their own), through its
+ * existing start-from-a-partition hook (`initialAssignments`): every document
+ * starts in, and ends in, the group whose centre it is closest to, so none is
+ * forced into a guided group it does not fit (it goes to another group, or to
+ * unsorted with `--unsorted`). After k-means the guided groups are found again
+ * by an optimal one-to-one matching of the final centres to the guide's
+ * (Hungarian method), numbered 0, 1, … in the guide's order and named as the
+ * guide names them. Pure.
+ *
+ * @module
+ */
+import { z } from 'zod';
+import type { Csr } from '../types.js';
+import type { Partition } from '../cluster/partition.js';
+import type { KMeansOptions } from '../cluster/kmeans-types.js';
+import type { Vocabulary } from '../vectorize/index.js';
+import type { GroupLabel } from '../label/index.js';
+import { transformTfidf } from '../vectorize/index.js';
+import { sphericalKMeans } from '../cluster/kmeans.js';
+import { UsageError } from '../util/errors.js';
+import { bestTwoGroups } from '../model/filing.js';
+import { optimalAssignment } from '../continuity/assignment.js';
+import { renumberPartition } from '../continuity/match.js';
+
+/** A guide file, checked. */
+export interface Guide {
+  readonly source: string;
+  readonly groups: readonly { readonly name: string; readonly terms: readonly string[]; readonly examples: readonly string[] }[];
+}
+
+const guideSchema = z.strictObject({
+  format: z.literal('sheaf-guide'),
+  groups: z
+    .array(
+      z.strictObject({
+        name: z.string().trim().min(1).max(200),
+        terms: z.array(z.string().trim().min(1).max(200)).max(100).optional(),
+        examples: z.array(z.string().min(1).max(1000)).max(1000).optional(),
+      }),
+    )
+    .min(1)
+    .max(1000),
+});
+
+/** Parses a guide file's text; one `UsageError` line naming the file and the problem. */
+export function parseGuide(text: string, source: string): Guide {
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (err) {
+    throw new UsageError(`${source} is not valid JSON (${(err as Error).message})`, 'guide');
+  }
+  const parsed = guideSchema.safeParse(raw);
+  if (!parsed.success) {
+    throw new UsageError(`${source} is not a sheaf guide: { "format": "sheaf-guide", "groups": [ { "name": "…", "terms": ["…"], "examples": ["id", …] }, … ] }`, 'guide');
+  }
+  const groups = parsed.data.groups.map((g, i) => {
+    const terms = g.terms ?? [];
+    const examples = g.examples ?? [];
+    if (terms.length + examples.length === 0) throw new UsageError(`${source}: group ${i + 1} (${g.name}) gives no terms and no examples`, 'guide');
+    return { name: g.name, terms, examples };
+  });
+  return { source, groups };
+}
+
+/** The guide's centres in the space groups are formed in, and the settings that start k-means from them. */
+export interface GuidedStart {
+  /** Unit centres of the guided groups in the grouping space, term-major `[dim * guided + h]`. */
+  readonly centres: Float32Array;
+  readonly guided: number;
+  /** The start partition (one group per row, -1 for empty rows) to hand to k-means as `initialAssignments`. */
+  readonly initialAssignments: Int32Array;
+}
+
+/**
+ * Builds the guided centres (seed terms analysed as a tiny document and
+ * weighted by the pile's idf, plus the TF-IDF rows of the examples, summed;
+ * then, for reduced vectors, projected with `project`) and the start
+ * partition: each row in the group of the nearest start centre, the
+ * non-guided start centres from a seeded spherical k-means of all rows.
+ * Throws `UsageError` for an unknown example id, seed terms the pile does not
+ * know, more guided groups than `groups`, or a guided group no row is nearest to.
+ */
+export function guidedStart(
+  guide: Guide,
+  input: {
+    readonly matrix: Csr;
+    readonly grouping: Csr;
+    readonly vocabulary: Vocabulary;
+    readonly ids: readonly string[];
+    readonly analyze: (text: string) => string[];
+    readonly project: ((rows: Csr) => Csr) | null;
+    readonly groups: number;
+  },
+  kmeans: Partial<KMeansOptions> & { seed: number },
+): GuidedStart {
+  const g = guide.groups.length;
+  const k = input.groups;
+  if (g > k) throw new UsageError(`${guide.source} names ${g} groups; groups is ${k}: ask for at least as many groups as the guide names`, 'guide');
+  const V = input.vocabulary.terms.length;
+  const rowOf = new Map<string, number>();
+  input.ids.forEach((id, r) => rowOf.set(id, r));
+  const dense = new Float64Array(g * V);
+  guide.groups.forEach((grp, h) => {
+    if (grp.terms.length) {
+      const m = transformTfidf([input.analyze(grp.terms.join(' '))], input.vocabulary);
+      if (m.indptr[1] === 0 && grp.examples.length === 0) {
+        throw new UsageError(`${guide.source}: group ${h + 1} (${grp.name}): none of its terms (${grp.terms.join(', ')}) is a term of this pile`, 'guide');
+      }
+      for (let j = m.indptr[0]!; j < m.indptr[1]!; j++) dense[h * V + m.indices[j]!]! += m.values[j]!;
+    }
+    for (const id of grp.examples) {
+      const r = rowOf.get(id);
+      if (r === undefined) throw new UsageError(`${guide.source}: group ${h + 1} (${grp.name}): no document has the id ${JSON.stringify(id)}`, 'guide');
+      for (let j = input.matrix.indptr[r]!; j < input.matrix.indptr[r + 1]!; j++) dense[h * V + input.matrix.indices[j]!]! += input.matrix.values[j]! / grp.examples.length;
+    }
+  });
+  // As CSR rows in term space, unit length.
+  const indptr = new Int32Array(g + 1);
+  const indices: number[] = [];
+  const values: number[] = [];
+  for (let h = 0; h < g; h++) {
+    let norm = 0;
+    for (let t = 0; t < V; t++) norm += dense[h * V + t]! ** 2;
+    norm = Math.sqrt(norm);
+    for (let t = 0; t < V; t++) {
+      const v = dense[h * V + t]!;
+      if (v !== 0) (indices.push(t), values.push(v / norm));
+    }
+    indptr[h + 1] = indices.length;
+  }
+  const termRows: Csr = { rows: g, cols: V, indptr, indices: Int32Array.from(indices), values: Float32Array.from(values) };
+  const rows = input.project ? input.project(termRows) : termRows;
+  const d = rows.cols;
+  const centres = new Float32Array(d * g);
+  for (let h = 0; h < g; h++) for (let j = rows.indptr[h]!; j < rows.indptr[h + 1]!; j++) centres[rows.indices[j]! * g + h] = rows.values[j]!;
+  // Start centres: the guided ones, then k − g from a seeded k-means of all rows.
+  const all = new Float32Array(d * k);
+  for (let t = 0; t < d; t++) for (let h = 0; h < g; h++) all[t * k + h] = centres[t * g + h]!;
+  if (k > g) {
+    const free = sphericalKMeans(input.grouping, { ...kmeans, groups: k - g });
+    for (let t = 0; t < d; t++) for (let f = 0; f < k - g; f++) all[t * k + g + f] = free.centroids[t * (k - g) + f]!;
+  }
+  const start = bestTwoGroups(input.grouping, all, k).best;
+  const sizes = new Int32Array(k);
+  for (const s of start) if (s >= 0) sizes[s]!++;
+  for (let h = 0; h < g; h++) {
+    if (sizes[h] === 0) throw new UsageError(`${guide.source}: group ${h + 1} (${guide.groups[h]!.name}): no document is closer to it than to the other groups`, 'guide');
+  }
+  // A free start centre nobody is closest to: start it from the row that fits its own start group least.
+  for (let f = g; f < k; f++) {
+    if (sizes[f]! > 0) continue;
+    let worst = -1;
+    let worstFit = Infinity;
+    const fits = bestTwoGroups(input.grouping, all, k).bestFit;
+    for (let r = 0; r < start.length; r++) if (start[r]! >= 0 && sizes[start[r]!]! > 1 && fits[r]! < worstFit) (worst = r, (worstFit = fits[r]!));
+    if (worst >= 0) {
+      sizes[start[worst]!]!--;
+      start[worst] = f;
+      sizes[f] = 1;
+    }
+  }
+  return { centres, guided: g, initialAssignments: start };
+}
+
+/** Guided groups found again after k-means: their numbers 0…g−1 and how close each final centre stayed to its guide. */
+export interface GuidedGroups {
+  readonly partition: Partition;
+  /** For guided group h (= its number): cosine between its final centre and the guide's start centre. */
+  readonly similarity: Float64Array;
+}
+
+/** Renumbers a formed partition (grouping-space centres) so guided group h is group h (optimal one-to-one matching of centres). */
+export function numberGuided(start: GuidedStart, formed: Partition): GuidedGroups {
+  const k = formed.groups;
+  const g = start.guided;
+  const d = formed.centroids.length / k;
+  const cost = new Float64Array(k * g);
+  for (let t = 0; t < d; t++) for (let f = 0; f < k; f++) for (let h = 0; h < g; h++) cost[f * g + h]! -= formed.centroids[t * k + f]! * start.centres[t * g + h]!;
+  const pairs = optimalAssignment(cost, k, g);
+  const renumber = new Int32Array(k).fill(-1);
+  const similarity = new Float64Array(g);
+  for (let i = 0; i < pairs.rows.length; i++) {
+    renumber[pairs.rows[i]!] = pairs.cols[i]!;
+    similarity[pairs.cols[i]!] = -cost[pairs.rows[i]! * g + pairs.cols[i]!]!;
+  }
+  let next = g;
+  for (let f = 0; f < k; f++) if (renumber[f]! < 0) renumber[f] = next++;
+  return { partition: renumberPartition(formed, renumber), similarity };
+}
+
+/** Guided groups named as the guide names them. */
+export function guidedNames(labels: readonly GroupLabel[], guide: Guide): GroupLabel[] {
+  return labels.map((l) => (l.id < guide.groups.length ? { ...l, label: guide.groups[l.id]!.name } : l));
+}
