@@ -15,6 +15,9 @@ import { rowsWithoutEntries } from './util/csr.js';
 import { groupAverageLink, type Dendrogram } from './cluster/tree.js';
 import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
 import { editPartition, pinnedNames, type EditOutcome, type GroupEdit } from './edits/index.js';
+import { guidedNames, guidedStart, numberGuided, type GuidedStart } from './edits/guide.js';
+import { denseRowsAsCsr, projectRows, type ReducedSpace } from './reduce/index.js';
+import { UsageError } from './util/errors.js';
 import { carryGroups, carriedNames } from './continuity/carry.js';
 import type { Continuity } from './continuity/match.js';
 import type { Partition } from './cluster/partition.js';
@@ -76,6 +79,8 @@ export interface GroupResultCommon {
   readonly reduced: ReducedGrouping | null;
   /** With a previous run (`hooks.previous`): what became of each group since then; the group numbers are the carried ones. */
   readonly continuity?: Continuity;
+  /** With a guide (`hooks.guide`): groups 0… are the guided ones; the cosine of each one's final centre with its guide's start centre. */
+  readonly guide?: { readonly source: string; readonly similarity: Float64Array };
   /** With edits (`hooks.edits`): the edits applied, each earlier group's numbers after them, and the pins by final group. */
   readonly edits?: { readonly source: string; readonly applied: readonly GroupEdit[]; readonly numbers: readonly (readonly number[])[]; readonly pins: EditOutcome['pins'] };
 }
@@ -168,7 +173,11 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
   const space = reduce ? time('reduce', nonEmpty, () => reduceForGrouping(matrix, reduce, resolved.seed, nonEmpty)) : null;
   const grouping = space?.matrix ?? matrix;
   const tForm = now();
-  const formed = yield* method.form({ matrix: grouping, nonEmpty, settings: resolved, hooks });
+  // Guided groups: k-means starts from the guide's centres (and seeded ones for the rest); guided groups are numbered first.
+  const guided = hooks.guide ? guidedStartFor(hooks, resolved, { matrix, grouping, vocabulary, docs, analyzer, space }) : null;
+  const formedFree = yield* method.form({ matrix: grouping, nonEmpty, settings: guided ? ({ ...resolved, kmeans: { ...resolved.kmeans, initialAssignments: guided.initialAssignments } } as typeof resolved) : resolved, hooks });
+  const found = guided ? numberGuided(guided, formedFree.partition) : null;
+  const formed = found ? { ...formedFree, partition: found.partition } : formedFree;
   timings.push({ stage: method.stage, ms: now() - tForm, items: nonEmpty });
   const refinedAsFormed = refineGroups(grouping, formed.partition, resolved.refine, resolved.kmeans);
   const partitionAsFormed = space ? termSpacePartition(matrix, refinedAsFormed.partition) : refinedAsFormed.partition;
@@ -199,7 +208,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
     );
     const stop = groupNameStopwords(resolved.analyzer, docs.map((d) => d.text), partition.assignments, k);
     const named = guardNames(readableLabels(stemmed, docs, analyzer, resolved.label), stop, resolved.label);
-    const kept = carried ? carriedNames(named, carried.continuity) : named;
+    const kept = hooks.guide ? guidedNames(named, hooks.guide) : carried ? carriedNames(named, carried.continuity) : named;
     return edited ? pinnedNames(kept, edited.outcome.names, edited.outcome.pins, resolved.label.nameTerms) : kept;
   });
 
@@ -223,6 +232,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
     timings,
     reduced: space ? { ...space, centroids: refined.partition.centroids } : null,
     ...(carried ? { continuity: carried.continuity } : {}),
+    ...(found && hooks.guide ? { guide: { source: hooks.guide.source, similarity: found.similarity } } : {}),
     ...(edited && hooks.edits ? { edits: { source: hooks.edits.source, applied: hooks.edits.edits, numbers: edited.outcome.numbers, pins: edited.outcome.pins } } : {}),
   } as unknown as GroupResult;
 }
@@ -257,4 +267,31 @@ function readableLabels(
 
 function isDocList(input: GroupInput): input is readonly Doc[] {
   return Array.isArray(input);
+}
+
+/** The guided start of k-means (checks that the run can take a guide: method kmeans, a number of groups, no previous run). */
+function guidedStartFor(
+  hooks: PipelineHooks,
+  resolved: ResolvedGroupOptions,
+  x: { matrix: Csr; grouping: Csr; vocabulary: Vocabulary; docs: readonly Doc[]; analyzer: ReturnType<typeof createAnalyzer>; space: ReducedSpace | null },
+): GuidedStart {
+  const guide = hooks.guide!;
+  if (resolved.method !== 'kmeans' || typeof resolved.groups !== 'number') {
+    throw new UsageError(`a guide needs method kmeans and a number of groups; got method ${resolved.method} and groups ${String(resolved.groups ?? 'from minSimilarity')}`, 'guide');
+  }
+  if (hooks.previous) throw new UsageError('give a guide or a previous run, not both (a guide starts the groups afresh; a previous run carries its own names)', 'guide');
+  const svd = x.space?.svd;
+  return guidedStart(
+    guide,
+    {
+      matrix: x.matrix,
+      grouping: x.grouping,
+      vocabulary: x.vocabulary,
+      ids: x.docs.map((d) => d.id),
+      analyze: (t) => x.analyzer.analyze(t),
+      project: svd ? (rows) => denseRowsAsCsr(projectRows(rows, svd.components, svd.dims), rows.rows, svd.dims) : null,
+      groups: resolved.groups,
+    },
+    { ...resolved.kmeans, seed: resolved.seed },
+  );
 }

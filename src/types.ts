@@ -50,10 +50,13 @@ export interface PipelineHooks {
   readonly previous?: { readonly groups: PreviousGroups; readonly options: ContinuityOptions };
   /** A person's edits to apply to the final groups (src/edits). */
   readonly edits?: GroupEdits;
+  /** Named groups with seed terms or example ids that k-means starts from (src/edits/guide.ts). */
+  readonly guide?: Guide;
 }
 
 import type { ContinuityOptions, PreviousGroups } from './continuity/match.js';
 import type { GroupEdits } from './edits/index.js';
+import type { Guide } from './edits/guide.js';
 
 /** Wall time of one stage. */
 export interface StageTiming {

@@ -29,7 +29,7 @@ import { visibleJson, visibleLines } from './visible.js';
 import { withFileDigests, type RunFile } from './organize.js';
 import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
-import { previousFromFlags, editsFromFlags, type EditsFlags, type PreviousFlags } from './previous.js';
+import { previousFromFlags, editsFromFlags, guideFromFlags, type EditsFlags, type PreviousFlags } from './previous.js';
 import { continuityLines } from '../report/continuity.js';
 
 export type { GroupFlags } from './inputs.js';
@@ -50,6 +50,7 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
     .option('--no-duplicates', 'do not look for near-copies')
     .option('--no-report', 'do not write report.html')
     .option('--previous <model>', 'a previous run’s model.json (or its folder): keep its group numbers and names where a group matches one')
+    .option('--guide <file>', 'a JSON guide: named groups with seed terms or example ids that k-means starts from (see docs/edits.md)')
     .option('--edits <file>', 'a JSON edits file (rename, merge, split, pin) applied to this run’s groups (see docs/edits.md)')
     .option('--match-similarity <s>', 'least centre cosine for a group to continue a previous one (default 0.5)')
     .option('--json', 'print the groups as JSON on stdout')
@@ -90,7 +91,8 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const outDir = path.resolve(io.cwd, flags.out);
   const previous = await previousFromFlags(flags as PreviousFlags, io.cwd);
   const edits = await editsFromFlags(flags as EditsFlags, io.cwd);
-  await checkOutputFolders({ inputs, alsoReads: [flags.stopwords, previous?.file, (flags as EditsFlags).edits], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
+  const guide = await guideFromFlags(flags as EditsFlags, io.cwd);
+  await checkOutputFolders({ inputs, alsoReads: [flags.stopwords, previous?.file, (flags as EditsFlags).edits, (flags as EditsFlags).guide], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
   checkMemory(await fileInputBytes(inputs, io.cwd), limit, 'this input');
   const note = (line: string): void => {
     if (!flags.quiet) io.stderr.write(visibleLines(line) + '\n');
@@ -107,7 +109,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const progress = progressReporter(io, flags.quiet ?? false);
   let result: GroupResult;
   try {
-    result = await groupDocumentsAsync({ docs, exportRows: read.exportRows }, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t), ...(previous ? { previous } : {}), ...(edits ? { edits } : {}) });
+    result = await groupDocumentsAsync({ docs, exportRows: read.exportRows }, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t), ...(previous ? { previous } : {}), ...(edits ? { edits } : {}), ...(guide ? { guide } : {}) });
   } finally {
     progress.done();
   }

@@ -11,6 +11,7 @@ import { loadModel } from './assign.js';
 import { UsageError } from '../util/errors.js';
 import { previousGroupsOf } from '../continuity/carry.js';
 import { parseEdits, type GroupEdits } from '../edits/index.js';
+import { parseGuide, type Guide } from '../edits/guide.js';
 import { resolveContinuityOptions, type ContinuityOptions, type PreviousGroups } from '../continuity/match.js';
 
 /** The flags involved. */
@@ -46,6 +47,7 @@ export async function previousFromFlags(flags: PreviousFlags, cwd: string): Prom
 /** The flag involved. */
 export interface EditsFlags {
   edits?: string;
+  guide?: string;
 }
 
 /** The edits file of `--edits`, read and parsed (checked against the groups once they are formed), or null. */
@@ -59,4 +61,17 @@ export async function editsFromFlags(flags: EditsFlags, cwd: string): Promise<Gr
     throw new UsageError(code === 'ENOENT' ? `no such edits file: ${flags.edits}` : `cannot read edits file ${flags.edits} (${code ?? 'error'})`, 'edits');
   }
   return parseEdits(text, flags.edits);
+}
+
+/** The guide file of `--guide`, read and parsed (checked against the pile once it is read), or null. */
+export async function guideFromFlags(flags: EditsFlags, cwd: string): Promise<Guide | null> {
+  if (flags.guide === undefined) return null;
+  let text: string;
+  try {
+    text = await readFile(path.resolve(cwd, flags.guide), 'utf8');
+  } catch (err) {
+    const code = (err as { code?: string }).code;
+    throw new UsageError(code === 'ENOENT' ? `no such guide file: ${flags.guide}` : `cannot read guide file ${flags.guide} (${code ?? 'error'})`, 'guide');
+  }
+  return parseGuide(text, flags.guide);
 }

@@ -1,7 +1,7 @@
 /**
  * Guided groups: a person names some groups and gives a few seed terms or
  * example documents for each. k-means starts those groups' centres from them
- * (the other groups start from a seeded k-means of their own), through its
+ * (the other groups start from the rest of a seeded k-means), through its
  * existing start-from-a-partition hook (`initialAssignments`): every document
  * starts in, and ends in, the group whose centre it is closest to, so none is
  * forced into a guided group it does not fit (it goes to another group, or to
@@ -77,10 +77,11 @@ export interface GuidedStart {
 
 /**
  * Builds the guided centres (seed terms analysed as a tiny document and
- * weighted by the pile's idf, plus the TF-IDF rows of the examples, summed;
- * then, for reduced vectors, projected with `project`) and the start
- * partition: each row in the group of the nearest start centre, the
- * non-guided start centres from a seeded spherical k-means of all rows.
+ * weighted by the pile's idf, plus the mean TF-IDF row of the examples,
+ * summed; then, for reduced vectors, projected with `project`) and the start
+ * partition: each row in the group of the nearest start centre. The
+ * non-guided start centres come from a seeded spherical k-means of all rows
+ * with all k groups, less the k-means centres the guide's centres match best.
  * Throws `UsageError` for an unknown example id, seed terms the pile does not
  * know, more guided groups than `groups`, or a guided group no row is nearest to.
  */
@@ -137,12 +138,23 @@ export function guidedStart(
   const d = rows.cols;
   const centres = new Float32Array(d * g);
   for (let h = 0; h < g; h++) for (let j = rows.indptr[h]!; j < rows.indptr[h + 1]!; j++) centres[rows.indices[j]! * g + h] = rows.values[j]!;
-  // Start centres: the guided ones, then k − g from a seeded k-means of all rows.
+  // Start centres: a seeded k-means of all rows with k groups; the guide's centres replace the k-means centres they
+  // match best (optimal one-to-one matching of centres), the other k − g k-means centres start the free groups.
   const all = new Float32Array(d * k);
   for (let t = 0; t < d; t++) for (let h = 0; h < g; h++) all[t * k + h] = centres[t * g + h]!;
   if (k > g) {
-    const free = sphericalKMeans(input.grouping, { ...kmeans, groups: k - g });
-    for (let t = 0; t < d; t++) for (let f = 0; f < k - g; f++) all[t * k + g + f] = free.centroids[t * (k - g) + f]!;
+    const free = sphericalKMeans(input.grouping, { ...kmeans, groups: k });
+    const cost = new Float64Array(g * k);
+    for (let t = 0; t < d; t++) for (let h = 0; h < g; h++) for (let f = 0; f < k; f++) cost[h * k + f]! -= centres[t * g + h]! * free.centroids[t * k + f]!;
+    const replaced = new Uint8Array(k);
+    const pairs = optimalAssignment(cost, g, k);
+    for (const f of pairs.cols) replaced[f] = 1;
+    let slot = g;
+    for (let f = 0; f < k; f++) {
+      if (replaced[f]) continue;
+      for (let t = 0; t < d; t++) all[t * k + slot] = free.centroids[t * k + f]!;
+      slot++;
+    }
   }
   const start = bestTwoGroups(input.grouping, all, k).best;
   const sizes = new Int32Array(k);

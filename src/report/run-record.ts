@@ -120,6 +120,7 @@ export function groupRunRecord(result: GroupResult, x: GroupRunInput): Record<st
       nonZeros: result.matrix.indptr[result.matrix.rows],
     },
     ...(result.continuity ? { continuity: continuityRecord(result.continuity) } : {}),
+    ...(result.guide ? { guide: { file: result.guide.source, groups: Array.from(result.guide.similarity, (sim, id) => ({ id, label: result.groups[id]?.label, size: result.groups[id]?.size, similarity: round(sim, 6) })) } } : {}),
     ...(result.edits ? { edits: { file: result.edits.source, applied: result.edits.applied, numbers: result.edits.numbers } } : {}),
     choice: result.choice
       ? {
