@@ -1,0 +1,131 @@
+/**
+ * `sheaf assign --stream jsonl|csv`: files the rows of CSV, TSV or JSON Lines
+ * exports (files, or `-` for stdin) into a saved model's groups and writes one
+ * row per input row to stdout as it goes, in batches, so memory stays flat
+ * whatever the input's size and the command works as the map step of a batch
+ * engine. Output waits whenever stdout says its buffer is full (`write`
+ * returning false, until `drain`). EDGE.
+ *
+ * @module
+ */
+import { createReadStream } from 'node:fs';
+import { stat } from 'node:fs/promises';
+import path from 'node:path';
+import type { Readable } from 'node:stream';
+import type { CliIo, TextSink } from './io.js';
+import { cleanModeFromFlags, ingestOptionsFromFlags, type GroupFlags } from './inputs.js';
+import { decimal, wholeNumber } from './parse.js';
+import { loadModel } from './assign.js';
+import { csvRows, jsonlRows, type StreamKind, type StreamRowOptions } from './stream-rows.js';
+import { decodeStream } from '../ingest/decode.js';
+import { peekText, firstSignificant } from '../ingest/peek.js';
+import { truncateUtf8 } from '../ingest/index.js';
+import { ASSIGNED_ROW_FORMATS, assignBatchText, assignedRowsHeader, streamCleaning, type AssignedRowFormat } from '../report/assigned-rows.js';
+import type { Doc } from '../types.js';
+import { UsageError, show } from '../util/errors.js';
+
+/** Rows filed at a time unless `--batch` says otherwise. */
+export const DEFAULT_STREAM_BATCH = 1000;
+
+/** The flags the streaming assign reads. */
+export interface AssignStreamFlags extends GroupFlags {
+  model: string;
+  minFit?: string;
+  stream: string;
+  batch?: string;
+}
+
+/** Writes `text` and waits for `drain` when the sink says its buffer is full. */
+async function writeWithBackpressure(sink: TextSink, text: string): Promise<void> {
+  if (text === '') return;
+  const ok = sink.write(text);
+  const emitter = sink as TextSink & { once?: (event: string, cb: () => void) => unknown };
+  if (ok === false && typeof emitter.once === 'function') {
+    await new Promise<void>((resolve) => emitter.once?.('drain', resolve));
+  }
+}
+
+/** Which reader an input gets: `--format`, else its extension, else (stdin) its first character. */
+function kindFromName(input: string, format: string): StreamKind | null {
+  if (format === 'csv' || format === 'tsv' || format === 'jsonl') return format;
+  if (format !== 'auto') throw new UsageError(`--stream reads csv, tsv or jsonl; got --format ${format}`, 'format');
+  const ext = path.extname(input).toLowerCase();
+  if (ext === '.csv') return 'csv';
+  if (ext === '.tsv' || ext === '.tab') return 'tsv';
+  if (ext === '.jsonl' || ext === '.ndjson') return 'jsonl';
+  if (input === '-') return null;
+  throw new UsageError(`--stream reads CSV, TSV or JSON Lines exports; ${input} is none of .csv, .tsv, .jsonl (name one with --format)`, 'format');
+}
+
+async function openInput(input: string, io: CliIo): Promise<Readable> {
+  if (input === '-') {
+    if (!io.stdin) throw new UsageError('no standard input to read', 'inputs');
+    return io.stdin;
+  }
+  const file = path.resolve(io.cwd, input);
+  let info;
+  try {
+    info = await stat(file);
+  } catch {
+    throw new UsageError(`no such file: ${input}`, 'inputs');
+  }
+  if (info.isDirectory()) throw new UsageError(`--stream reads files or - (stdin), not folders; got ${input}`, 'inputs');
+  return createReadStream(file);
+}
+
+/** Runs the streaming assign; resolves to the exit code. */
+export async function runAssignStream(inputs: string[], flags: AssignStreamFlags, io: CliIo): Promise<number> {
+  const format = flags.stream as AssignedRowFormat;
+  if (!(ASSIGNED_ROW_FORMATS as readonly string[]).includes(format)) {
+    throw new UsageError(`stream must be one of ${ASSIGNED_ROW_FORMATS.join(', ')}; got ${show(flags.stream)}`, 'stream');
+  }
+  const batch = flags.batch === undefined ? DEFAULT_STREAM_BATCH : (wholeNumber(flags.batch, 'batch') as number);
+  if (!(batch >= 1)) throw new UsageError(`batch must be a whole number of rows from 1; got ${flags.batch}`, 'batch');
+  const minFit = decimal(flags.minFit, 'minFit');
+  if (minFit !== undefined && !(minFit >= -1 && minFit <= 1)) throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
+  const mode = cleanModeFromFlags(flags);
+  if (mode === 'auto') throw new UsageError('clean auto judges the whole pile, which a stream cannot; choose tickets or none (default: the model’s)', 'clean');
+  const ingestOptions = ingestOptionsFromFlags(flags);
+  if (inputs.filter((i) => i === '-').length > 1) throw new UsageError('stdin (-) can be read once', 'inputs');
+  const model = await loadModel(flags.model, io.cwd);
+  const cleaning = streamCleaning(model, mode);
+  const rowOptions: StreamRowOptions = { text: ingestOptions.text, id: ingestOptions.id, title: ingestOptions.title, delimiter: ingestOptions.delimiter };
+  // Check every input before writing anything.
+  const sources: Readable[] = [];
+  for (const i of inputs) sources.push(await openInput(i, io));
+  const kinds = inputs.map((i) => kindFromName(i, ingestOptions.format));
+
+  await writeWithBackpressure(io.stdout, assignedRowsHeader(format));
+  let rows = 0;
+  let cut = 0;
+  const pending: Doc[] = [];
+  const flush = async (): Promise<void> => {
+    if (pending.length === 0) return;
+    const text = assignBatchText(model, pending, cleaning, format, minFit);
+    pending.length = 0;
+    await writeWithBackpressure(io.stdout, text);
+  };
+  for (let k = 0; k < inputs.length; k++) {
+    const name = inputs[k] === '-' ? 'stdin' : inputs[k];
+    let chunks: AsyncIterable<string> = decodeStream(sources[k], () => undefined, { hash: false, forced: ingestOptions.encoding, nul: 'clean' });
+    let kind = kinds[k];
+    if (kind === null) {
+      const peeked = await peekText(chunks, (head) => firstSignificant(head) !== '' || head.length > 4096);
+      chunks = peeked.all;
+      kind = firstSignificant(peeked.head) === '{' ? 'jsonl' : 'csv';
+    }
+    const docs = kind === 'jsonl' ? jsonlRows(chunks, name, rowOptions) : csvRows(chunks, name, kind, rowOptions);
+    for await (const d of docs) {
+      const t = truncateUtf8(d.text, ingestOptions.maxBytes);
+      if (t) cut++;
+      pending.push(t ? { ...d, text: t.text } : d);
+      rows++;
+      if (pending.length >= batch) await flush();
+    }
+    await flush();
+  }
+  if (!flags.quiet) {
+    io.stderr.write(`sheaf: ${rows} row(s) filed into the model's ${model.groups} groups` + (cut ? `; ${cut} text(s) longer than --max-bytes were cut` : '') + '\n');
+  }
+  return 0;
+}
