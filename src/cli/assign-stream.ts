@@ -19,7 +19,7 @@ import { loadModel } from './assign.js';
 import { csvRows, jsonlRows, type StreamKind, type StreamRowOptions } from './stream-rows.js';
 import { decodeStream } from '../ingest/decode.js';
 import { peekText, firstSignificant } from '../ingest/peek.js';
-import { truncateUtf8 } from '../ingest/index.js';
+import { truncateUtf8, type IngestOptions } from '../ingest/index.js';
 import { ASSIGNED_ROW_FORMATS, assignBatchText, assignedRowsHeader, streamCleaning, type AssignedRowFormat } from '../report/assigned-rows.js';
 import type { Doc } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
@@ -73,6 +73,45 @@ async function openInput(input: string, io: CliIo): Promise<Readable> {
   return createReadStream(file);
 }
 
+/** Documents streamed from inputs, and how many texts were cut to `maxBytes` so far. */
+export interface StreamedDocuments {
+  readonly docs: AsyncGenerator<Doc>;
+  cut(): number;
+}
+
+/**
+ * Opens every input (files, or `-` for stdin; folders refused) and checks its
+ * kind before anything is read, then yields their rows as documents, input
+ * after input, texts cut to `maxBytes` as the whole-pile readers cut them.
+ */
+export async function streamDocuments(inputs: readonly string[], ingestOptions: IngestOptions, io: CliIo): Promise<StreamedDocuments> {
+  if (inputs.filter((i) => i === '-').length > 1) throw new UsageError('stdin (-) can be read once', 'inputs');
+  const rowOptions: StreamRowOptions = { text: ingestOptions.text, id: ingestOptions.id, title: ingestOptions.title, delimiter: ingestOptions.delimiter };
+  const sources: Readable[] = [];
+  for (const i of inputs) sources.push(await openInput(i, io));
+  const kinds = inputs.map((i) => kindFromName(i, ingestOptions.format));
+  let cut = 0;
+  async function* all(): AsyncGenerator<Doc> {
+    for (let k = 0; k < inputs.length; k++) {
+      const name = inputs[k] === '-' ? 'stdin' : inputs[k];
+      let chunks: AsyncIterable<string> = decodeStream(sources[k], () => undefined, { hash: false, forced: ingestOptions.encoding, nul: 'clean' });
+      let kind = kinds[k];
+      if (kind === null) {
+        const peeked = await peekText(chunks, (head) => firstSignificant(head) !== '' || head.length > 4096);
+        chunks = peeked.all;
+        kind = firstSignificant(peeked.head) === '{' ? 'jsonl' : 'csv';
+      }
+      const docs = kind === 'jsonl' ? jsonlRows(chunks, name, rowOptions) : csvRows(chunks, name, kind, rowOptions);
+      for await (const d of docs) {
+        const t = truncateUtf8(d.text, ingestOptions.maxBytes);
+        if (t) cut++;
+        yield t ? { ...d, text: t.text } : d;
+      }
+    }
+  }
+  return { docs: all(), cut: () => cut };
+}
+
 /** Runs the streaming assign; resolves to the exit code. */
 export async function runAssignStream(inputs: string[], flags: AssignStreamFlags, io: CliIo): Promise<number> {
   const format = flags.stream as AssignedRowFormat;
@@ -86,18 +125,12 @@ export async function runAssignStream(inputs: string[], flags: AssignStreamFlags
   const mode = cleanModeFromFlags(flags);
   if (mode === 'auto') throw new UsageError('clean auto judges the whole pile, which a stream cannot; choose tickets or none (default: the model’s)', 'clean');
   const ingestOptions = ingestOptionsFromFlags(flags);
-  if (inputs.filter((i) => i === '-').length > 1) throw new UsageError('stdin (-) can be read once', 'inputs');
   const model = await loadModel(flags.model, io.cwd);
   const cleaning = streamCleaning(model, mode);
-  const rowOptions: StreamRowOptions = { text: ingestOptions.text, id: ingestOptions.id, title: ingestOptions.title, delimiter: ingestOptions.delimiter };
-  // Check every input before writing anything.
-  const sources: Readable[] = [];
-  for (const i of inputs) sources.push(await openInput(i, io));
-  const kinds = inputs.map((i) => kindFromName(i, ingestOptions.format));
+  const docs = await streamDocuments(inputs, ingestOptions, io);
 
   await writeWithBackpressure(io.stdout, assignedRowsHeader(format));
   let rows = 0;
-  let cut = 0;
   const pending: Doc[] = [];
   const flush = async (): Promise<void> => {
     if (pending.length === 0) return;
@@ -105,25 +138,13 @@ export async function runAssignStream(inputs: string[], flags: AssignStreamFlags
     pending.length = 0;
     await writeWithBackpressure(io.stdout, text);
   };
-  for (let k = 0; k < inputs.length; k++) {
-    const name = inputs[k] === '-' ? 'stdin' : inputs[k];
-    let chunks: AsyncIterable<string> = decodeStream(sources[k], () => undefined, { hash: false, forced: ingestOptions.encoding, nul: 'clean' });
-    let kind = kinds[k];
-    if (kind === null) {
-      const peeked = await peekText(chunks, (head) => firstSignificant(head) !== '' || head.length > 4096);
-      chunks = peeked.all;
-      kind = firstSignificant(peeked.head) === '{' ? 'jsonl' : 'csv';
-    }
-    const docs = kind === 'jsonl' ? jsonlRows(chunks, name, rowOptions) : csvRows(chunks, name, kind, rowOptions);
-    for await (const d of docs) {
-      const t = truncateUtf8(d.text, ingestOptions.maxBytes);
-      if (t) cut++;
-      pending.push(t ? { ...d, text: t.text } : d);
-      rows++;
-      if (pending.length >= batch) await flush();
-    }
-    await flush();
+  for await (const d of docs.docs) {
+    pending.push(d);
+    rows++;
+    if (pending.length >= batch) await flush();
   }
+  await flush();
+  const cut = docs.cut();
   if (!flags.quiet) {
     io.stderr.write(`sheaf: ${rows} row(s) filed into the model's ${model.groups} groups` + (cut ? `; ${cut} text(s) longer than --max-bytes were cut` : '') + '\n');
   }
