@@ -12,6 +12,33 @@ import { sheaf, tempDir } from './helpers/cli.js';
 import { textLines } from '../src/cli/stream-rows.js';
 import { modelFromJson } from '../src/model/index.js';
 import { streamCleaning } from '../src/report/assigned-rows.js';
+import { EventEmitter } from 'node:events';
+import { Readable } from 'node:stream';
+import { runCli } from '../src/cli/program.js';
+
+/** A stdout that is always full: write() returns false and `drain` comes later; records what it saw. */
+class SlowSink extends EventEmitter {
+  readonly isTTY = false;
+  writes: string[] = [];
+  drains = 0;
+  writesAtDrain: number[] = [];
+  constructor(private readonly failAfter: number | null = null) {
+    super();
+  }
+  write(text: string): boolean {
+    this.writes.push(text);
+    if (this.failAfter !== null && this.writes.length >= this.failAfter) {
+      setImmediate(() => this.emit('error', Object.assign(new Error('write EPIPE'), { code: 'EPIPE' })));
+      return false;
+    }
+    setTimeout(() => {
+      this.drains++;
+      this.writesAtDrain.push(this.writes.length);
+      this.emit('drain');
+    }, 2);
+    return false;
+  }
+}
 
 const root = path.resolve(__dirname, '..');
 const demoCsv = path.join(root, 'corpus-demo', 'tickets.csv');
@@ -143,6 +170,26 @@ describe('sheaf assign --stream', () => {
     expect(c.rules.boilerplate).toBe(false);
     expect(c.rules.quotes).toBe(m.cleaning.rules.quotes);
     expect(streamCleaning(m, 'none').mode).toBe('none');
+  });
+
+  it('waits for drain after every write stdout refuses, and stops quietly when the reader goes away', async () => {
+    const run = (sink: SlowSink) =>
+      runCli(['assign', '-', '--model', model, ...flags, '--stream', 'jsonl', '--batch', '50', '--quiet'], {
+        stdout: sink as never,
+        stderr: { write: () => true },
+        stdin: Readable.from([Buffer.from(csvOf(rows))]),
+        cwd: process.cwd(),
+        env: {},
+      });
+    const slow = new SlowSink();
+    expect(await run(slow)).toBe(0);
+    expect(slow.writes.length).toBe(Math.ceil(457 / 50));
+    // Each write after the first came only once the one before it had drained.
+    expect(slow.writesAtDrain).toEqual(slow.writes.map((_, i) => i + 1));
+    expect(slow.writes.join('')).toBe((await stream(csvOf(rows))).stdout);
+    const gone = new SlowSink(2);
+    expect(await run(gone)).toBe(0);
+    expect(gone.writes.length).toBe(2);
   });
 
   it('splits lines at LF and CRLF across chunk boundaries', async () => {

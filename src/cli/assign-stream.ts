@@ -35,13 +35,53 @@ export interface AssignStreamFlags extends GroupFlags {
   batch?: string;
 }
 
-/** Writes `text` and waits for `drain` when the sink says its buffer is full. */
-async function writeWithBackpressure(sink: TextSink, text: string): Promise<void> {
-  if (text === '') return;
-  const ok = sink.write(text);
-  const emitter = sink as TextSink & { once?: (event: string, cb: () => void) => unknown };
-  if (ok === false && typeof emitter.once === 'function') {
-    await new Promise<void>((resolve) => emitter.once?.('drain', resolve));
+type EventSink = TextSink & {
+  once?: (event: string, cb: (...args: unknown[]) => void) => unknown;
+  on?: (event: string, cb: (...args: unknown[]) => void) => unknown;
+  off?: (event: string, cb: (...args: unknown[]) => void) => unknown;
+};
+
+/**
+ * Writes to stdout with backpressure: after a `write` that returns false it
+ * waits for `drain`. When the reader goes away (EPIPE, as with `| head`) it
+ * says so through `gone` and the caller stops; another write error is a failure.
+ */
+class Output {
+  gone = false;
+  private failure: Error | null = null;
+  private readonly onError = (err: unknown): void => {
+    if ((err as { code?: string }).code === 'EPIPE') this.gone = true;
+    else this.failure = err as Error;
+  };
+
+  constructor(private readonly sink: EventSink) {
+    sink.on?.('error', this.onError);
+  }
+
+  /** Writes `text`; resolves once the sink can take more (or has gone). */
+  async write(text: string): Promise<void> {
+    if (text === '' || this.gone) return;
+    if (this.failure) throw this.failure;
+    const ok = this.sink.write(text);
+    if (ok === false && typeof this.sink.once === 'function') {
+      await new Promise<void>((resolve) => {
+        const done = (): void => {
+          this.sink.off?.('drain', done);
+          this.sink.off?.('error', done);
+          this.sink.off?.('close', done);
+          resolve();
+        };
+        this.sink.once?.('drain', done);
+        this.sink.once?.('error', done);
+        this.sink.once?.('close', done);
+      });
+    }
+    if (this.failure) throw this.failure;
+  }
+
+  /** Stops listening for errors. */
+  close(): void {
+    this.sink.off?.('error', this.onError);
   }
 }
 
@@ -129,21 +169,29 @@ export async function runAssignStream(inputs: string[], flags: AssignStreamFlags
   const cleaning = streamCleaning(model, mode);
   const docs = await streamDocuments(inputs, ingestOptions, io);
 
-  await writeWithBackpressure(io.stdout, assignedRowsHeader(format));
+  const out = new Output(io.stdout as EventSink);
   let rows = 0;
-  const pending: Doc[] = [];
-  const flush = async (): Promise<void> => {
-    if (pending.length === 0) return;
-    const text = assignBatchText(model, pending, cleaning, format, minFit);
-    pending.length = 0;
-    await writeWithBackpressure(io.stdout, text);
-  };
-  for await (const d of docs.docs) {
-    pending.push(d);
-    rows++;
-    if (pending.length >= batch) await flush();
+  try {
+    await out.write(assignedRowsHeader(format));
+    const pending: Doc[] = [];
+    const flush = async (): Promise<void> => {
+      if (pending.length === 0) return;
+      const text = assignBatchText(model, pending, cleaning, format, minFit);
+      pending.length = 0;
+      await out.write(text);
+    };
+    for await (const d of docs.docs) {
+      pending.push(d);
+      rows++;
+      if (pending.length >= batch) await flush();
+      if (out.gone) break;
+    }
+    await flush();
+  } finally {
+    out.close();
   }
-  await flush();
+  // The reader went away (`| head`): what it wanted is written; nothing more to say.
+  if (out.gone) return 0;
   const cut = docs.cut();
   if (!flags.quiet) {
     io.stderr.write(`sheaf: ${rows} row(s) filed into the model's ${model.groups} groups` + (cut ? `; ${cut} text(s) longer than --max-bytes were cut` : '') + '\n');
