@@ -151,6 +151,8 @@ describe('sheaf assign --stream', () => {
       [['--stream', 'xml'], 'sheaf: --stream must be one of jsonl, csv; got "xml"\n'],
       [['--stream', 'jsonl', '--clean', 'auto'], 'sheaf: --clean auto judges the whole pile, which a stream cannot; choose tickets or none (default: the model’s)\n'],
       [['--stream', 'jsonl', '--batch', '0'], 'sheaf: --batch must be a whole number of rows from 1; got 0\n'],
+      [['--stream', 'jsonl', '--out', 'x'], 'sheaf: --stream writes rows to stdout and --out a folder; give one of them\n'],
+      [['--stream', 'csv', '--json'], 'sheaf: --stream writes rows to stdout and --json the counts; give one of them\n'],
       [['--stream', 'jsonl'], 'sheaf: stdin line 2 is not a JSON object; got 3\n', '{"ticket_id":"a","body":"x"}\n3\n'],
     ];
     for (const [extra, message, stdin] of cases) {

@@ -152,8 +152,10 @@ export async function streamDocuments(inputs: readonly string[], ingestOptions: 
   return { docs: all(), cut: () => cut };
 }
 
-/** Runs the streaming assign; resolves to the exit code. */
-export async function runAssignStream(inputs: string[], flags: AssignStreamFlags, io: CliIo): Promise<number> {
+/** Runs the streaming assign (`outGiven`: the user named `--out`, which a stream does not write); resolves to the exit code. */
+export async function runAssignStream(inputs: string[], flags: AssignStreamFlags, io: CliIo, outGiven = false): Promise<number> {
+  if (outGiven) throw new UsageError('stream writes rows to stdout and --out a folder; give one of them', 'stream');
+  if (flags.json) throw new UsageError('stream writes rows to stdout and --json the counts; give one of them', 'stream');
   const format = flags.stream as AssignedRowFormat;
   if (!(ASSIGNED_ROW_FORMATS as readonly string[]).includes(format)) {
     throw new UsageError(`stream must be one of ${ASSIGNED_ROW_FORMATS.join(', ')}; got ${show(flags.stream)}`, 'stream');

@@ -45,8 +45,8 @@ export function registerAssign(program: Command, io: CliIo, setExit: (code: numb
     .option('--quiet', 'no notes on stderr')
     .option('--stream <format>', "write one row per input row to stdout as it goes (jsonl or csv), in constant memory, instead of a folder; reads CSV, TSV or JSON Lines files or - (stdin); cleaning is the model's recorded decision (tickets or none) without the boilerplate rule, which judges a whole pile")
     .option('--batch <n>', `with --stream: rows filed at a time (default ${DEFAULT_STREAM_BATCH}; the output is the same whatever the size)`)
-    .action(async (inputs: string[], flags: AssignFlags & Partial<AssignStreamFlags>) => {
-      if (flags.stream !== undefined) return setExit(await runAssignStream(inputs, flags as AssignStreamFlags, io));
+    .action(async (inputs: string[], flags: AssignFlags & Partial<AssignStreamFlags>, command: Command) => {
+      if (flags.stream !== undefined) return setExit(await runAssignStream(inputs, flags as AssignStreamFlags, io, command.getOptionValueSource('out') === 'cli'));
       setExit(await runAssign(inputs, flags, io));
     });
 }
