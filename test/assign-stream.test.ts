@@ -136,6 +136,16 @@ describe('sheaf assign --stream', () => {
     });
   });
 
+  it('reads a semicolon-separated export as the folder assign does (delimiter taken from the header)', async () => {
+    const semi = 'ticket_id;body\nA1;"water pump broken; no water from the taps"\nA2;wifi router keeps dropping\n';
+    const comma = 'ticket_id,body\nA1,"water pump broken; no water from the taps"\nA2,wifi router keeps dropping\n';
+    const a = await sheaf(['assign', '-', '--model', model, '--text', 'body', '--id', 'ticket_id', '--stream', 'jsonl', '--quiet'], { stdin: semi });
+    const b = await sheaf(['assign', '-', '--model', model, '--text', 'body', '--id', 'ticket_id', '--stream', 'jsonl', '--quiet'], { stdin: comma });
+    expect(a.code).toBe(0);
+    expect(a.stdout).toBe(b.stdout);
+    expect(a.stdout.split('\n').filter(Boolean).map((l) => JSON.parse(l).id)).toEqual(['A1', 'A2']);
+  });
+
   it('numbers rows when there is no id column, and marks a row with no known term as new with no group', async () => {
     const s = await sheaf(['assign', '-', '--model', model, '--text', 'body', '--stream', 'jsonl', '--quiet'], { stdin: 'body\n"zzqx yyvw"\nwater pump broken no water from the taps\n' });
     expect(s.code).toBe(0);

@@ -16,6 +16,7 @@ import type { Doc } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { chooseColumns } from '../ingest/table.js';
 import { firstLine, normalizeNewlines } from '../ingest/text.js';
+import { hasFirstLine, peekText } from '../ingest/peek.js';
 
 /** What a streamed export is read as. */
 export type StreamKind = 'csv' | 'tsv' | 'jsonl';
@@ -64,13 +65,46 @@ function headerNames(raw: readonly string[]): string[] {
 }
 
 /**
+ * The delimiter of a CSV whose delimiter is not given, as the whole-export
+ * reader picks it: a comma when the header line has one (outside double
+ * quotes), else the one of `;`, tab, `|` it has most of, else a comma.
+ */
+export function sniffDelimiter(head: string): string {
+  const nl = head.search(/[\r\n]/);
+  const line = nl === -1 ? head : head.slice(0, nl);
+  const counts = new Map<string, number>();
+  let quoted = false;
+  for (const ch of line) {
+    if (ch === '"') quoted = !quoted;
+    else if (!quoted) counts.set(ch, (counts.get(ch) ?? 0) + 1);
+  }
+  if ((counts.get(',') ?? 0) > 0) return ',';
+  let best = ',';
+  let bestCount = 0;
+  for (const d of [';', '\t', '|']) {
+    const c = counts.get(d) ?? 0;
+    if (c > bestCount) {
+      best = d;
+      bestCount = c;
+    }
+  }
+  return best;
+}
+
+/**
  * Documents of a CSV or TSV export, one row at a time (csv-parse's streaming
  * parser, pulled as an async iterator, so a slow consumer holds the reading
- * back). The header is required; blank lines are no rows; a quote never
- * closed is a {@link UsageError}.
+ * back). The delimiter is `options.delimiter`, else a tab for TSV, else
+ * {@link sniffDelimiter}'s. The header is required; blank lines are no rows;
+ * a quote never closed is a {@link UsageError}.
  */
 export async function* csvRows(chunks: AsyncIterable<string>, name: string, kind: 'csv' | 'tsv', options: StreamRowOptions): AsyncGenerator<Doc> {
-  const delimiter = options.delimiter ?? (kind === 'tsv' ? '\t' : ',');
+  let delimiter = options.delimiter ?? (kind === 'tsv' ? '\t' : null);
+  if (delimiter === null) {
+    const peeked = await peekText(chunks, hasFirstLine);
+    chunks = peeked.all;
+    delimiter = sniffDelimiter(peeked.head.replace(/^\s+/, ''));
+  }
   const csvOptions: Options = {
     delimiter,
     quote: '"',
