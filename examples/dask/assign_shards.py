@@ -177,7 +177,8 @@ def run(args, sheaf, columns, work):
         futures = []
         for p in shards:
             with open(p, "rb") as f:
-                futures.append(client.submit(assign_shard, f.read(), model_future, sheaf, columns, pure=False))
+                shard_future = client.scatter(f.read())  # the shard's bytes go to a worker once, not through the scheduler
+            futures.append(client.submit(assign_shard, shard_future, model_future, sheaf, columns, pure=False))
         distributed = b"".join(client.gather(futures))
     finally:
         client.close()
