@@ -5,6 +5,8 @@
  * @module
  */
 import { DEFAULT_ANALYZER_OPTIONS, resolveAnalyzerOptions, type AnalyzerOptions, type AnalyzerSettings } from './analyze/index.js';
+import { checkCountsFit } from './vectorize/df-counts.js';
+import { VECTORIZE_KEYS } from './vectorize/options.js';
 import { DEFAULT_VECTORIZE_OPTIONS, resolveVectorizeOptions, type VectorizeOptions } from './vectorize/index.js';
 import { DEFAULT_KMEANS_OPTIONS, checkGroupCount, resolveKMeansOptions, type KMeansOptions } from './cluster/kmeans.js';
 import { TREE_DEFAULTS, resolveTreeOptions, type TreeOptions } from './cluster/tree.js';
@@ -67,7 +69,7 @@ const STAGE_KEYS: Readonly<Record<'choose' | 'clean' | 'analyzer' | 'vectorize' 
   choose: Object.keys(DEFAULT_CHOOSE_OPTIONS),
   clean: [...Object.keys(DEFAULT_CLEAN_OPTIONS), 'detect'],
   analyzer: Object.keys(DEFAULT_ANALYZER_OPTIONS),
-  vectorize: Object.keys(DEFAULT_VECTORIZE_OPTIONS),
+  vectorize: VECTORIZE_KEYS,
   kmeans: ['groups', ...Object.keys(DEFAULT_KMEANS_OPTIONS).filter((k) => k !== 'seed')],
   tree: Object.keys(TREE_DEFAULTS),
   label: Object.keys(DEFAULT_LABEL_OPTIONS),
@@ -110,6 +112,7 @@ export function resolveGroupOptions(options: GroupOptions | ResolvedGroupOptions
   const clean = resolveCleanStage(raw.clean ?? {});
   const analyzer = resolveAnalyzerOptions(raw.analyzer ?? {});
   const vectorize = resolveVectorizeOptions(raw.vectorize ?? {});
+  if (vectorize.idfCounts) checkCountsFit(vectorize.idfCounts, analyzer);
   const { groups: kmGroups, ...kmRest } = raw.kmeans ?? {};
   const groupsRaw = raw.groups ?? kmGroups;
   const minSimilarity = raw.minSimilarity ?? null;

@@ -44,6 +44,11 @@ export * from './label/index.js';
 export * from './evaluate/index.js';
 export * from './model/index.js';
 export { applyModel, type ModelApplication } from './model/apply.js';
+export { assignBatchText, assignedRowsHeader, assignedRowsText, assignedRowValues, streamCleaning, ASSIGNED_ROW_COLUMNS, ASSIGNED_ROW_FORMATS, type AssignedRowFormat } from './report/assigned-rows.js';
+export {
+  TermCounter, countTerms, mergeTermCounts, termCountsToJson, termCountsFromJson, analyzerDifference, checkCountsFit, countsFor,
+  TERM_COUNTS_FORMAT, TERM_COUNTS_VERSION, type TermCounts, type CountsCleaning,
+} from './vectorize/df-counts.js';
 export { kmeansRunner, vectorizeRunner, PARALLEL_MIN_ROWS, PARALLEL_ANALYZE_MIN_CHARS } from './parallel/runners.js';
 export { sphericalKMeansParallel, resolveParallelOptions, type ParallelOptions } from './parallel/kmeans-parallel.js';
 export {

@@ -75,7 +75,7 @@ describe('options', () => {
       [{ maxTerms: 2.5 }, 'maxTerms must be a whole number >= 1, or null for no limit; got 2.5', 'maxTerms'],
       [{ minDf: 5, maxDf: 3 }, 'maxDf must not be below minDf; got maxDf 3 with minDf 5', 'maxDf'],
       [{ minDf: 0.5, maxDf: 0.25 }, 'maxDf must not be below minDf; got maxDf 0.25 with minDf 0.5', 'maxDf'],
-      [{ mindf: 2 }, 'unknown vectorize option "mindf"; allowed: minDf, maxDf, maxTerms', 'mindf'],
+      [{ mindf: 2 }, 'unknown vectorize option "mindf"; allowed: minDf, maxDf, maxTerms, idfCounts', 'mindf'],
       [[], 'vectorize options must be an object; got []', undefined],
     ];
     for (const [input, message, option] of cases) {

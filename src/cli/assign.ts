@@ -23,6 +23,7 @@ import { visibleJson, visibleLines } from './visible.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import { UsageError } from '../util/errors.js';
+import { runAssignStream, DEFAULT_STREAM_BATCH, type AssignStreamFlags } from './assign-stream.js';
 
 interface AssignFlags extends GroupFlags {
   model: string;
@@ -42,7 +43,10 @@ export function registerAssign(program: Command, io: CliIo, setExit: (code: numb
     .option('--out <dir>', 'output folder', 'sheaf-assigned')
     .option('--json', 'print the counts as JSON on stdout')
     .option('--quiet', 'no notes on stderr')
-    .action(async (inputs: string[], flags: AssignFlags) => {
+    .option('--stream <format>', "write one row per input row to stdout as it goes (jsonl or csv), in constant memory, instead of a folder; reads CSV, TSV or JSON Lines files or - (stdin); cleaning is the model's recorded decision (tickets or none) without the boilerplate rule, which judges a whole pile")
+    .option('--batch <n>', `with --stream: rows filed at a time (default ${DEFAULT_STREAM_BATCH}; the output is the same whatever the size)`)
+    .action(async (inputs: string[], flags: AssignFlags & Partial<AssignStreamFlags>, command: Command) => {
+      if (flags.stream !== undefined) return setExit(await runAssignStream(inputs, flags as AssignStreamFlags, io, command.getOptionValueSource('out') === 'cli'));
       setExit(await runAssign(inputs, flags, io));
     });
 }

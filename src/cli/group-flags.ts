@@ -9,6 +9,7 @@ import type { CliIo } from './io.js';
 import { decimal, wholeNumber } from './parse.js';
 import { analysisOptionsFromFlags, cleanModeFromFlags, ingestOptionsFromFlags, type GroupFlags } from './inputs.js';
 import type { IngestOptions } from '../ingest/index.js';
+import { withTermCounts } from './term-counts.js';
 import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from '../pipeline.js';
 import { resolveFindDuplicatesOptions } from '../near-copies.js';
 import { UsageError } from '../util/errors.js';
@@ -60,7 +61,7 @@ export async function groupOptionsFromFlags(
     minSimilarity: decimal(flags.minSimilarity, 'minSimilarity'),
     method: flags.method as GroupOptions['method'],
     choose: { range: parseRange(flags.range), sampleSize: wholeNumber(flags.sample, 'sample') },
-    ...(await analysisOptionsFromFlags(flags, io)),
+    ...(await withTermCounts(await analysisOptionsFromFlags(flags, io), flags.termCounts, io.cwd)),
     kmeans: {
       restarts: wholeNumber(flags.restarts, 'restarts'),
       maxIterations: wholeNumber(flags.maxIterations, 'maxIterations'),

@@ -46,6 +46,7 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
   cmd
     .option('--out <dir>', 'output folder', 'sheaf-out')
     .option('--save-vectors <dir>', 'also write the TF-IDF matrix (MatrixMarket), terms and ids to this folder')
+    .option('--term-counts <file>', 'take the idf from these document frequencies (sheaf count-terms, merge-counts over the whole collection) instead of the documents grouped')
     .option('--duplicates <t>', 'near-copies at cosine >= t go in duplicate_set, duplicates.csv/json and the report', '0.9')
     .option('--no-duplicates', 'do not look for near-copies')
     .option('--no-report', 'do not write report.html')

@@ -59,6 +59,7 @@ export interface GroupFlags {
   report?: boolean;
   out: string;
   saveVectors?: string;
+  termCounts?: string;
   json?: boolean;
   quiet?: boolean;
 }

@@ -12,6 +12,7 @@ import { registerEvaluate } from './evaluate.js';
 import { registerDuplicates } from './duplicates.js';
 import { registerAssign } from './assign.js';
 import { registerOrganize } from './organize.js';
+import { registerTermCounts } from './term-counts.js';
 import { versions } from './versions.js';
 import { visible } from './visible.js';
 import { UsageError } from '../util/errors.js';
@@ -37,6 +38,7 @@ export function createProgram(io: CliIo, setExit: (code: number) => void): Comma
   registerEvaluate(program, io, setExit);
   registerAssign(program, io, setExit);
   registerOrganize(program, io, setExit);
+  registerTermCounts(program, io, setExit);
   for (const sub of program.commands) {
     sub.exitOverride().configureOutput({
       writeOut: (s) => io.stdout.write(s),

@@ -6,6 +6,7 @@
  */
 
 import { UsageError, show } from '../util/errors.js';
+import type { TermCounts } from './df-counts.js';
 
 /** Which terms make it into the vocabulary. */
 export interface VectorizeOptions {
@@ -28,6 +29,14 @@ export interface VectorizeOptions {
    * term order. `null` keeps all.
    */
   maxTerms: number | null;
+  /**
+   * Document frequencies of a whole collection (merged shard counts, see
+   * `df-counts.ts`) to take the idf from instead of the documents fitted;
+   * `null` (default): the fitted documents' own. Pruning still uses the
+   * fitted documents' frequencies. Absent from the defaults and from resolved
+   * options that were not given it.
+   */
+  idfCounts?: TermCounts;
 }
 
 /**
@@ -63,7 +72,10 @@ export function effectiveMinDf(opts: VectorizeOptions, docs: number): number {
   return opts.minDf === 'auto' ? adaptiveDocumentFrequency(docs) : opts.minDf;
 }
 
-const KEYS: ReadonlySet<string> = new Set(Object.keys(DEFAULT_VECTORIZE_OPTIONS));
+/** Every vectorize option's key (`idfCounts` has no default). */
+export const VECTORIZE_KEYS: readonly string[] = Object.freeze([...Object.keys(DEFAULT_VECTORIZE_OPTIONS), 'idfCounts']);
+
+const KEYS: ReadonlySet<string> = new Set(VECTORIZE_KEYS);
 
 /** True when a `minDf`/`maxDf` value is a share of the documents rather than a count. */
 export function isShare(value: number, option: 'minDf' | 'maxDf'): boolean {
@@ -111,5 +123,12 @@ export function resolveVectorizeOptions(partial?: Partial<VectorizeOptions>): Ve
   if (minDf !== 'auto' && isShare(minDf, 'minDf') === isShare(maxDf, 'maxDf') && maxDf < minDf) {
     throw new UsageError(`maxDf must not be below minDf; got maxDf ${maxDf} with minDf ${minDf}`, 'maxDf');
   }
-  return Object.freeze({ minDf, maxDf, maxTerms });
+  const idfCounts: unknown = partial.idfCounts;
+  if (idfCounts !== undefined) {
+    const c = idfCounts as Partial<TermCounts>;
+    if (typeof c !== 'object' || !Array.isArray(c.terms) || !(c.df instanceof Float64Array) || c.df.length !== c.terms.length || !Number.isInteger(c.documents)) {
+      throw new UsageError(`idfCounts must be term counts (documents, terms, df); got ${show(idfCounts)}`, 'idfCounts');
+    }
+  }
+  return Object.freeze({ minDf, maxDf, maxTerms, ...(idfCounts === undefined ? {} : { idfCounts: idfCounts as TermCounts }) });
 }

@@ -20,6 +20,7 @@ import { Float32Buffer, IntBuffer } from './buffers.js';
 import { TermCollector, type TermSegment } from './collect.js';
 import { effectiveMinDf, isShare, resolveVectorizeOptions, type VectorizeOptions } from './options.js';
 import { smoothIdf, weightInPlace } from './weight.js';
+import { countsFor } from './df-counts.js';
 
 /**
  * The fitted terms. `terms` are in code-unit (`<`) order, so column `j` of
@@ -223,6 +224,11 @@ export function fitCollected(names: readonly string[], segments: readonly TermSe
   // 3. Sort the kept terms and remap provisional ids to columns.
   kept.sort((a, b) => compareStrings(names[a]!, names[b]!));
   const V = kept.length;
+  // With a collection's counts, each kept term's df is its count there (at least its count here) over the collection's documents.
+  const whole = opts.idfCounts;
+  if (whole && whole.documents < n) throw new UsageError(`idfCounts cover ${whole.documents} documents, fewer than the ${n} being fitted`, 'idfCounts');
+  const wholeDf = whole ? countsFor(whole, Array.from(kept, (id) => names[id]!)) : null;
+  const docCount = whole ? whole.documents : n;
   const column = new Int32Array(names.length).fill(-1);
   const terms: string[] = new Array<string>(V);
   const index = new Map<string, number>();
@@ -233,10 +239,10 @@ export function fitCollected(names: readonly string[], segments: readonly TermSe
     column[id] = j;
     terms[j] = names[id]!;
     index.set(names[id]!, j);
-    vdf[j] = df[id]!;
-    idf[j] = smoothIdf(df[id]!, n);
+    vdf[j] = wholeDf ? Math.max(df[id]!, wholeDf[j]!) : df[id]!;
+    idf[j] = smoothIdf(vdf[j]!, docCount);
   }
-  const vocabulary: Vocabulary = Object.freeze({ terms: Object.freeze(terms), index, df: vdf, idf, docCount: n });
+  const vocabulary: Vocabulary = Object.freeze({ terms: Object.freeze(terms), index, df: vdf, idf, docCount });
 
   // 4. Row lengths (ids are distinct within a document), then the rows themselves.
   const indptr = new Int32Array(n + 1);
