@@ -80,8 +80,11 @@ describe('sheaf assign --stream', () => {
       expect(lines[i].label ?? '').toBe(folder[i].label);
       expect(lines[i].fit === null ? '' : lines[i].fit.toFixed(4)).toBe(folder[i].fit);
       expect(lines[i].status).toBe(folder[i].status);
+      expect(lines[i].second_group === null ? '' : String(lines[i].second_group)).toBe(folder[i].second_group);
+      expect(lines[i].second_label ?? '').toBe(folder[i].second_label);
+      expect(lines[i].second_fit === null ? '' : lines[i].second_fit.toFixed(4)).toBe(folder[i].second_fit);
     }
-    expect(Object.keys(lines[0])).toEqual(['id', 'group', 'label', 'fit', 'status']);
+    expect(Object.keys(lines[0])).toEqual(['id', 'group', 'label', 'fit', 'status', 'second_group', 'second_label', 'second_fit']);
   });
 
   it('gives the same bytes whatever the batch size', async () => {
@@ -123,7 +126,7 @@ describe('sheaf assign --stream', () => {
     writeFileSync(path.join(dir, 'b.jsonl'), jsonlOf(rows.slice(200)));
     const c = await sheaf(['assign', 'a.csv', 'b.jsonl', '--model', model, ...flags, '--stream', 'csv', '--quiet'], { cwd: dir });
     expect(c.code).toBe(0);
-    expect(c.stdout.startsWith('id,group,label,fit,status\r\n')).toBe(true);
+    expect(c.stdout.startsWith('id,group,label,fit,status,second_group,second_label,second_fit\r\n')).toBe(true);
     expect(c.stdout.split('\r\n').filter((l) => l.startsWith('id,group,')).length).toBe(1);
     const table = parse(c.stdout, { columns: true }) as Record<string, string>[];
     const lines = fromCsv.stdout.trimEnd().split('\n').map((l) => JSON.parse(l));
@@ -150,7 +153,7 @@ describe('sheaf assign --stream', () => {
     const s = await sheaf(['assign', '-', '--model', model, '--text', 'body', '--stream', 'jsonl', '--quiet'], { stdin: 'body\n"zzqx yyvw"\nwater pump broken no water from the taps\n' });
     expect(s.code).toBe(0);
     const lines = s.stdout.trimEnd().split('\n').map((l) => JSON.parse(l));
-    expect(lines[0]).toEqual({ id: '1', group: null, label: null, fit: null, status: 'new' });
+    expect(lines[0]).toEqual({ id: '1', group: null, label: null, fit: null, status: 'new', second_group: null, second_label: null, second_fit: null });
     expect(lines[1].id).toBe('2');
     expect(typeof lines[1].group).toBe('number');
   });

@@ -21,24 +21,40 @@ export type AssignedRowFormat = 'jsonl' | 'csv';
 export const ASSIGNED_ROW_FORMATS: readonly AssignedRowFormat[] = Object.freeze(['jsonl', 'csv']);
 
 /** The columns (and JSON keys) of a streamed row, in order. */
-export const ASSIGNED_ROW_COLUMNS: readonly string[] = Object.freeze(['id', 'group', 'label', 'fit', 'status']);
+export const ASSIGNED_ROW_COLUMNS: readonly string[] = Object.freeze(['id', 'group', 'label', 'fit', 'status', 'second_group', 'second_label', 'second_fit']);
+
+/** One streamed row's values, in {@link ASSIGNED_ROW_COLUMNS} order. */
+export type AssignedRowValues = [string, number | null, string | null, number | null, 'matched' | 'new', number | null, string | null, number | null];
 
 /**
  * One document's values: `id`; `group` (the nearest group's number, null when
  * the document shares no term with the model); `label` (that group's name);
  * `fit` (cosine to the group's centre, 4 decimals, as in assigned.csv);
  * `status` (`matched`, or `new` when the fit is below the group's threshold or
- * there is no group).
+ * there is no group); `second_group`, `second_label`, `second_fit`: the next
+ * nearest group, as in assigned.csv (null when there is none).
  */
-export function assignedRowValues(model: Model, a: ModelApplication, i: number): [string, number | null, string | null, number | null, 'matched' | 'new'] {
+export function assignedRowValues(model: Model, a: ModelApplication, i: number): AssignedRowValues {
   const g = a.assignments[i];
+  const s = a.second[i];
   return [
     a.docs[i].id,
     g >= 0 ? g : null,
     g >= 0 ? model.labels[g].label : null,
     g >= 0 ? Number(fixed(a.fit[i])) : null,
     a.unmatched[i] ? 'new' : 'matched',
+    s >= 0 ? s : null,
+    s >= 0 ? model.labels[s].label : null,
+    s >= 0 ? Number(fixed(a.secondFit[i])) : null,
   ];
+}
+
+/** One row's values as CSV cells (empty for null; fits with 4 decimals), as both assigned.csv and the stream write them. */
+export function assignedRowCells(model: Model, a: ModelApplication, i: number): string[] {
+  const [id, group, label, fit, status, secondGroup, secondLabel, secondFit] = assignedRowValues(model, a, i);
+  const cell = (v: number | null): string => (v === null ? '' : String(v));
+  const fitCell = (v: number | null): string => (v === null ? '' : fixed(v));
+  return [id, cell(group), label ?? '', fitCell(fit), status, cell(secondGroup), secondLabel ?? '', fitCell(secondFit)];
 }
 
 /** The CSV header line (CRLF-ended); JSON Lines has none. No byte order mark: the rows go to a pipe. */
@@ -50,11 +66,11 @@ export function assignedRowsHeader(format: AssignedRowFormat): string {
 export function assignedRowsText(model: Model, a: ModelApplication, format: AssignedRowFormat): string {
   const parts: string[] = [];
   for (let i = 0; i < a.docs.length; i++) {
-    const [id, group, label, fit, status] = assignedRowValues(model, a, i);
     if (format === 'jsonl') {
-      parts.push(JSON.stringify({ id, group, label, fit, status }) + '\n');
+      const [id, group, label, fit, status, second_group, second_label, second_fit] = assignedRowValues(model, a, i);
+      parts.push(JSON.stringify({ id, group, label, fit, status, second_group, second_label, second_fit }) + '\n');
     } else {
-      parts.push(csvRecord([id, group === null ? '' : String(group), label ?? '', fit === null ? '' : fixed(fit), status]) + '\r\n');
+      parts.push(csvRecord(assignedRowCells(model, a, i)) + '\r\n');
     }
   }
   return parts.join('');

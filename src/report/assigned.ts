@@ -5,7 +5,8 @@
  */
 import type { Model } from '../model/index.js';
 import type { ModelApplication } from '../model/apply.js';
-import { csvText, fixed } from './csv.js';
+import { csvText } from './csv.js';
+import { ASSIGNED_ROW_COLUMNS, assignedRowCells } from './assigned-rows.js';
 
 /**
  * `assigned.csv`: `id, group, label, fit, status, second_group, second_label, second_fit`, then the input's own
@@ -14,22 +15,14 @@ import { csvText, fixed } from './csv.js';
  */
 export function assignedCsv(model: Model, a: ModelApplication): string {
   const columns: string[] = [];
-  const own = ['id', 'group', 'label', 'fit', 'status', 'second_group', 'second_label', 'second_fit'];
+  const own = ASSIGNED_ROW_COLUMNS;
   const seen = new Set<string>(own);
   for (const d of a.docs) for (const k of d.fields.keys()) if (!seen.has(k)) (seen.add(k), columns.push(k));
   function* rows(): Generator<string[]> {
     for (let i = 0; i < a.docs.length; i++) {
       const d = a.docs[i];
-      const g = a.assignments[i];
       yield [
-        d.id,
-        g >= 0 ? String(g) : '',
-        g >= 0 ? model.labels[g].label : '',
-        g >= 0 ? fixed(a.fit[i]) : '',
-        a.unmatched[i] ? 'new' : 'matched',
-        a.second[i]! >= 0 ? String(a.second[i]) : '',
-        a.second[i]! >= 0 ? model.labels[a.second[i]!]!.label : '',
-        a.second[i]! >= 0 ? fixed(a.secondFit[i]!) : '',
+        ...assignedRowCells(model, a, i),
         ...columns.map((c) => d.fields.get(c) ?? ''),
       ];
     }
