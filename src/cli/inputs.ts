@@ -31,6 +31,7 @@ export interface GroupFlags {
   maxBytes?: string;
   maxFiles?: string;
   maxStreamBytes?: string;
+  sheet?: string;
   lang?: string;
   stopwords?: string;
   stem: boolean;
@@ -77,7 +78,8 @@ export function addInputFlags(cmd: Command): Command {
     .option('--encoding <name>', 'read every file in this character encoding (default: detect)')
     .option('--max-bytes <n>', 'longest document text kept, in bytes (longer ones are cut, and listed in run.json)')
     .option('--max-files <n>', 'read at most this many files from folders')
-    .option('--max-stream-bytes <n>', 'most bytes read from standard input or a pipe (default 4 GiB)');
+    .option('--max-stream-bytes <n>', 'most bytes read from standard input or a pipe (default 4 GiB)')
+    .option('--sheet <name>', 'the sheet of a workbook (.xlsx) to read (default: the first)');
 }
 
 /** Documents as read and then cleaned, with what both steps report. */
@@ -183,6 +185,7 @@ export function ingestOptionsFromFlags(flags: GroupFlags): IngestOptions {
     title: flags.title ?? null,
     format: flags.format as IngestOptions['format'],
     delimiter: flags.delimiter ?? null,
+    sheet: flags.sheet ?? null,
     ...(flags.include ? { include: flags.include } : {}),
     ...(flags.exclude ? { exclude: flags.exclude } : {}),
   });

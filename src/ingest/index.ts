@@ -52,6 +52,8 @@ import { DOCUMENT_EXTENSIONS, noteOf, readDocumentBytes, type DecodingNote, type
 import { looksLikePdf } from './pdf.js';
 import { looksLikeZip } from './zip.js';
 import { looksLikeOle } from './docx.js';
+import { looksLikeXlsx, OLD_SHEET_EXTENSIONS, OLD_WORKBOOK, readXlsx, SHEET_EXTENSIONS } from './xlsx.js';
+import { looksLikeMbox, splitMbox } from './mbox.js';
 
 export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, DEFAULT_MAX_BYTES, DEFAULT_MAX_STREAM_BYTES, INGEST_FORMATS, resolveIngestOptions } from './options.js';
 export type { IngestFormat, IngestOptions } from './options.js';
@@ -444,12 +446,48 @@ async function readStreamedExport(
   };
 }
 
+/** Files read whole by a reader of their own: workbooks, mailboxes (and reference lists). */
+type WholeKind = 'sheet' | 'mbox';
+
+/** The whole-file reader for an extension (only when `format` is `auto`), or `null`. */
+function wholeReaderFor(format: IngestFormat, ext: string): WholeKind | null {
+  if (format !== 'auto') return null;
+  if (SHEET_EXTENSIONS.has(ext) || OLD_SHEET_EXTENSIONS.has(ext)) return 'sheet';
+  if (ext === '.mbox') return 'mbox';
+  return null;
+}
+
+/** Reads a file whose bytes are all in `buf` with its own reader: a workbook as an export, a mailbox as e-mails. */
+async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: string, opts: IngestOptions): Promise<InputRead> {
+  const digest: InputDigest = { path: given, kind: 'file', bytes: buf.length, sha256: createHash('sha256').update(buf).digest('hex') };
+  if (kind === 'sheet') {
+    if (OLD_SHEET_EXTENSIONS.has(ext) && !looksLikeXlsx(buf)) throw new InputSkip(OLD_WORKBOOK);
+    const r = readXlsx(buf, given, opts);
+    return { label: given, ...r, skipped: [], digest, isExport: true, decoding: [], attachments: [] };
+  }
+  const messages = splitMbox(buf);
+  if (messages === null) throw new InputSkip('not a mailbox: it does not start with a From_ line (RFC 4155)');
+  const id = posixPath(given);
+  const read: InputRead = { label: given, docs: [], skipped: [], warnings: [], digest, isExport: false, decoding: [], attachments: [] };
+  for (const m of messages) {
+    const one = await readOneFile(m.bytes, `${given}#${m.index}`, `${id}#${m.index}`, '.eml', opts);
+    if (one.doc) read.docs.push(one.doc);
+    if (one.skip) read.skipped.push(one.skip);
+    read.warnings.push(...one.warnings);
+    if (one.decoding) read.decoding.push(one.decoding);
+    if (one.attachments) read.attachments.push(one.attachments);
+  }
+  return read;
+}
+
 async function readFileInput(given: string, abs: string, pipe: boolean, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
   const ext = path.extname(abs).toLowerCase();
   const readAs = readAsFor(opts.format, ext);
+  const whole = wholeReaderFor(opts.format, ext);
   const opened = streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 }));
   const source = pipe ? capStream(opened, opts.maxStreamBytes) : opened;
   try {
+    if (whole !== null) return await readWholeFile(given, await collectBytes(source), whole, ext, opts);
     if (readAs !== null && readAs !== 'document') return await readStreamedExport(given, source, readAs, opts);
     let all: AsyncIterable<Uint8Array | string> = source;
     if (readAs === null) {
@@ -459,6 +497,8 @@ async function readFileInput(given: string, abs: string, pipe: boolean, opts: In
       all = peeked.all;
     }
     const buf = await collectBytes(all);
+    if (readAs === null && looksLikeXlsx(buf)) return await readWholeFile(given, buf, 'sheet', ext, opts);
+    if (readAs === null && looksLikeMbox(buf)) return await readWholeFile(given, buf, 'mbox', ext, opts);
     const digest: InputDigest = { path: given, kind: 'file', bytes: buf.length, sha256: createHash('sha256').update(buf).digest('hex') };
     const one = await readOneFile(buf, given, posixPath(given), ext, opts);
     return fileRead(given, one, digest);
