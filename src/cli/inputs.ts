@@ -67,7 +67,7 @@ export interface GroupFlags {
 /** Adds the flags shared by every command that reads documents. */
 export function addInputFlags(cmd: Command): Command {
   return cmd
-    .option('--text <fields>', 'column(s) or JSON field(s) holding the text, comma-separated; dotted paths for nested JSON')
+    .option('--text <fields>', 'column(s) or JSON field(s) holding the text, comma-separated; dotted paths for nested JSON, [] for every element of an array (comments[].body)')
     .option('--id <field>', 'column or field with each row’s id (default: row number)')
     .option('--title <field>', 'column or field with each row’s title (default: first line of the text)')
     .option('--format <kind>', 'read inputs as auto, csv, tsv, jsonl, json or text', 'auto')
