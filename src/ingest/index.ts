@@ -54,6 +54,7 @@ import { looksLikeZip } from './zip.js';
 import { looksLikeOle } from './docx.js';
 import { looksLikeXlsx, OLD_SHEET_EXTENSIONS, OLD_WORKBOOK, readXlsx, SHEET_EXTENSIONS } from './xlsx.js';
 import { looksLikeMbox, splitMbox } from './mbox.js';
+import { parseBibtex, parseRis, referenceRows } from './references.js';
 
 export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, DEFAULT_MAX_BYTES, DEFAULT_MAX_STREAM_BYTES, INGEST_FORMATS, resolveIngestOptions } from './options.js';
 export type { IngestFormat, IngestOptions } from './options.js';
@@ -446,14 +447,16 @@ async function readStreamedExport(
   };
 }
 
-/** Files read whole by a reader of their own: workbooks, mailboxes (and reference lists). */
-type WholeKind = 'sheet' | 'mbox';
+/** Files read whole by a reader of their own: workbooks, mailboxes, reference lists (BibTeX, RIS). */
+type WholeKind = 'sheet' | 'mbox' | 'bib' | 'ris';
 
 /** The whole-file reader for an extension (only when `format` is `auto`), or `null`. */
 function wholeReaderFor(format: IngestFormat, ext: string): WholeKind | null {
   if (format !== 'auto') return null;
   if (SHEET_EXTENSIONS.has(ext) || OLD_SHEET_EXTENSIONS.has(ext)) return 'sheet';
   if (ext === '.mbox') return 'mbox';
+  if (ext === '.bib' || ext === '.bibtex') return 'bib';
+  if (ext === '.ris') return 'ris';
   return null;
 }
 
@@ -464,6 +467,22 @@ async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: s
     if (OLD_SHEET_EXTENSIONS.has(ext) && !looksLikeXlsx(buf)) throw new InputSkip(OLD_WORKBOOK);
     const r = readXlsx(buf, given, opts);
     return { label: given, ...r, skipped: [], digest, isExport: true, decoding: [], attachments: [] };
+  }
+  if (kind === 'bib' || kind === 'ris') {
+    const { text, stats } = decodeBuffer(buf, { hash: false, forced: opts.encoding });
+    const parsed = kind === 'bib' ? parseBibtex(text) : parseRis(text);
+    const r = referenceRows(given, parsed.refs, parsed.problems, opts);
+    const note = noteOf(stats);
+    return {
+      label: given,
+      ...r,
+      warnings: [...(note ? replacedWarning(given, note) : []), ...r.warnings],
+      skipped: [],
+      digest,
+      isExport: true,
+      decoding: note ? [{ source: given, ...note }] : [],
+      attachments: [],
+    };
   }
   const messages = splitMbox(buf);
   if (messages === null) throw new InputSkip('not a mailbox: it does not start with a From_ line (RFC 4155)');

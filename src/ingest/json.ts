@@ -14,6 +14,7 @@ import { UsageError, show } from '../util/errors.js';
 import { InputSkip } from './decode.js';
 import { chooseColumns, RowCollector, type ExportColumns } from './table.js';
 import type { CsvReadOptions, ExportRead } from './csv.js';
+import { cslReferences, looksLikeCslJson, referenceRows } from './references.js';
 
 /** The column options the JSON readers use (those of CSV minus the delimiter). */
 export type JsonReadOptions = Omit<CsvReadOptions, 'delimiter'>;
@@ -268,7 +269,8 @@ async function* once(s: string): AsyncGenerator<string, void, undefined> {
 }
 
 /**
- * Reads a JSON array of objects (rows numbered from 1; an element that is
+ * Reads a JSON array of objects (rows numbered from 1; a CSL-JSON
+ * reference list is read as references, see `references.ts`; an element that is
  * not an object is skipped as `name#row`). A file that starts with `{` and
  * is not one JSON value is read as JSON Lines, with a warning. Throws
  * {@link InputSkip} when the text is not JSON, not an array, or too large
@@ -304,6 +306,8 @@ export async function readJsonArray(chunks: AsyncIterable<string>, name: string,
   if (!Array.isArray(value)) {
     throw new InputSkip(`not a JSON array of objects: it holds ${describe(value)}`);
   }
+  // A CSL-JSON reference list (every item with type and id, some with author, issued or container-title).
+  if (looksLikeCslJson(value)) return { ...referenceRows(name, cslReferences(value), [], options), skipped: [] };
   const rows: JsonRow[] = [];
   const skipped: Skipped[] = [];
   value.forEach((v: unknown, i) => {
