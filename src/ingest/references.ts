@@ -53,7 +53,7 @@ function emptyReference(): Reference {
 /** Reads references as a row export named `name` (see {@link REFERENCE_COLUMNS}); `problems` become warnings. */
 export function referenceRows(name: string, refs: readonly Reference[], problems: readonly string[], options: RowTableOptions): ExportRead {
   const rows = refs.map((r) => REFERENCE_COLUMNS.map((c) => r[c as keyof Reference]));
-  const read = readRowTable(name, REFERENCE_COLUMNS, rows, { text: options.text, id: options.id ?? 'key', title: options.title ?? 'title' }, { defaultText: REFERENCE_TEXT });
+  const read = readRowTable(name, REFERENCE_COLUMNS, rows, { text: options.text, id: options.id ?? (refs.some((r) => r.key !== '') ? 'key' : null), title: options.title ?? 'title' }, { defaultText: REFERENCE_TEXT });
   const warnings = problems.map((p) => `${name}: ${p}`);
   if (refs.length === 0) return { docs: [], warnings: [...warnings, `${name} has no references`] };
   return { ...read, warnings: [...warnings, ...read.warnings] };
