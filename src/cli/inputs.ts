@@ -64,8 +64,18 @@ export interface GroupFlags {
   quiet?: boolean;
 }
 
+/** The formats sheaf reads, shown after the options in the help of every command that reads documents. */
+export const READABLE_INPUTS_HELP = `
+Inputs read (by extension; a file with another extension by its content):
+  one document a file       .txt .md .html .pdf .docx .eml (also inside folders)
+  one e-mail a message      .mbox (RFC 4155 mailbox)
+  one document a row        .csv .tsv .jsonl .json .xlsx (first sheet, or --sheet), - (standard input)
+  one document a reference  .bib (BibTeX) .ris (RIS) .json (CSL JSON item list)
+  old binary workbooks (.xls .xlsb) are refused: save them as .xlsx or CSV`;
+
 /** Adds the flags shared by every command that reads documents. */
 export function addInputFlags(cmd: Command): Command {
+  cmd.addHelpText('after', READABLE_INPUTS_HELP);
   return cmd
     .option('--text <fields>', 'column(s) or JSON field(s) holding the text, comma-separated; dotted paths for nested JSON, [] for every element of an array (comments[].body)')
     .option('--id <field>', 'column or field with each row’s id (default: row number)')

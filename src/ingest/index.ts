@@ -12,7 +12,10 @@
  *   HTML (reduced to text), Markdown (minus front matter and link targets),
  *   else plain text.
  * - A file: `.csv`, `.tsv`/`.tab`, `.jsonl`/`.ndjson`, `.json` are exports
- *   (one document per row); `.txt`, `.md`, `.html`, `.pdf`, `.docx`,
+ *   (one document per row; a `.json` CSL item list one per reference),
+ *   `.xlsx` workbooks too (`xlsx.ts`: the first sheet or `sheet`), `.bib`
+ *   and `.ris` reference lists (`references.ts`); `.mbox` mailboxes give
+ *   one e-mail document per message (`mbox.ts`, ids `file.mbox#N`); `.txt`, `.md`, `.html`, `.pdf`, `.docx`,
  *   `.eml`… one document, id = the path as given (forward slashes). Another
  *   extension: a PDF, Word file, e-mail or HTML page is recognised by its
  *   content; a file starting with `[` is read as a JSON array, with `{` as
