@@ -181,7 +181,7 @@ describe('folders', () => {
     expect((await usage(ingest(['notes', 'missing.txt'], {}, { cwd }))).message).toBe('no such file or folder: missing.txt');
     expect((await usage(ingest(['notes/a.md/x'], {}, { cwd }))).message).toBe('no such file or folder: notes/a.md/x');
     expect((await usage(ingest(['empty'], {}, { cwd }))).message).toBe(
-      'no documents in folder empty (looked for **/*.{txt,md,markdown,html,htm,pdf,docx,eml})',
+      'no documents in folder empty (looked for **/*.{txt,md,markdown,html,htm,pdf,docx,eml,mbox})',
     );
     expect((await usage(ingest(['only-dot'], { include: ['**/*.md', '**/*.txt'], exclude: ['tmp/**'] }, { cwd }))).message).toBe(
       'no documents in folder only-dot (looked for **/*.md, **/*.txt; excluding tmp/**)',

@@ -86,4 +86,23 @@ describe('mailboxes (RFC 4155)', () => {
     expect(r.docs.map((d) => d.id)).toEqual(['Inbox#1', 'Inbox#2', 'Inbox#4']);
     expect(looksLikeMbox(Buffer.from('From the desk of the editor\nhello\n'))).toBe(false);
   });
+
+  it('splits a mailbox inside a folder too (read by default), ids rel#N', async () => {
+    const dir = tmp();
+    put(dir, 'mail/2026/inbox.mbox', MBOX);
+    put(dir, 'mail/notes.txt', 'a plain note');
+    put(dir, 'mail/empty.mbox', 'no From_ line here\n');
+    const r = await ingest(['mail'], {}, { cwd: dir });
+    expect(r.docs.map((d) => [d.id, d.source, d.title])).toEqual([
+      ['2026/inbox.mbox#1', 'mail/2026/inbox.mbox#1', 'Boiler noise'],
+      ['2026/inbox.mbox#2', 'mail/2026/inbox.mbox#2', 'Café order'],
+      ['2026/inbox.mbox#4', 'mail/2026/inbox.mbox#4', 'Last one'],
+      ['notes.txt', 'mail/notes.txt', 'a plain note'],
+    ]);
+    expect(r.skipped).toEqual([
+      { source: 'mail/2026/inbox.mbox#3', reason: 'no text: the e-mail has an empty body' },
+      { source: 'mail/empty.mbox', reason: 'not a mailbox: it does not start with a From_ line (RFC 4155)' },
+    ]);
+    expect(r.inputs[0]?.files).toBe(3);
+  });
 });

@@ -20,7 +20,7 @@ describe('resolveIngestOptions', () => {
       text: null,
       id: null,
       title: null,
-      include: ['**/*.{txt,md,markdown,html,htm,pdf,docx,eml}'],
+      include: ['**/*.{txt,md,markdown,html,htm,pdf,docx,eml,mbox}'],
       exclude: [],
       format: 'auto',
       delimiter: null,

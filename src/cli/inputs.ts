@@ -68,7 +68,7 @@ export interface GroupFlags {
 export const READABLE_INPUTS_HELP = `
 Inputs read (by extension; a file with another extension by its content):
   one document a file       .txt .md .html .pdf .docx .eml (also inside folders)
-  one e-mail a message      .mbox (RFC 4155 mailbox)
+  one e-mail a message      .mbox (RFC 4155 mailbox; also inside folders)
   one document a row        .csv .tsv .jsonl .json .xlsx (first sheet, or --sheet), - (standard input)
   one document a reference  .bib (BibTeX) .ris (RIS) .json (CSL JSON item list)
   old binary workbooks (.xls .xlsb) are refused: save them as .xlsx or CSV`;

@@ -464,7 +464,7 @@ function wholeReaderFor(format: IngestFormat, ext: string): WholeKind | null {
 }
 
 /** Reads a file whose bytes are all in `buf` with its own reader: a workbook as an export, a mailbox as e-mails. */
-async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: string, opts: IngestOptions): Promise<InputRead> {
+async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: string, opts: IngestOptions, idBase: string = posixPath(given)): Promise<InputRead> {
   const digest: InputDigest = { path: given, kind: 'file', bytes: buf.length, sha256: createHash('sha256').update(buf).digest('hex') };
   if (kind === 'sheet') {
     if (OLD_SHEET_EXTENSIONS.has(ext) && !looksLikeXlsx(buf)) throw new InputSkip(OLD_WORKBOOK);
@@ -489,7 +489,7 @@ async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: s
   }
   const messages = splitMbox(buf);
   if (messages === null) throw new InputSkip('not a mailbox: it does not start with a From_ line (RFC 4155)');
-  const id = posixPath(given);
+  const id = idBase;
   const read: InputRead = { label: given, docs: [], skipped: [], warnings: [], digest, isExport: false, decoding: [], attachments: [] };
   for (const m of messages) {
     const one = await readOneFile(m.bytes, `${given}#${m.index}`, `${id}#${m.index}`, '.eml', opts);
@@ -577,7 +577,7 @@ async function mapPool<T, R>(items: readonly T[], limit: number, fn: (item: T) =
 
 async function readFolderInput(given: string, abs: string, listing: Listing, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
   const shown = (rel: string): string => path.posix.join(given.replace(/\\/g, '/'), rel);
-  type One = OneFile & { sha: string | null; bytes: number };
+  type One = OneFile & { sha: string | null; bytes: number; mailbox?: InputRead };
   const results = await mapPool(listing.files, READ_CONCURRENCY, async (rel): Promise<One> => {
     const source = shown(rel);
     let buf: Buffer | null = null;
@@ -602,7 +602,18 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
     }
     if (buf === null) return { doc: null, skip: { source, reason }, warnings: [], decoding: null, attachments: null, sha: null, bytes: 0 };
     const sha = createHash('sha256').update(buf).digest('hex');
-    const one = await readOneFile(buf, source, rel, path.extname(rel).toLowerCase(), opts);
+    const ext = path.extname(rel).toLowerCase();
+    if (ext === '.mbox') {
+      // A mailbox in a folder: one e-mail document per message, ids `rel#N`.
+      const none = { doc: null, skip: null, warnings: [], decoding: null, attachments: null, sha, bytes: buf.length };
+      try {
+        return { ...none, mailbox: await readWholeFile(source, buf, 'mbox', ext, opts, rel) };
+      } catch (err) {
+        if (err instanceof InputSkip) return { ...none, skip: { source, reason: err.reason } };
+        throw err;
+      }
+    }
+    const one = await readOneFile(buf, source, rel, ext, opts);
     return { ...one, sha, bytes: buf.length };
   });
   const docs: DraftDoc[] = [];
@@ -614,6 +625,13 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
   let bytes = 0;
   listing.files.forEach((rel, i) => {
     const r = results[i] as One;
+    if (r.mailbox) {
+      docs.push(...r.mailbox.docs);
+      skipped.push(...r.mailbox.skipped);
+      warnings.push(...r.mailbox.warnings);
+      decoding.push(...r.mailbox.decoding);
+      attachments.push(...r.mailbox.attachments);
+    }
     if (r.doc) docs.push(r.doc);
     if (r.skip) skipped.push(r.skip);
     warnings.push(...r.warnings);

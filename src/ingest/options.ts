@@ -71,7 +71,7 @@ export interface IngestOptions {
 }
 
 /** Default folder pattern: the document extensions read one file per document (matched case-insensitively). */
-export const DEFAULT_INCLUDE = '**/*.{txt,md,markdown,html,htm,pdf,docx,eml}';
+export const DEFAULT_INCLUDE = '**/*.{txt,md,markdown,html,htm,pdf,docx,eml,mbox}';
 
 /** Default {@link IngestOptions.maxBytes}: 5 MiB of text per document (a long book is about 1–2 MiB). */
 export const DEFAULT_MAX_BYTES = 5 * 1024 * 1024;
