@@ -5,6 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import path from 'node:path';
+import { readFileSync } from 'node:fs';
 import writeXlsxFile from 'write-excel-file/node';
 import { ingest } from '../src/ingest/index.js';
 import { serialToText, sharedStrings, isDateFormatCode, columnOf } from '../src/ingest/xlsx.js';
@@ -92,6 +93,29 @@ describe('workbooks (.xlsx)', () => {
     put(dir, 'f/a.txt', 'a note');
     const f = await ingest(['f'], { include: ['**/*'] }, { cwd: dir });
     expect(f.skipped).toEqual([{ source: 'f/book.xlsx', reason: 'a spreadsheet workbook: name the file itself as an input to read its rows' }]);
+  });
+
+  it('warns when --sheet is given and no workbook was read', async () => {
+    const dir = tmp();
+    put(dir, 'rows.csv', 'id,body\n1,a row\n');
+    const r = await ingest(['rows.csv'], { sheet: 'Notes' }, { cwd: dir });
+    expect(r.warnings).toEqual(['the sheet option applies only to workbooks (.xlsx); none was read']);
+  });
+
+  it('groups a workbook on the command line: documents.csv joins back to the sheet\'s rows', async () => {
+    const dir = tmp();
+    const rows: (string | number)[][] = [['ticket', 'topic', 'body']];
+    const topics = ['printer jams paper tray', 'password reset login locked', 'invoice refund charged twice'];
+    for (let i = 0; i < 12; i++) rows.push([`K-${i + 1}`, `topic ${i % 3}`, `${topics[i % 3]} case ${i + 1}`]);
+    put(dir, 'desk.xlsx', await writeXlsxFile(rows).toBuffer());
+    const out = path.join(dir, 'out');
+    const r = await sheaf(['group', 'desk.xlsx', '--id', 'ticket', '--text', 'body', '--groups', '3', '--no-report', '--out', out, '--quiet'], { cwd: dir });
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const csv = readFileSync(path.join(out, 'documents.csv'), 'utf8').replace(/^\uFEFF/, '').split(/\r?\n/);
+    expect(csv[0]).toBe('id,group,label,fit,duplicate_set,topic,body');
+    expect(csv[1]).toMatch(/^K-1,\d,[^,]*,[0-9.]+,[^,]*,topic 0,printer jams paper tray case 1$/);
+    expect(csv.filter((l) => l !== '').length).toBe(13);
   });
 
   it('takes --sheet on the command line', async () => {

@@ -227,6 +227,8 @@ interface InputRead {
   readonly rowsSeen?: number;
   /** A CSV's records that swallowed rows. */
   readonly merged?: readonly MergedRecord[];
+  /** A workbook was read (so the `sheet` option applied). */
+  readonly workbook?: boolean;
 }
 
 type Listing = Awaited<ReturnType<typeof listFolder>>;
@@ -469,7 +471,7 @@ async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: s
   if (kind === 'sheet') {
     if (OLD_SHEET_EXTENSIONS.has(ext) && !looksLikeXlsx(buf)) throw new InputSkip(OLD_WORKBOOK);
     const r = readXlsx(buf, given, opts);
-    return { label: given, ...r, skipped: [], digest, isExport: true, decoding: [], attachments: [] };
+    return { label: given, ...r, skipped: [], digest, isExport: true, decoding: [], attachments: [], workbook: true };
   }
   if (kind === 'bib' || kind === 'ris') {
     const { text, stats } = decodeBuffer(buf, { hash: false, forced: opts.encoding });
@@ -824,6 +826,9 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
 
   if ((opts.text !== null || opts.id !== null || opts.title !== null) && !reads.some((r) => r.isExport)) {
     warnings.push('the text, id and title options apply only to exports (CSV, TSV, JSON Lines, JSON); none was read');
+  }
+  if (opts.sheet !== null && !reads.some((r) => r.workbook === true)) {
+    warnings.push('the sheet option applies only to workbooks (.xlsx); none was read');
   }
   for (const r of reads) warnings.push(...r.warnings);
   warnings.push(...uniqueIds(reads));
