@@ -41,39 +41,79 @@ export function looksLikeMbox(b: Uint8Array): boolean {
   return nl !== -1 && FROM_LINE.test(head.slice(0, nl).replace(/\r$/, ''));
 }
 
+const FROM = Buffer.from('From ', 'latin1');
+
+/** True when `buf[start…end)` (a line without its LF) is empty or a lone CR. */
+function blank(buf: Buffer, start: number, end: number): boolean {
+  return end === start || (end === start + 1 && buf[start] === 0x0d);
+}
+
+/** True when the line starts with `>`s followed by `From ` (a quoted From_ line). */
+function quotedFrom(buf: Buffer, start: number, end: number): boolean {
+  let i = start;
+  while (i < end && buf[i] === 0x3e) i++;
+  return i > start && end - i >= 5 && buf.compare(FROM, 0, 5, i, i + 5) === 0;
+}
+
 /**
- * Splits a mailbox into its messages (see the module's description).
- * Returns `null` when it does not start (after blank lines) with a From_ line.
+ * Splits a mailbox into its messages (see the module's description),
+ * working on the bytes line by line (a mailbox may be larger than the
+ * longest string). Returns `null` when it does not start (after blank
+ * lines) with a From_ line.
  */
 export function splitMbox(buf: Buffer): MboxMessage[] | null {
-  const text = buf.toString('latin1');
-  const lines = text.split('\n');
-  if (lines.length > 0 && lines[lines.length - 1] === '') lines.pop();
-  let i = 0;
-  while (i < lines.length && (lines[i] === '' || lines[i] === '\r')) i++;
-  if (i >= lines.length || !(lines[i] as string).startsWith('From ')) return null;
+  // Line starts and ends (without the LF).
+  let pos = 0;
+  let lineNo = 0;
+  const nextLine = (): { start: number; end: number } | null => {
+    if (pos >= buf.length) return null;
+    const nl = buf.indexOf(0x0a, pos);
+    const start = pos;
+    const end = nl === -1 ? buf.length : nl;
+    pos = nl === -1 ? buf.length : nl + 1;
+    lineNo++;
+    return { start, end };
+  };
+  const startsWithFrom = (l: { start: number; end: number }): boolean => l.end - l.start >= 5 && buf.compare(FROM, 0, 5, l.start, l.start + 5) === 0;
+  let line = nextLine();
+  while (line !== null && blank(buf, line.start, line.end)) line = nextLine();
+  if (line === null || !startsWithFrom(line)) return null;
   const out: MboxMessage[] = [];
-  let body: string[] = [];
-  let startLine = i + 1;
+  let parts: Buffer[] = [];
+  let startLine = lineNo;
+  let prevBlank = false;
+  let lastBlank: { start: number; end: number } | null = null;
   const finish = (): void => {
     // The empty line that ends a message (RFC 4155 §2) is not part of it.
-    if (body.length > 0 && (body[body.length - 1] === '' || body[body.length - 1] === '\r')) body.pop();
-    out.push({ index: out.length + 1, line: startLine, bytes: Buffer.from(body.join('\n') + (body.length > 0 ? '\n' : ''), 'latin1') });
+    if (lastBlank !== null) parts.pop();
+    out.push({ index: out.length + 1, line: startLine, bytes: Buffer.concat(parts) });
   };
-  for (i = i + 1; i < lines.length; i++) {
-    const l = lines[i] as string;
-    if (l.startsWith('From ')) {
-      const prev = lines[i - 1] as string;
-      const bare = l.endsWith('\r') ? l.slice(0, -1) : l;
-      if (prev === '' || prev === '\r' || FROM_LINE.test(bare)) {
+  for (line = nextLine(); line !== null; line = nextLine()) {
+    const { start, end } = line;
+    if (startsWithFrom(line)) {
+      const bare = buf.toString('latin1', start, Math.min(end, start + 512)).replace(/\r$/, '');
+      if (prevBlank || FROM_LINE.test(bare)) {
         finish();
-        body = [];
-        startLine = i + 1;
+        parts = [];
+        startLine = lineNo;
+        prevBlank = false;
+        lastBlank = null;
         continue;
       }
     }
-    body.push(/^>+From /.test(l) ? l.slice(1) : l);
+    const withNl = buf.subarray(quotedFrom(buf, start, end) ? start + 1 : start, end);
+    parts.push(withNl, NL);
+    prevBlank = blank(buf, start, end);
+    lastBlank = prevBlank ? line : null;
+    if (prevBlank) {
+      // Keep the blank line and its LF as one part, so finish() can drop it whole.
+      parts.pop();
+      parts.pop();
+      parts.push(Buffer.concat([withNl, NL]));
+    }
   }
   finish();
   return out;
 }
+
+const NL = Buffer.from('\n', 'latin1');
