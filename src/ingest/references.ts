@@ -120,10 +120,15 @@ class BibScanner {
   i = 0;
   constructor(readonly s: string) {}
 
+  private counted = 0;
+  private lines = 1;
+
+  /** The line (1-based) the scanner is on; counted onwards from the last call, as the scanner only moves forward. */
   line(): number {
-    let n = 1;
-    for (let k = 0; k < this.i && k < this.s.length; k++) if (this.s.charCodeAt(k) === 10) n++;
-    return n;
+    const to = Math.min(this.i, this.s.length);
+    for (let k = this.counted; k < to; k++) if (this.s.charCodeAt(k) === 10) this.lines++;
+    this.counted = Math.max(this.counted, to);
+    return this.lines;
   }
 
   space(): void {
