@@ -5,6 +5,7 @@
  * line, and a body line starting with `From ` is written as `>From `.
  */
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { ingest } from '../src/ingest/index.js';
 import { splitMbox, looksLikeMbox } from '../src/ingest/mbox.js';
 import { put, tmp } from './helpers/files.js';
@@ -104,5 +105,24 @@ describe('mailboxes (RFC 4155)', () => {
       { source: 'mail/empty.mbox', reason: 'not a mailbox: it does not start with a From_ line (RFC 4155)' },
     ]);
     expect(r.inputs[0]?.files).toBe(3);
+  });
+
+  it('gives back any messages written as an mboxrd mailbox (RFC 4155 App. A quoting), on random messages', () => {
+    const line = fc.oneof(
+      fc.constantFrom('', 'From here on', '>From quoted once', '>>From twice', 'From', 'plain text', ' From indented'),
+      fc.string({ maxLength: 12 }).map((x) => x.replace(/[\r\n]/g, ' ')),
+    );
+    const message = fc.array(line, { minLength: 1, maxLength: 8 }).map((ls) => ['Subject: s', '', ...ls].join('\n') + '\n');
+    fc.assert(
+      fc.property(fc.array(message, { minLength: 1, maxLength: 5 }), (messages) => {
+        // Writing: a From_ line, every line matching >*From quoted with one more >, an empty line after each message.
+        const box = messages
+          .map((m) => 'From someone@example.org Mon Nov  2 07:00:00 2026\n' + m.replace(/^(>*From )/gm, '>$1') + '\n')
+          .join('');
+        const got = splitMbox(Buffer.from(box, 'utf8'))?.map((x) => x.bytes.toString('utf8'));
+        expect(got).toEqual(messages);
+      }),
+      { seed: 4155, numRuns: 300 },
+    );
   });
 });
