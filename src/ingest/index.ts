@@ -70,6 +70,10 @@ export { readDocx } from './docx.js';
 export { htmlToText, type HtmlText } from './html.js';
 export { readMarkdown, readPlainText, capTitle, firstLine, TITLE_MAX } from './text.js';
 export { TEXT_COLUMN_GUESSES } from './table.js';
+export { readXlsx, SHEET_EXTENSIONS, OLD_SHEET_EXTENSIONS, type SheetReadOptions } from './xlsx.js';
+export { splitMbox, looksLikeMbox, type MboxMessage } from './mbox.js';
+export { parseBibtex, parseRis, cslReferences, looksLikeCslJson, REFERENCE_COLUMNS, REFERENCE_TEXT, type Reference } from './references.js';
+export { readRowTable, type RowTableOptions } from './rows.js';
 
 /** What one input was, for `run.json`: its size and SHA-256. */
 export interface InputDigest {

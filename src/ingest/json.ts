@@ -127,7 +127,13 @@ class PathIndex {
       // `p[]`: every element; its objects' keys are reached as `p[].key`.
       const each = `${p}[]`;
       const eks = this.path(each, [...ks, null]);
-      for (const el of v) this.value(el, each, eks, depth + 1);
+      let primitive = false;
+      for (const el of v) {
+        // Only objects and arrays are walked: an array of a million numbers costs a type check each.
+        if (typeof el === 'object' && el !== null) this.value(el, each, eks, depth + 1);
+        else primitive = true;
+      }
+      if (primitive) this.leaves.add(each);
     }
   }
 
