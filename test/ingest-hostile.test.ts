@@ -110,7 +110,7 @@ describe('files of other formats are listed (case 18)', () => {
     put(cwd, 'docs/README', 'read me first');
     const err = await usage(ingest(['docs'], {}, { cwd }));
     expect(err.message).toBe(
-      "no documents in folder docs (looked for **/*.{txt,md,markdown,html,htm,pdf,docx,eml}); 1 file(s) of other formats not read, such as README: add --include '**/*' to read them as text",
+      "no documents in folder docs (looked for **/*.{txt,md,markdown,html,htm,pdf,docx,eml,mbox}); 1 file(s) of other formats not read, such as README: add --include '**/*' to read them as text",
     );
   });
 });

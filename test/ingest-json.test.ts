@@ -47,10 +47,10 @@ describe('JSON arrays', () => {
     expect(r.docs[0]?.text).toBe('Cannot sign in since Monday');
   });
 
-  it('lists top-level and nested leaf paths when a column is missing', async () => {
+  it('lists top-level and nested leaf paths (and array paths, tags[]) when a column is missing', async () => {
     const e = await usage(ingest(['nested.json'], { text: ['ticket.bdy'] }, { cwd: FIX }));
     expect(e.message).toBe(
-      'nested.json has no column "ticket.bdy" for --text; its columns are: id, ticket.subject, ticket.body, tags, score, extra',
+      'nested.json has no column "ticket.bdy" for --text; its columns are: id, ticket.subject, ticket.body, tags, tags[], score, extra',
     );
     expect(e.option).toBe('text');
   });

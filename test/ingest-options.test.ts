@@ -20,7 +20,7 @@ describe('resolveIngestOptions', () => {
       text: null,
       id: null,
       title: null,
-      include: ['**/*.{txt,md,markdown,html,htm,pdf,docx,eml}'],
+      include: ['**/*.{txt,md,markdown,html,htm,pdf,docx,eml,mbox}'],
       exclude: [],
       format: 'auto',
       delimiter: null,
@@ -28,8 +28,15 @@ describe('resolveIngestOptions', () => {
       maxBytes: 5 * 1024 * 1024,
       maxFiles: null,
       maxStreamBytes: 4 * 1024 * 1024 * 1024,
+      sheet: null,
     });
     expect(resolveIngestOptions({ text: undefined, format: undefined })).toEqual(DEFAULT_INGEST_OPTIONS);
+  });
+
+  it('takes a sheet name, trimmed, and refuses an empty one', () => {
+    expect(resolveIngestOptions({ sheet: ' Notes ' }).sheet).toBe('Notes');
+    expect(() => resolveIngestOptions({ sheet: ' ' })).toThrow('sheet must be a sheet name or null (the first sheet); got " "');
+    expect(() => resolveIngestOptions({ sheet: 3 as unknown as string })).toThrow('sheet must be a sheet name or null (the first sheet); got 3');
   });
 
   it('trims names, reads tab spellings, strips ./ from patterns', () => {

@@ -39,7 +39,7 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
   const cmd = program
     .command('group')
     .description('sort documents into named groups')
-    .argument('<inputs...>', 'folders, files (.txt .md .html .csv .tsv .jsonl .json), or - for stdin');
+    .argument('<inputs...>', 'folders, files (formats below), or - for stdin');
   addInputFlags(cmd);
   addAnalysisFlags(cmd);
   addGroupingFlags(cmd, 'number of groups, or auto to choose at the knee of the objective');

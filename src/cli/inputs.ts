@@ -31,6 +31,7 @@ export interface GroupFlags {
   maxBytes?: string;
   maxFiles?: string;
   maxStreamBytes?: string;
+  sheet?: string;
   lang?: string;
   stopwords?: string;
   stem: boolean;
@@ -64,10 +65,20 @@ export interface GroupFlags {
   quiet?: boolean;
 }
 
+/** The formats sheaf reads, shown after the options in the help of every command that reads documents. */
+export const READABLE_INPUTS_HELP = `
+Inputs read (by extension; a file with another extension by its content):
+  one document a file       .txt .md .html .pdf .docx .eml (also inside folders)
+  one e-mail a message      .mbox (RFC 4155 mailbox; also inside folders)
+  one document a row        .csv .tsv .jsonl .json .xlsx (first sheet, or --sheet), - (standard input)
+  one document a reference  .bib (BibTeX) .ris (RIS) .json (CSL JSON item list)
+  old binary workbooks (.xls .xlsb) are refused: save them as .xlsx or CSV`;
+
 /** Adds the flags shared by every command that reads documents. */
 export function addInputFlags(cmd: Command): Command {
+  cmd.addHelpText('after', READABLE_INPUTS_HELP);
   return cmd
-    .option('--text <fields>', 'column(s) or JSON field(s) holding the text, comma-separated; dotted paths for nested JSON')
+    .option('--text <fields>', 'column(s) or JSON field(s) holding the text, comma-separated; dotted paths for nested JSON, [] for every element of an array (comments[].body)')
     .option('--id <field>', 'column or field with each row’s id (default: row number)')
     .option('--title <field>', 'column or field with each row’s title (default: first line of the text)')
     .option('--format <kind>', 'read inputs as auto, csv, tsv, jsonl, json or text', 'auto')
@@ -78,7 +89,8 @@ export function addInputFlags(cmd: Command): Command {
     .option('--encoding <name>', 'read every file in this character encoding (default: detect)')
     .option('--max-bytes <n>', 'longest document text kept, in bytes (longer ones are cut, and listed in run.json)')
     .option('--max-files <n>', 'read at most this many files from folders')
-    .option('--max-stream-bytes <n>', 'most bytes read from standard input or a pipe (default 4 GiB)');
+    .option('--max-stream-bytes <n>', 'most bytes read from standard input or a pipe (default 4 GiB)')
+    .option('--sheet <name>', 'the sheet of a workbook (.xlsx) to read (default: the first)');
 }
 
 /** Documents as read and then cleaned, with what both steps report. */
@@ -184,6 +196,7 @@ export function ingestOptionsFromFlags(flags: GroupFlags): IngestOptions {
     title: flags.title ?? null,
     format: flags.format as IngestOptions['format'],
     delimiter: flags.delimiter ?? null,
+    sheet: flags.sheet ?? null,
     ...(flags.include ? { include: flags.include } : {}),
     ...(flags.exclude ? { exclude: flags.exclude } : {}),
   });

@@ -14,10 +14,13 @@
  *    multi-byte sequences, which legacy text practically never is;
  * 4. NUL bytes at every other position (≥ 40% of the odd or even bytes NUL,
  *    ≤ 5% of the others): UTF-16 without a byte order mark;
- * 5. UTF-8, when the bytes are valid UTF-8, or when its well-formed multi-byte
+ * 5. ISO-2022-JP, when 7-bit bytes hold its escape to JIS X 0208
+ *    ({@link looksLikeIso2022Jp}; decoded by the platform's `TextDecoder`,
+ *    as are other encodings iconv-lite lacks);
+ * 6. UTF-8, when the bytes are valid UTF-8, or when its well-formed multi-byte
  *    sequences are at least as many as its invalid ones (damaged UTF-8:
  *    invalid sequences become U+FFFD and are counted);
- * 6. otherwise a legacy encoding: chardet's best guess among the encodings
+ * 7. otherwise a legacy encoding: chardet's best guess among the encodings
  *    iconv-lite knows — among Latin-script guesses and Windows-1252, the one
  *    whose reading is most plausible ({@link detectLegacy}) — else
  *    Windows-1252.
@@ -30,6 +33,7 @@
  * @module
  */
 import { isUtf8 } from 'node:buffer';
+import { TextDecoder } from 'node:util';
 import chardet from 'chardet';
 import iconv from 'iconv-lite';
 
@@ -60,10 +64,55 @@ const LATIN_RIVALS = new Set([
 ]);
 
 /**
- * A canonical lower-case name for an encoding label, or `null` when
- * iconv-lite does not know it. `utf8` → `utf-8`; Latin-1 and ASCII labels →
- * `windows-1252`; `utf-16`/`ucs-2` → `utf-16le` (its default without a byte
- * order mark); `utf-16le`/`utf-16be` as they are.
+ * The platform's (WHATWG) name for an encoding label its `TextDecoder`
+ * decodes, or `null`: the fallback for encodings iconv-lite lacks, such as
+ * ISO-2022-JP. The WHATWG "replacement" decoder (labels such as
+ * ISO-2022-KR, which it turns into one U+FFFD) counts as unknown.
+ */
+export function platformEncoding(label: string): string | null {
+  try {
+    const name = new TextDecoder(label).encoding;
+    return name === 'replacement' ? null : name;
+  } catch {
+    return null;
+  }
+}
+
+/** True when iconv-lite decodes `encoding` (a canonical name); else the platform's `TextDecoder` does (see {@link canonicalEncoding}). */
+export function iconvDecodes(encoding: string): boolean {
+  return iconv.encodingExists(encoding);
+}
+
+/** Decodes `bytes` whole in a canonical encoding: iconv-lite, or the platform's `TextDecoder` for what iconv-lite lacks. */
+export function decodeWith(bytes: Uint8Array, encoding: string): string {
+  if (encoding === 'utf-8' || encoding === 'utf-16le' || encoding === 'utf-16be' || !iconv.encodingExists(encoding)) {
+    return new TextDecoder(encoding).decode(bytes);
+  }
+  return iconv.decode(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), encoding);
+}
+
+/**
+ * True when `bytes` look like ISO-2022-JP (RFC 1468, from memory): 7-bit
+ * bytes only, with an escape sequence switching to JIS X 0208 (`ESC $ B`,
+ * or the 1978 set `ESC $ @`). Such text is valid ASCII, so it would be read
+ * as UTF-8 with its escape sequences left in.
+ */
+export function looksLikeIso2022Jp(bytes: Uint8Array): boolean {
+  let esc = false;
+  for (let i = 0; i < bytes.length; i++) {
+    const b = bytes[i] as number;
+    if (b >= 0x80) return false;
+    if (b === 0x1b && bytes[i + 1] === 0x24 && (bytes[i + 2] === 0x42 || bytes[i + 2] === 0x40)) esc = true;
+  }
+  return esc;
+}
+
+/**
+ * A canonical lower-case name for an encoding label, or `null` when neither
+ * iconv-lite nor the platform's `TextDecoder` knows it ({@link platformEncoding}).
+ * `utf8` → `utf-8`; Latin-1 and ASCII labels → `windows-1252`;
+ * `utf-16`/`ucs-2` → `utf-16le` (its default without a byte order mark);
+ * `utf-16le`/`utf-16be` as they are.
  */
 export function canonicalEncoding(label: string): string | null {
   const l = label.trim().replace(/^["']|["']$/g, '').toLowerCase();
@@ -73,7 +122,7 @@ export function canonicalEncoding(label: string): string | null {
   if (l === 'utf-16' || l === 'utf16' || l === 'ucs-2' || l === 'ucs2' || l === 'unicode') return 'utf-16le';
   if (l === 'utf-16le' || l === 'utf16le') return 'utf-16le';
   if (l === 'utf-16be' || l === 'utf16be') return 'utf-16be';
-  if (!iconv.encodingExists(l)) return null;
+  if (!iconv.encodingExists(l)) return platformEncoding(l);
   return l;
 }
 
@@ -272,6 +321,7 @@ export function chooseEncoding(
   }
   const sixteen = utf16ByNulPattern(bytes.subarray(0, 8192));
   if (sixteen) return { encoding: sixteen, basis: 'nul-pattern' };
+  if (looksLikeIso2022Jp(bytes.subarray(0, DETECT_BYTES))) return { encoding: 'iso-2022-jp', basis: 'detected' };
   if (census === null) {
     if (options.complete && isUtf8(bytes)) return { encoding: 'utf-8', basis: 'utf-8' };
     census = utf8Census(bytes, options.complete);

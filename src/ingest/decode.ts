@@ -14,7 +14,7 @@
 import { createHash, type Hash } from 'node:crypto';
 import { TextDecoder } from 'node:util';
 import iconv from 'iconv-lite';
-import { chooseEncoding, utf8Census, type EncodingBasis, type EncodingChoice } from './charset.js';
+import { chooseEncoding, iconvDecodes, utf8Census, type EncodingBasis, type EncodingChoice } from './charset.js';
 
 /** How many leading bytes are inspected for NUL bytes, control characters and invalid UTF-8. */
 export const SNIFF_BYTES = 8192;
@@ -104,8 +104,8 @@ interface Inner {
 }
 
 function innerDecoder(encoding: string): Inner {
-  if (encoding === 'utf-8' || encoding === 'utf-16le' || encoding === 'utf-16be') {
-    // TextDecoder drops a leading byte order mark by default.
+  if (encoding === 'utf-8' || encoding === 'utf-16le' || encoding === 'utf-16be' || !iconvDecodes(encoding)) {
+    // TextDecoder drops a leading byte order mark by default; it also decodes what iconv-lite lacks (ISO-2022-JP).
     const d = new TextDecoder(encoding);
     return { write: (b) => d.decode(b, { stream: true }), end: () => d.decode() };
   }

@@ -29,6 +29,7 @@ import { looksLikeMail, readMail } from './mail.js';
 import { looksLikePdf, readPdf } from './pdf.js';
 import { firstLine, readMarkdown, readPlainText } from './text.js';
 import { looksLikeZip } from './zip.js';
+import { looksLikeXlsx } from './xlsx.js';
 
 /** The readers a document file can go through. */
 export type DocumentKind = 'pdf' | 'docx' | 'eml' | 'html' | 'markdown' | 'text';
@@ -98,6 +99,7 @@ export function chooseReader(buf: Uint8Array, ext: string, complete: boolean): D
   if (ext === '.pdf') throw new InputSkip('not a PDF: no %PDF- header in the first 1 KiB');
   if (looksLikeDocx(buf)) return 'docx';
   if (ext === '.docx') return 'docx'; // readDocx names what it is instead
+  if (looksLikeXlsx(buf)) throw new InputSkip('a spreadsheet workbook: name the file itself as an input to read its rows');
   if (looksLikeZip(buf)) throw new InputSkip('binary: a zip archive (not a Word document)');
   if (looksLikeOle(buf)) throw new InputSkip('binary: an OLE compound document (an old-format Office file?)');
   if (ext === '.eml') return 'eml';

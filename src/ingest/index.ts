@@ -12,7 +12,10 @@
  *   HTML (reduced to text), Markdown (minus front matter and link targets),
  *   else plain text.
  * - A file: `.csv`, `.tsv`/`.tab`, `.jsonl`/`.ndjson`, `.json` are exports
- *   (one document per row); `.txt`, `.md`, `.html`, `.pdf`, `.docx`,
+ *   (one document per row; a `.json` CSL item list one per reference),
+ *   `.xlsx` workbooks too (`xlsx.ts`: the first sheet or `sheet`), `.bib`
+ *   and `.ris` reference lists (`references.ts`); `.mbox` mailboxes give
+ *   one e-mail document per message (`mbox.ts`, ids `file.mbox#N`); `.txt`, `.md`, `.html`, `.pdf`, `.docx`,
  *   `.eml`… one document, id = the path as given (forward slashes). Another
  *   extension: a PDF, Word file, e-mail or HTML page is recognised by its
  *   content; a file starting with `[` is read as a JSON array, with `{` as
@@ -52,6 +55,9 @@ import { DOCUMENT_EXTENSIONS, noteOf, readDocumentBytes, type DecodingNote, type
 import { looksLikePdf } from './pdf.js';
 import { looksLikeZip } from './zip.js';
 import { looksLikeOle } from './docx.js';
+import { looksLikeXlsx, OLD_SHEET_EXTENSIONS, OLD_WORKBOOK, readXlsx, SHEET_EXTENSIONS } from './xlsx.js';
+import { looksLikeMbox, splitMbox } from './mbox.js';
+import { parseBibtex, parseRis, referenceRows } from './references.js';
 
 export { DEFAULT_INCLUDE, DEFAULT_INGEST_OPTIONS, DEFAULT_MAX_BYTES, DEFAULT_MAX_STREAM_BYTES, INGEST_FORMATS, resolveIngestOptions } from './options.js';
 export type { IngestFormat, IngestOptions } from './options.js';
@@ -64,6 +70,10 @@ export { readDocx } from './docx.js';
 export { htmlToText, type HtmlText } from './html.js';
 export { readMarkdown, readPlainText, capTitle, firstLine, TITLE_MAX } from './text.js';
 export { TEXT_COLUMN_GUESSES } from './table.js';
+export { readXlsx, SHEET_EXTENSIONS, OLD_SHEET_EXTENSIONS, type SheetReadOptions } from './xlsx.js';
+export { splitMbox, looksLikeMbox, type MboxMessage } from './mbox.js';
+export { parseBibtex, parseRis, cslReferences, looksLikeCslJson, REFERENCE_COLUMNS, REFERENCE_TEXT, type Reference } from './references.js';
+export { readRowTable, type RowTableOptions } from './rows.js';
 
 /** What one input was, for `run.json`: its size and SHA-256. */
 export interface InputDigest {
@@ -221,6 +231,8 @@ interface InputRead {
   readonly rowsSeen?: number;
   /** A CSV's records that swallowed rows. */
   readonly merged?: readonly MergedRecord[];
+  /** A workbook was read (so the `sheet` option applied). */
+  readonly workbook?: boolean;
 }
 
 type Listing = Awaited<ReturnType<typeof listFolder>>;
@@ -444,12 +456,66 @@ async function readStreamedExport(
   };
 }
 
+/** Files read whole by a reader of their own: workbooks, mailboxes, reference lists (BibTeX, RIS). */
+type WholeKind = 'sheet' | 'mbox' | 'bib' | 'ris';
+
+/** The whole-file reader for an extension (only when `format` is `auto`), or `null`. */
+function wholeReaderFor(format: IngestFormat, ext: string): WholeKind | null {
+  if (format !== 'auto') return null;
+  if (SHEET_EXTENSIONS.has(ext) || OLD_SHEET_EXTENSIONS.has(ext)) return 'sheet';
+  if (ext === '.mbox') return 'mbox';
+  if (ext === '.bib' || ext === '.bibtex') return 'bib';
+  if (ext === '.ris') return 'ris';
+  return null;
+}
+
+/** Reads a file whose bytes are all in `buf` with its own reader: a workbook as an export, a mailbox as e-mails. */
+async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: string, opts: IngestOptions, idBase: string = posixPath(given)): Promise<InputRead> {
+  const digest: InputDigest = { path: given, kind: 'file', bytes: buf.length, sha256: createHash('sha256').update(buf).digest('hex') };
+  if (kind === 'sheet') {
+    if (OLD_SHEET_EXTENSIONS.has(ext) && !looksLikeXlsx(buf)) throw new InputSkip(OLD_WORKBOOK);
+    const r = readXlsx(buf, given, opts);
+    return { label: given, ...r, skipped: [], digest, isExport: true, decoding: [], attachments: [], workbook: true };
+  }
+  if (kind === 'bib' || kind === 'ris') {
+    const { text, stats } = decodeBuffer(buf, { hash: false, forced: opts.encoding });
+    const parsed = kind === 'bib' ? parseBibtex(text) : parseRis(text);
+    const r = referenceRows(given, parsed.refs, parsed.problems, opts);
+    const note = noteOf(stats);
+    return {
+      label: given,
+      ...r,
+      warnings: [...(note ? replacedWarning(given, note) : []), ...r.warnings],
+      skipped: [],
+      digest,
+      isExport: true,
+      decoding: note ? [{ source: given, ...note }] : [],
+      attachments: [],
+    };
+  }
+  const messages = splitMbox(buf);
+  if (messages === null) throw new InputSkip('not a mailbox: it does not start with a From_ line (RFC 4155)');
+  const id = idBase;
+  const read: InputRead = { label: given, docs: [], skipped: [], warnings: [], digest, isExport: false, decoding: [], attachments: [] };
+  for (const m of messages) {
+    const one = await readOneFile(m.bytes, `${given}#${m.index}`, `${id}#${m.index}`, '.eml', opts);
+    if (one.doc) read.docs.push(one.doc);
+    if (one.skip) read.skipped.push(one.skip);
+    read.warnings.push(...one.warnings);
+    if (one.decoding) read.decoding.push(one.decoding);
+    if (one.attachments) read.attachments.push(one.attachments);
+  }
+  return read;
+}
+
 async function readFileInput(given: string, abs: string, pipe: boolean, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
   const ext = path.extname(abs).toLowerCase();
   const readAs = readAsFor(opts.format, ext);
+  const whole = wholeReaderFor(opts.format, ext);
   const opened = streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 }));
   const source = pipe ? capStream(opened, opts.maxStreamBytes) : opened;
   try {
+    if (whole !== null) return await readWholeFile(given, await collectBytes(source), whole, ext, opts);
     if (readAs !== null && readAs !== 'document') return await readStreamedExport(given, source, readAs, opts);
     let all: AsyncIterable<Uint8Array | string> = source;
     if (readAs === null) {
@@ -459,6 +525,8 @@ async function readFileInput(given: string, abs: string, pipe: boolean, opts: In
       all = peeked.all;
     }
     const buf = await collectBytes(all);
+    if (readAs === null && looksLikeXlsx(buf)) return await readWholeFile(given, buf, 'sheet', ext, opts);
+    if (readAs === null && looksLikeMbox(buf)) return await readWholeFile(given, buf, 'mbox', ext, opts);
     const digest: InputDigest = { path: given, kind: 'file', bytes: buf.length, sha256: createHash('sha256').update(buf).digest('hex') };
     const one = await readOneFile(buf, given, posixPath(given), ext, opts);
     return fileRead(given, one, digest);
@@ -515,7 +583,7 @@ async function mapPool<T, R>(items: readonly T[], limit: number, fn: (item: T) =
 
 async function readFolderInput(given: string, abs: string, listing: Listing, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
   const shown = (rel: string): string => path.posix.join(given.replace(/\\/g, '/'), rel);
-  type One = OneFile & { sha: string | null; bytes: number };
+  type One = OneFile & { sha: string | null; bytes: number; mailbox?: InputRead };
   const results = await mapPool(listing.files, READ_CONCURRENCY, async (rel): Promise<One> => {
     const source = shown(rel);
     let buf: Buffer | null = null;
@@ -540,7 +608,18 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
     }
     if (buf === null) return { doc: null, skip: { source, reason }, warnings: [], decoding: null, attachments: null, sha: null, bytes: 0 };
     const sha = createHash('sha256').update(buf).digest('hex');
-    const one = await readOneFile(buf, source, rel, path.extname(rel).toLowerCase(), opts);
+    const ext = path.extname(rel).toLowerCase();
+    if (ext === '.mbox') {
+      // A mailbox in a folder: one e-mail document per message, ids `rel#N`.
+      const none = { doc: null, skip: null, warnings: [], decoding: null, attachments: null, sha, bytes: buf.length };
+      try {
+        return { ...none, mailbox: await readWholeFile(source, buf, 'mbox', ext, opts, rel) };
+      } catch (err) {
+        if (err instanceof InputSkip) return { ...none, skip: { source, reason: err.reason } };
+        throw err;
+      }
+    }
+    const one = await readOneFile(buf, source, rel, ext, opts);
     return { ...one, sha, bytes: buf.length };
   });
   const docs: DraftDoc[] = [];
@@ -552,6 +631,13 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
   let bytes = 0;
   listing.files.forEach((rel, i) => {
     const r = results[i] as One;
+    if (r.mailbox) {
+      docs.push(...r.mailbox.docs);
+      skipped.push(...r.mailbox.skipped);
+      warnings.push(...r.mailbox.warnings);
+      decoding.push(...r.mailbox.decoding);
+      attachments.push(...r.mailbox.attachments);
+    }
     if (r.doc) docs.push(r.doc);
     if (r.skip) skipped.push(r.skip);
     warnings.push(...r.warnings);
@@ -744,6 +830,9 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
 
   if ((opts.text !== null || opts.id !== null || opts.title !== null) && !reads.some((r) => r.isExport)) {
     warnings.push('the text, id and title options apply only to exports (CSV, TSV, JSON Lines, JSON); none was read');
+  }
+  if (opts.sheet !== null && !reads.some((r) => r.workbook === true)) {
+    warnings.push('the sheet option applies only to workbooks (.xlsx); none was read');
   }
   for (const r of reads) warnings.push(...r.warnings);
   warnings.push(...uniqueIds(reads));

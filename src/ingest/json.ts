@@ -1,6 +1,8 @@
 /**
  * JSON Lines and JSON array exports. Nested objects are reached with dotted
- * paths (`ticket.body`); `fields` holds the top-level keys, every value that
+ * paths (`ticket.body`), every element of an array with `[]` after its name
+ * (`ticket.comments[].body`: the body of every comment, joined with blank
+ * lines; `tags[]`: every tag); `fields` holds the top-level keys, every value that
  * is not a string written as JSON (`null` and missing values as `''`).
  * Object keys are read as own properties only, so keys such as `__proto__`
  * or `constructor` are ordinary columns.
@@ -8,9 +10,11 @@
  * @module
  */
 import type { Skipped } from '../types.js';
+import { UsageError, show } from '../util/errors.js';
 import { InputSkip } from './decode.js';
 import { chooseColumns, RowCollector, type ExportColumns } from './table.js';
 import type { CsvReadOptions, ExportRead } from './csv.js';
+import { cslReferences, looksLikeCslJson, referenceRows } from './references.js';
 
 /** The column options the JSON readers use (those of CSV minus the delimiter). */
 export type JsonReadOptions = Omit<CsvReadOptions, 'delimiter'>;
@@ -75,9 +79,12 @@ export function jsonCell(v: unknown): string {
   return JSON.stringify(v) ?? '';
 }
 
-/** Every key path of the rows, in first-seen order, with the keys it stands for. */
+/** A step of a key path: an own key, or `null` for "every element of an array" (`[]` in the path). */
+type Step = string | null;
+
+/** Every key path of the rows, in first-seen order, with the steps it stands for. */
 class PathIndex {
-  readonly keys = new Map<string, readonly string[]>();
+  readonly keys = new Map<string, readonly Step[]>();
   readonly top: string[] = [];
   private readonly topSeen = new Set<string>();
   private readonly leaves = new Set<string>();
@@ -92,21 +99,41 @@ class PathIndex {
     this.walk(obj, '', [], 0);
   }
 
-  private walk(obj: JsonObject, prefix: string, keys: readonly string[], depth: number): void {
+  private path(p: string, steps: readonly Step[]): readonly Step[] {
+    let ks = this.keys.get(p);
+    if (ks === undefined) {
+      // First seen wins when two key paths read the same dotted ({"a.b": 1} and {"a": {"b": 1}}).
+      ks = steps;
+      this.keys.set(p, ks);
+    }
+    return ks;
+  }
+
+  private walk(obj: JsonObject, prefix: string, steps: readonly Step[], depth: number): void {
     for (const k of Object.keys(obj)) {
       const p = prefix === '' ? k : `${prefix}.${k}`;
-      let ks = this.keys.get(p);
-      if (ks === undefined) {
-        // First seen wins when two key paths read the same dotted ({"a.b": 1} and {"a": {"b": 1}}).
-        ks = [...keys, k];
-        this.keys.set(p, ks);
+      const ks = this.path(p, [...steps, k]);
+      this.value(obj[k], p, ks, depth);
+    }
+  }
+
+  private value(v: unknown, p: string, ks: readonly Step[], depth: number): void {
+    if (isObject(v)) {
+      if (depth + 1 < MAX_DEPTH) this.walk(v, p, ks, depth + 1);
+      return;
+    }
+    this.leaves.add(p);
+    if (Array.isArray(v) && v.length > 0 && depth + 1 < MAX_DEPTH) {
+      // `p[]`: every element; its objects' keys are reached as `p[].key`.
+      const each = `${p}[]`;
+      const eks = this.path(each, [...ks, null]);
+      let primitive = false;
+      for (const el of v) {
+        // Only objects and arrays are walked: an array of a million numbers costs a type check each.
+        if (typeof el === 'object' && el !== null) this.value(el, each, eks, depth + 1);
+        else primitive = true;
       }
-      const v = obj[k];
-      if (isObject(v)) {
-        if (depth + 1 < MAX_DEPTH) this.walk(v, p, ks, depth + 1);
-      } else {
-        this.leaves.add(p);
-      }
+      if (primitive) this.leaves.add(each);
     }
   }
 
@@ -116,22 +143,50 @@ class PathIndex {
   }
 }
 
-function lookup(obj: JsonObject, keys: readonly string[]): unknown {
+/** The value at `steps`: one value, or (a path with `[]`) the list of every value reached (missing ones left out). */
+function lookup(obj: JsonObject, steps: readonly Step[]): unknown {
+  if (steps.includes(null)) {
+    const out: unknown[] = [];
+    gather(obj, steps, 0, out);
+    return out;
+  }
   let v: unknown = obj;
-  for (const k of keys) {
+  for (const k of steps) {
     if (!isObject(v)) return undefined;
-    v = own(v, k);
+    v = own(v, k as string);
   }
   return v;
+}
+
+/** Pushes onto `out` every value reached from `v` by `steps[i…]` (recursion depth at most the path's length). */
+function gather(v: unknown, steps: readonly Step[], i: number, out: unknown[]): void {
+  if (i === steps.length) {
+    if (v !== undefined) out.push(v);
+    return;
+  }
+  const k = steps[i] as Step;
+  if (k === null) {
+    if (Array.isArray(v)) for (const el of v) gather(el, steps, i + 1, out);
+  } else if (isObject(v)) {
+    gather(own(v, k), steps, i + 1, out);
+  }
+}
+
+/** A value as text parts: every element's cell for a path with `[]`, else the one cell. */
+function cells(v: unknown, many: boolean): string[] {
+  return many ? (v as unknown[]).map(jsonCell) : [jsonCell(v)];
 }
 
 function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOptions): { docs: ExportRead['docs']; warnings: string[]; titleColumn?: string } {
   const index = new PathIndex();
   for (const r of rows) index.add(r.obj);
   const chosen = chooseColumns(name, index.columns(), options);
-  const keysOf = (p: string): readonly string[] => index.keys.get(p) as readonly string[];
+  const keysOf = (p: string): readonly Step[] => index.keys.get(p) as readonly Step[];
   const textKeys = chosen.text.map(keysOf);
   const idKeys = chosen.id === null ? null : keysOf(chosen.id);
+  if (idKeys !== null && idKeys.includes(null)) {
+    throw new UsageError(`--id takes one value per row; ${show(chosen.id)} names every element of an array`, 'id');
+  }
   const titleKeys = chosen.title === null ? null : keysOf(chosen.title);
   const idTop = idKeys !== null && idKeys.length === 1 ? (idKeys[0] as string) : null;
   const collector = new RowCollector(name, idKeys === null);
@@ -139,11 +194,13 @@ function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOpti
     const fields = new Map<string, string>();
     for (const k of index.top) if (k !== idTop) fields.set(k, jsonCell(own(obj, k)));
     const idValue = idKeys === null ? undefined : lookup(obj, idKeys);
+    // A path with [] joins every element's value (blank lines between, as for several text columns); a title takes the first non-blank one.
+    const title = titleKeys === null ? undefined : cells(lookup(obj, titleKeys), titleKeys.includes(null)).find((t) => t.trim() !== '') ?? '';
     collector.add(
       row,
       idValue === undefined || idValue === null ? undefined : jsonCell(idValue),
-      textKeys.map((ks) => jsonCell(lookup(obj, ks))),
-      titleKeys === null ? undefined : jsonCell(lookup(obj, titleKeys)),
+      textKeys.flatMap((ks) => cells(lookup(obj, ks), ks.includes(null))),
+      title,
       fields,
     );
   }
@@ -218,7 +275,8 @@ async function* once(s: string): AsyncGenerator<string, void, undefined> {
 }
 
 /**
- * Reads a JSON array of objects (rows numbered from 1; an element that is
+ * Reads a JSON array of objects (rows numbered from 1; a CSL-JSON
+ * reference list is read as references, see `references.ts`; an element that is
  * not an object is skipped as `name#row`). A file that starts with `{` and
  * is not one JSON value is read as JSON Lines, with a warning. Throws
  * {@link InputSkip} when the text is not JSON, not an array, or too large
@@ -254,6 +312,8 @@ export async function readJsonArray(chunks: AsyncIterable<string>, name: string,
   if (!Array.isArray(value)) {
     throw new InputSkip(`not a JSON array of objects: it holds ${describe(value)}`);
   }
+  // A CSL-JSON reference list (every item with type and id, some with author, issued or container-title).
+  if (looksLikeCslJson(value)) return { ...referenceRows(name, cslReferences(value), [], options), skipped: [] };
   const rows: JsonRow[] = [];
   const skipped: Skipped[] = [];
   value.forEach((v: unknown, i) => {

@@ -15,7 +15,7 @@
  * @module
  */
 import iconv from 'iconv-lite';
-import { canonicalEncoding } from './charset.js';
+import { canonicalEncoding, decodeWith } from './charset.js';
 import { decodeBuffer, InputSkip } from './decode.js';
 import { htmlToText } from './html.js';
 import { capTitle, normalizeNewlines } from './text.js';
@@ -110,8 +110,7 @@ function bytesOf(latin1: string): Buffer {
 function decodeIn(bytes: Buffer, label: string): string | null {
   const enc = canonicalEncoding(label.replace(/\*.*$/, '')); // RFC 2231 §5: charset*language
   if (enc === null) return null;
-  if (enc === 'utf-8' || enc === 'utf-16le' || enc === 'utf-16be') return new TextDecoder(enc).decode(bytes);
-  return iconv.decode(bytes, enc);
+  return decodeWith(bytes, enc);
 }
 
 /** A header value's raw 8-bit text (RFC 6532 allows UTF-8) as a string: UTF-8 when valid, else Windows-1252. */

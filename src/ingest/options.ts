@@ -66,10 +66,12 @@ export interface IngestOptions {
    * first, and one such as `yes` never ends. Files and folders are not capped.
    */
   readonly maxStreamBytes: number;
+  /** The sheet of a workbook (`.xlsx`) read, by name (exact, else case-insensitive); `null`: the first sheet. */
+  readonly sheet: string | null;
 }
 
 /** Default folder pattern: the document extensions read one file per document (matched case-insensitively). */
-export const DEFAULT_INCLUDE = '**/*.{txt,md,markdown,html,htm,pdf,docx,eml}';
+export const DEFAULT_INCLUDE = '**/*.{txt,md,markdown,html,htm,pdf,docx,eml,mbox}';
 
 /** Default {@link IngestOptions.maxBytes}: 5 MiB of text per document (a long book is about 1–2 MiB). */
 export const DEFAULT_MAX_BYTES = 5 * 1024 * 1024;
@@ -90,12 +92,21 @@ export const DEFAULT_INGEST_OPTIONS: IngestOptions = Object.freeze({
   maxBytes: DEFAULT_MAX_BYTES,
   maxFiles: null,
   maxStreamBytes: DEFAULT_MAX_STREAM_BYTES,
+  sheet: null,
 });
 
 function columnName(value: unknown, option: 'id' | 'title'): string | null {
   if (value === null) return null;
   if (typeof value !== 'string' || value.trim() === '') {
     throw new UsageError(`${option} must be a column name or null; got ${show(value)}`, option);
+  }
+  return value.trim();
+}
+
+function sheetName(value: unknown): string | null {
+  if (value === null) return null;
+  if (typeof value !== 'string' || value.trim() === '') {
+    throw new UsageError(`sheet must be a sheet name or null (the first sheet); got ${show(value)}`, 'sheet');
   }
   return value.trim();
 }
@@ -136,6 +147,7 @@ function patterns(value: unknown, option: 'include' | 'exclude'): readonly strin
  * - `maxBytes`: a whole number >= 1024.
  * - `maxFiles`: `null`, or a whole number >= 1.
  * - `maxStreamBytes`: a whole number >= 1024.
+ * - `sheet`: `null`, or a non-empty sheet name (trimmed).
  */
 export function resolveIngestOptions(partial: Partial<IngestOptions> = {}): IngestOptions {
   const d = DEFAULT_INGEST_OPTIONS;
@@ -212,5 +224,6 @@ export function resolveIngestOptions(partial: Partial<IngestOptions> = {}): Inge
     maxBytes,
     maxFiles: maxFiles as number | null,
     maxStreamBytes,
+    sheet: sheetName(pick('sheet')),
   });
 }

@@ -95,6 +95,14 @@ export function chooseColumns(
   const need = (wanted: string, option: 'text' | 'id' | 'title'): string => {
     const found = findName(wanted, cols.accepted);
     if (found === null) {
+      // `comments.0.body` for `comments[].body`: say how to reach every element of an array.
+      const each = wanted.replace(/\.\d+(?=\.|$)/g, '[]');
+      if (each !== wanted && findName(each, cols.accepted) !== null) {
+        throw new UsageError(
+          `${name} has no column ${show(wanted)} for --${option}; to take every element of an array write [] after its name: ${show(each)}`,
+          option,
+        );
+      }
       throw new UsageError(
         `${name} has no column ${show(wanted)} for --${option}; its columns are: ${listNames(cols.listed)}`,
         option,
@@ -112,7 +120,7 @@ export function chooseColumns(
       if (guess !== undefined) break;
     }
     if (guess === undefined) {
-      const nested = cols.accepted.filter((p) => p.includes('.') && !cols.top.includes(p));
+      const nested = cols.accepted.filter((p) => p.includes('.') && !p.includes('[]') && !cols.top.includes(p));
       for (const g of TEXT_COLUMN_GUESSES) {
         guess = nested.find((p) => lastSegment(p).toLowerCase() === g);
         if (guess !== undefined) break;
