@@ -17,7 +17,7 @@ import { assignCounts, assignRunJson } from '../report/run-record.js';
 import { resolveCleanStage } from '../clean/stage.js';
 import { modelFromJson, type Model } from '../model/index.js';
 import { applyModel, type ModelApplication } from '../model/apply.js';
-import { fixed } from '../report/csv.js';
+import { fixed, withCsvBom } from '../report/csv.js';
 import { jsonText } from '../report/outputs.js';
 import { visibleJson, visibleLines } from './visible.js';
 import { writeOutputFolder } from '../report/folder.js';
@@ -40,8 +40,9 @@ export function registerAssign(program: Command, io: CliIo, setExit: (code: numb
     .requiredOption('--model <file>', 'a model.json written by sheaf group')
     .option('--min-fit <f>', 'one fit threshold for every group (default: each group’s own, from its training documents)')
     .option('--out <dir>', 'output folder', 'sheaf-assigned')
+    .option('--no-bom', 'write assigned.csv without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
     .option('--json', 'print the counts as JSON on stdout')
-    .option('--quiet', 'no notes on stderr')
+    .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: AssignFlags) => {
       setExit(await runAssign(inputs, flags, io));
     });
@@ -78,13 +79,11 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   for (const line of [...notes, ...cleaningNotes(clean)]) note(line);
   const counts = assignCounts(model, a, minFit);
   const context = { command: 'assign', startedAt, finishedAt: new Date(), versions: versions(), cwd: io.cwd, out: flags.out };
-  const written = await writeOutputFolder(
-    outDir,
-    new Map([
-      ['assigned.csv', assignedCsv(model, a)],
-      ['run.json', assignRunJson(model, a, { context, modelFile: flags.model, minFit, read })],
-    ]),
-  );
+  const files = new Map([
+    ['assigned.csv', assignedCsv(model, a)],
+    ['run.json', assignRunJson(model, a, { context, modelFile: flags.model, minFit, read })],
+  ]);
+  const written = await writeOutputFolder(outDir, flags.bom === false ? files : withCsvBom(files));
   if (flags.json) {
     io.stdout.write(visibleJson(jsonText(counts)));
     return 0;

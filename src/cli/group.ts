@@ -47,6 +47,7 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
     .option('--duplicates <t>', 'near-copies at cosine >= t go in duplicate_set, duplicates.csv/json and the report', '0.9')
     .option('--no-duplicates', 'do not look for near-copies')
     .option('--no-report', 'do not write report.html')
+    .option('--no-bom', 'write the CSV files without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
     .option('--json', 'print the groups as JSON on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: GroupFlags) => {
@@ -126,7 +127,13 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     );
   }
   const td = now();
-  const near = dupOptions ? { found: nearCopiesOfVectors(result.docs, result.matrix, dupOptions), threshold: dupOptions.threshold } : null;
+  const nearBar = progressReporter(io, flags.quiet ?? false);
+  let near: { found: ReturnType<typeof nearCopiesOfVectors>; threshold: number } | null = null;
+  try {
+    near = dupOptions ? { found: nearCopiesOfVectors(result.docs, result.matrix, dupOptions, (d, t) => nearBar.update('near-copies', d, t)), threshold: dupOptions.threshold } : null;
+  } finally {
+    nearBar.done();
+  }
   const dupMs = now() - td;
 
   // Outputs.
@@ -136,6 +143,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     kind: command,
     near,
     createdBy: `sheaf ${version.sheaf}`,
+    bom: flags.bom !== false,
     report:
       command === 'group' && flags.report !== false
         ? {

@@ -26,5 +26,6 @@ export function assignedCsv(model: Model, a: ModelApplication): string {
       ];
     }
   }
-  return csvText(['id', 'group', 'label', 'fit', 'status', ...columns], rows());
+  // The formula guard on sheaf's five columns only: the input's own columns are written as they were (see csv.ts).
+  return csvText(['id', 'group', 'label', 'fit', 'status', ...columns], rows(), { guarded: 5 });
 }
