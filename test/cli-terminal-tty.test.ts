@@ -8,10 +8,11 @@
  * line wrap is on again (ESC [?7h), then the one-line message, exit code 130.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { execFileSync, spawn } from 'node:child_process';
+import { execFileSync, spawn, spawnSync } from 'node:child_process';
 import { closeSync, openSync, ftruncateSync, writeFileSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import path from 'node:path';
+import { PDFDocument, StandardFonts } from 'pdf-lib';
 import { buildForWorkers } from './helpers/build-workers.js';
 import { tempDir } from './helpers/cli.js';
 
@@ -29,8 +30,9 @@ function hasScript(): boolean {
   }
 }
 
+let built = '';
+
 describe('Ctrl-C during a progress bar on a terminal', () => {
-  let built = '';
   beforeAll(() => {
     // `script` is part of util-linux (Debian: bsdutils); the check below fails loudly when it is missing.
     built = buildForWorkers('sheaf-tty-', ['src/cli/main.ts', 'src/analyze/natural.d.ts', 'src/analyze/stopword.d.ts']);
@@ -86,4 +88,32 @@ describe('Ctrl-C during a progress bar on a terminal', () => {
     expect(after.indexOf(SHOW_CURSOR)).toBeLessThan(after.indexOf('sheaf: stopped by SIGINT'));
     expect(code).toBe(130);
   }, 120_000);
+});
+
+describe('stdout carries data only: --json with PDF inputs and optional packages omitted', () => {
+  const root = path.resolve(__dirname, '..');
+  const preload = path.join(root, 'test', 'fixtures', 'terminal', 'no-canvas.cjs');
+
+  it('the environment reproduces the problem: pdf.js alone prints its warnings on stdout', () => {
+    const r = spawnSync(process.execPath, ['--require', preload, '--input-type=module', '-e', "await import('pdfjs-dist/legacy/build/pdf.mjs')"], { cwd: root, encoding: 'utf8' });
+    expect(r.stdout).toContain('Warning: Cannot load "@napi-rs/canvas" package');
+  });
+
+  it('group --json on PDFs (written by pdf-lib) prints JSON that parses, and nothing else', async () => {
+    if (built === '') built = buildForWorkers('sheaf-tty-', ['src/cli/main.ts', 'src/analyze/natural.d.ts', 'src/analyze/stopword.d.ts']);
+    const dir = tempDir();
+    const texts = ['harbour tide boats report early', 'harbour tide boats report late', 'invoice refund charged twice', 'invoice refund charged again'];
+    for (const [i, t] of texts.entries()) {
+      const doc = await PDFDocument.create();
+      const font = await doc.embedFont(StandardFonts.Helvetica);
+      doc.addPage([600, 800]).drawText(t, { x: 50, y: 700, size: 12, font });
+      writeFileSync(path.join(dir, `${i}.pdf`), await doc.save());
+    }
+    const main = path.join(built, 'dist', 'cli', 'main.js');
+    const r = spawnSync(process.execPath, ['--require', preload, main, 'group', '.', '--groups', '2', '--json', '--out', 'o'], { cwd: dir, encoding: 'utf8', env: { PATH: process.env.PATH ?? '' } });
+    expect(r.stdout).not.toContain('Warning:');
+    const parsed = JSON.parse(r.stdout) as { groups: { size: number }[] };
+    expect(parsed.groups.map((g) => g.size).sort()).toEqual([2, 2]);
+    expect(r.status).toBe(0);
+  }, 300_000);
 });
