@@ -22,6 +22,7 @@ import { jsonText } from '../report/outputs.js';
 import { visibleJson, visibleLines } from './visible.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
+import { modelFileOf } from './model-path.js';
 import { UsageError } from '../util/errors.js';
 
 interface AssignFlags extends GroupFlags {
@@ -37,7 +38,7 @@ export function registerAssign(program: Command, io: CliIo, setExit: (code: numb
     .argument('<inputs...>', 'folders, files, or - for stdin');
   addInputFlags(cmd);
   cmd
-    .requiredOption('--model <file>', 'a model.json written by sheaf group')
+    .requiredOption('--model <file>', 'a model.json written by sheaf group, or the output folder holding it')
     .option('--min-fit <f>', 'one fit threshold for every group (default: each group’s own, from its training documents)')
     .option('--out <dir>', 'output folder', 'sheaf-assigned')
     .option('--no-bom', 'write assigned.csv without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
@@ -65,6 +66,7 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const minFit = decimal(flags.minFit, 'minFit');
   if (minFit !== undefined && !(minFit >= -1 && minFit <= 1)) throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
   const ingestOptions = ingestOptionsFromFlags(flags);
+  flags.model = await modelFileOf(flags.model, io.cwd); // a run folder: its model.json
   const model = await loadModel(flags.model, io.cwd);
   const outDir = path.resolve(io.cwd, flags.out);
   await checkOutputFolders({ inputs, alsoReads: [flags.model, flags.stopwords], out: flags.out, quiet: flags.quiet }, io);

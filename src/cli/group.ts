@@ -14,7 +14,8 @@ import { progressReporter } from './progress.js';
 import { versions } from './versions.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
 import { addAnalysisFlags, addInputFlags, cleaningNotes, readInputs, type GroupFlags } from './inputs.js';
-import { addGroupingFlags, assertTruthColumn, groupDuplicateOptions, groupOptionsFromFlags } from './group-flags.js';
+import { addGroupingFlags, groupDuplicateOptions, groupOptionsFromFlags } from './group-flags.js';
+import { resolveTruth } from './truth.js';
 import { groupSummaryLines } from './group-summary.js';
 import { groupDocumentsAsync, type GroupResult, type StageTiming } from '../pipeline.js';
 import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
@@ -95,7 +96,8 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const { read, docs, notes } = await readInputs(inputs, ingestOptions, flags, io, note, null);
   const readMs = now() - t0;
   checkMemory(docs.reduce((a, d) => a + d.text.length, 0), limit, `the text read (${docs.length} documents)`);
-  if (flags.truth) assertTruthColumn(docs, flags.truth);
+  // A column (case-insensitive, as --text/--id) or, for files read from folders, `folder`.
+  const truthSource = flags.truth ? resolveTruth(docs, flags.truth, read.inputs.filter((i) => i.kind === 'folder').map((i) => i.path)) : null;
 
   // Core.
   const progress = progressReporter(io, flags.quiet ?? false);
@@ -105,12 +107,11 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   } finally {
     progress.done();
   }
-  const truth = flags.truth;
   const unsortedSet = new Set(result.unsorted.rows);
-  const evaluation = truth
+  const evaluation = truthSource
     ? evaluateLabels(
-        truth,
-        result.docs.map((d) => d.fields.get(truth) ?? ''),
+        truthSource.field,
+        result.docs.map((d) => truthSource.labelOf(d)),
         // Unsorted documents are scored as a class of their own, not left out.
         Array.from(result.partition.assignments, (g, r) => (g >= 0 ? String(g) : unsortedSet.has(r) ? 'unsorted' : '')),
       )
