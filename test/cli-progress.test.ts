@@ -119,6 +119,38 @@ describe('progress bars', () => {
   });
 });
 
+describe('every command shows its long stages (a clock that moves two seconds at every look)', () => {
+  /** Runs the CLI with a terminal stderr; returns the stage names drawn, stdout and the code. */
+  async function drawn(argv: string[], cwd: string): Promise<{ stages: string[]; stdout: string; code: number; restored: boolean }> {
+    const t = fakeTerminal();
+    let stdout = '';
+    const io = { ...t.io, cwd, now: () => t.tick(2000), stdout: { write: (s: string) => ((stdout += s), true), isTTY: false } };
+    const code = await runCli(argv, io);
+    const stages = [...new Set([...t.text().matchAll(/\x1b\[1G([a-z-]+) /g)].map((m) => m[1] as string))];
+    return { stages, stdout, code, restored: restoredAfterLastHide(t.text()) };
+  }
+
+  it('group: read, analyze, k-means, near-copies; assign: read, assign; duplicates: read, analyze, near-copies; stdout data only', async () => {
+    const dir = tempDir();
+    const rows = ['printer jams paper tray', 'printer paper tray jams', 'invoice charged twice refund', 'invoice refund charged twice'];
+    writeFileSync(path.join(dir, 't.csv'), ['id,body', ...rows.map((r, i) => `${i},${r}`)].join('\n') + '\n');
+    const g = await drawn(['group', 't.csv', '--text', 'body', '--groups', '2', '--out', 'o', '--no-report', '--json'], dir);
+    expect(g.code).toBe(0);
+    expect(g.stages).toEqual(['read', 'analyze', 'k-means', 'near-copies']);
+    expect(g.restored).toBe(true);
+    expect(JSON.parse(g.stdout).groups).toHaveLength(2);
+    const a = await drawn(['assign', 't.csv', '--model', 'o', '--text', 'body', '--out', 'a', '--json'], dir);
+    expect(a.code).toBe(0);
+    expect(a.stages).toEqual(['read', 'assign']);
+    expect(JSON.parse(a.stdout).documents).toBe(4);
+    const d = await drawn(['duplicates', 't.csv', '--text', 'body', '--out', 'd', '--json'], dir);
+    expect(d.code).toBe(0);
+    expect(d.stages).toEqual(['read', 'analyze', 'near-copies']);
+    expect(d.restored).toBe(true);
+    expect(JSON.parse(d.stdout).threshold).toBe(0.9);
+  });
+});
+
 describe('progress as data from the library', () => {
   it('k-means reports every pass: restarts × maxIterations steps, ending at the total', () => {
     const m = fromDense([

@@ -23,6 +23,7 @@ import { visibleJson, visibleLines } from './visible.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import { modelFileOf } from './model-path.js';
+import { progressReporter } from './progress.js';
 import { UsageError } from '../util/errors.js';
 
 interface AssignFlags extends GroupFlags {
@@ -76,7 +77,13 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const { read, notes } = await readInputs(inputs, ingestOptions, flags, io, note, null);
   // The model's cleaning unless --clean says otherwise.
   const mode = cleanModeFromFlags(flags);
-  const a = applyModel(model, read, minFit, mode === null ? model.cleaning : resolveCleanStage({ ...model.cleaning.rules, mode }));
+  const bar = progressReporter(io, flags.quiet ?? false);
+  let a: ModelApplication;
+  try {
+    a = applyModel(model, read, minFit, mode === null ? model.cleaning : resolveCleanStage({ ...model.cleaning.rules, mode }), (d, t) => bar.update('assign', d, t));
+  } finally {
+    bar.done();
+  }
   const clean = a.clean;
   for (const line of [...notes, ...cleaningNotes(clean)]) note(line);
   const counts = assignCounts(model, a, minFit);
