@@ -16,7 +16,7 @@ import { UsageError } from '../util/errors.js';
 import type { CleanReport } from '../clean/index.js';
 import { CLEAN_CHOICES, cleanStage, resolveCleanStage, type CleanChoice, type CleanSettings } from '../clean/stage.js';
 import type { Doc } from '../types.js';
-import { progressReporter } from './progress.js';
+import { progressReporter, progressShown } from './progress.js';
 
 /** Raw flag values as commander hands them over. */
 export interface GroupFlags {
@@ -118,7 +118,9 @@ export async function readInputs(
   const bar = progressReporter(io, flags.quiet ?? false);
   let read: IngestResult;
   try {
-    read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin, progress: (done, total) => bar.update('read', done, total) });
+    // Only when a bar can be drawn: the files are sized first for the total.
+    const progress = progressShown(io, flags.quiet ?? false) ? (done: number, total: number) => bar.update('read', done, total) : undefined;
+    read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin, ...(progress ? { progress } : {}) });
   } finally {
     bar.done();
   }

@@ -52,10 +52,15 @@ export function restoreTerminal(): void {
   }
 }
 
+/** True when bars are drawn: stderr is a terminal, no `--quiet`, and not under CI. */
+export function progressShown(io: CliIo, quiet: boolean): boolean {
+  return !quiet && io.stderr.isTTY === true && !io.env.CI;
+}
+
 /** A reporter that draws one bar per stage, or does nothing when bars are off. */
 export function progressReporter(io: CliIo, quiet: boolean): ProgressReporter {
   const stream = io.stderr as unknown as NodeJS.WriteStream;
-  if (quiet || !io.stderr.isTTY || io.env.CI) return { update() {}, done() {} };
+  if (!progressShown(io, quiet)) return { update() {}, done() {} };
   const now = io.now ?? (() => performance.now());
   let drawn: LiveBar | null = null;
   let current = '';
