@@ -119,6 +119,14 @@ export function resolveFindDuplicatesOptions(options: FindDuplicatesOptions = {}
   };
 }
 
+/** A reporter that passes `done` on about every 1% of `total` (and at the end). */
+function everyPercent(total: number, report: (done: number) => void): (done: number) => void {
+  const step = Math.max(1, Math.floor(total / 100));
+  return (done) => {
+    if (done % step === 0 || done >= total) report(done);
+  };
+}
+
 /** Text key for the exact-copy fast path: NFKC, case folded, whitespace collapsed. */
 export function copyKey(text: string): string {
   return normalizeText(text).replace(/\s+/g, ' ').trim();
@@ -143,11 +151,16 @@ export function findDuplicates(input: readonly Doc[], options: FindDuplicatesOpt
   let t0 = now();
   let matrix: Csr;
   let columns: readonly string[] | null = null;
+  const stage = o.by === 'tfidf' ? 'analyze' : 'shingles';
+  const rowsDone = hooks.progress ? everyPercent(n, (done) => hooks.progress?.(stage, done, n)) : null;
   if (o.by === 'tfidf') {
     const analyzer = createAnalyzer(o.analyzer);
     const fit = fitTfidf(
       (function* () {
-        for (const d of docs) yield analyzer.analyze(d.text);
+        for (let i = 0; i < n; i++) {
+          rowsDone?.(i);
+          yield analyzer.analyze(docs[i].text);
+        }
       })(),
       o.vectorize,
     );
@@ -156,7 +169,10 @@ export function findDuplicates(input: readonly Doc[], options: FindDuplicatesOpt
   } else {
     matrix = shingleMatrix(
       (function* () {
-        for (const d of docs) yield shingleWords(d.text);
+        for (let i = 0; i < n; i++) {
+          rowsDone?.(i);
+          yield shingleWords(docs[i].text);
+        }
       })(),
       o.shingle,
     );
@@ -164,7 +180,8 @@ export function findDuplicates(input: readonly Doc[], options: FindDuplicatesOpt
   timings.push({ stage: o.by === 'tfidf' ? 'analyze+vectorize' : 'shingles', ms: now() - t0, items: n });
 
   t0 = now();
-  const found = nearCopiesOfVectors(docs, matrix, o);
+  rowsDone?.(n);
+  const found = nearCopiesOfVectors(docs, matrix, o, hooks.progress ? (done, total) => hooks.progress?.('near-copies', done, total) : undefined);
   timings.push({ stage: 'join+sets', ms: now() - t0, items: n });
   return { docs, inputOrder, options: o, matrix, columns, ...found, timings };
 }
@@ -179,9 +196,20 @@ export function nearCopiesOfVectors(
   docs: readonly Doc[],
   matrix: Csr,
   o: ResolvedFindDuplicates,
+  progress?: (rowsDone: number, rows: number) => void,
 ): Pick<DuplicateRun, 'pairs' | 'sets' | 'setOf' | 'exactCopies' | 'diffs'> {
-  const copyGroup = exactCopies(docs.map((d) => copyKey(d.text)));
+  // Progress by rows: the copy keys row by row, then the join's rows once it is done (it reports no steps of its own).
+  const n = docs.length;
+  const rowsDone = progress ? everyPercent(2 * n, (done) => progress(done, 2 * n)) : null;
+  const copyGroup = exactCopies(
+    docs.map((d, i) => {
+      rowsDone?.(i);
+      return copyKey(d.text);
+    }),
+  );
+  rowsDone?.(n);
   const { pairs, copies } = joinWithCopies(matrix, copyGroup, o);
+  rowsDone?.(2 * n);
   const setMatrix = o.by === 'tfidf' ? matrix : l2Rows(matrix);
   const found = duplicateSets(setMatrix, pairs, { threshold: o.threshold, chainWarningMargin: o.duplicates.chainWarningMargin });
   let sets = found.sets;

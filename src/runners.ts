@@ -9,13 +9,15 @@
 import type { Csr } from './types.js';
 import { createAnalyzer, type AnalyzerOptions, type AnalyzerSettings } from './analyze/index.js';
 import { fitTfidf, type TfidfFit, type VectorizeOptions } from './vectorize/index.js';
-import { sphericalKMeans } from './cluster/kmeans.js';
+import { sphericalKMeans, type KMeansProgress } from './cluster/kmeans.js';
 import type { KMeansOptions, KMeansResult } from './cluster/kmeans-types.js';
 
 /** A k-means run the pipeline needs; the driver decides on how many threads it runs. */
 export interface KMeansRequest {
   readonly matrix: Csr;
   readonly options: Partial<KMeansOptions> & { readonly groups: number };
+  /** Called after every pass of the run (see `KMeansProgress`); data for the driver to show. */
+  readonly onProgress?: KMeansProgress | undefined;
 }
 
 /** Runs a k-means request, on the calling thread or on several (same result either way). */
@@ -44,7 +46,7 @@ export interface PipelineRunners {
 
 /** A k-means request run on the calling thread. */
 export function kmeansHere(req: KMeansRequest): KMeansResult {
-  return sphericalKMeans(req.matrix, req.options);
+  return sphericalKMeans(req.matrix, req.options, req.onProgress);
 }
 
 /** Analysis streamed into the TF-IDF fit on the calling thread (no list of term lists is ever held). */

@@ -47,7 +47,7 @@ describe('sheaf duplicates on the demo tickets', () => {
     const run = await sheaf(['duplicates', demoCsv, '--text', 'subject,body', '--id', 'ticket_id', '--title', 'subject', '--threshold', '0.7', '--out', path.join(dir, 'o'), '--show', '2']);
     expect(run.code).toBe(0);
     expect(run.stdout.split('\n')[0]).toMatch(/^\d+ near-duplicate set\(s\) holding \d+ of 457 documents, at cosine ≥ 0\.7 \(\d+ exact cop(y|ies)\)\.$/);
-    const rows = parse(readFileSync(path.join(dir, 'o', 'duplicates.csv')), { columns: true }) as Record<string, string>[];
+    const rows = parse(readFileSync(path.join(dir, 'o', 'duplicates.csv')), { columns: true, bom: true }) as Record<string, string>[];
     expect(Object.keys(rows[0])).toEqual(['set', 'id', 'similarity', 'representative']);
     const setOf = new Map(rows.map((r) => [r.id, r.set]));
     // corpus-demo/truth.json lists what the generator planted.
@@ -103,8 +103,8 @@ describe('sheaf group --duplicates', () => {
     const out = path.join(tempDir(), 'g');
     const run = await sheaf(['group', demoCsv, '--text', 'subject,body', '--id', 'ticket_id', '--groups', '8', '--duplicates', '0.9', '--out', out, '--quiet']);
     expect(run.code).toBe(0);
-    const docs = parse(readFileSync(path.join(out, 'documents.csv')), { columns: true }) as Record<string, string>[];
-    const dups = parse(readFileSync(path.join(out, 'duplicates.csv')), { columns: true }) as Record<string, string>[];
+    const docs = parse(readFileSync(path.join(out, 'documents.csv')), { columns: true, bom: true }) as Record<string, string>[];
+    const dups = parse(readFileSync(path.join(out, 'duplicates.csv')), { columns: true, bom: true }) as Record<string, string>[];
     expect(dups.length).toBeGreaterThanOrEqual(6);
     for (const d of dups) expect(docs.find((x) => x.id === d.id)?.duplicate_set).toBe(d.set);
     expect(docs.filter((d) => d.duplicate_set !== '').length).toBe(dups.length);

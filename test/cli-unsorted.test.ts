@@ -13,7 +13,7 @@ describe('sheaf group --unsorted', () => {
     const out = path.join(tempDir(), 'unsorted');
     const run = await sheaf([...base, '--unsorted', '--truth', 'category', '--out', out]);
     expect(run.code).toBe(0);
-    const rows = parse(readFileSync(path.join(out, 'documents.csv')), { columns: true }) as Record<string, string>[];
+    const rows = parse(readFileSync(path.join(out, 'documents.csv')), { columns: true, bom: true }) as Record<string, string>[];
     const unsorted = rows.filter((r) => r.label === '(unsorted)');
     expect(unsorted.length).toBeGreaterThan(0);
     const groups = JSON.parse(readFileSync(path.join(out, 'groups.json'), 'utf8'));

@@ -34,7 +34,7 @@ async function grouped(extra: Record<string, string> = {}): Promise<{ dir: strin
   const g = await sheaf(['group', 'in', '--groups', '2', '--out', 'run', '--quiet', '--no-report', '--no-duplicates'], { cwd: dir });
   expect(g.stderr).toBe('');
   expect(g.code).toBe(0);
-  const rows = parse(readFileSync(path.join(dir, 'run', 'documents.csv')), { columns: true }) as Record<string, string>[];
+  const rows = parse(readFileSync(path.join(dir, 'run', 'documents.csv')), { columns: true, bom: true }) as Record<string, string>[];
   const byId = new Map(rows.map((r) => [r.id, r]));
   const folderOf = (id: string): string => {
     const r = byId.get(id) as Record<string, string>;

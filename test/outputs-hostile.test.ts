@@ -75,7 +75,7 @@ describe('terminal output of documents holding escape sequences', () => {
     expect(run.stdout).not.toMatch(RAW_BUT_NEWLINE);
     expect(run.stdout).toMatch(/\\x1b\[2J title|\\x1b]0;owned\\x07 title|\\u202eevil title|\\x9b31m title/);
     // The files keep the text as it was.
-    const docs = parse(readFileSync(path.join(dir, 'o', 'documents.csv')), { columns: true }) as Record<string, string>[];
+    const docs = parse(readFileSync(path.join(dir, 'o', 'documents.csv')), { columns: true, bom: true }) as Record<string, string>[];
     expect(docs[0].id).toBe(`t0${ESC}[2J`);
   });
 
@@ -124,7 +124,7 @@ describe('evaluate resolves --truth as group does', () => {
     const g = await sheaf(['group', 'tickets.csv', '--text', 'subject,body', '--id', 'ticket_id', '--groups', '8', '--truth', 'label', '--out', 'o', '--no-report', '--no-duplicates', '--quiet'], { cwd: dir });
     expect(g.code).toBe(0);
     const groupNmi = JSON.parse(readFileSync(path.join(dir, 'o', 'run.json'), 'utf8')).evaluation.nmi as number;
-    const header = readFileSync(path.join(dir, 'o', 'documents.csv'), 'utf8').split('\n')[0].split(',');
+    const header = readFileSync(path.join(dir, 'o', 'documents.csv'), 'utf8').replace(/^\uFEFF/, '').split('\n')[0].split(',');
     expect(header.slice(0, 5)).toEqual(['id', 'group', 'label', 'fit', 'duplicate_set']);
     expect(header).toContain('input_label');
     const e = await sheaf(['evaluate', path.join('o', 'documents.csv'), '--truth', 'label', '--json'], { cwd: dir });
@@ -223,7 +223,7 @@ describe('near-copy outputs of a run with millions of pairs', () => {
         if (head === '') head = buf.subarray(0, 80).toString('utf8');
         for (let i = 0; i < buf.length; i++) if (buf[i] === 10) newlines++;
       }
-      expect(head.split('\r\n')[0]).toBe('set,a,b,similarity');
+      expect(head.split('\r\n')[0]).toBe('\uFEFFset,a,b,similarity'); // the UTF-8 byte order mark first
       expect(newlines - 1).toBe(counts.pairs);
       const dup = JSON.parse(readFileSync(path.join(dir, 'o', 'duplicates.json'), 'utf8'));
       expect(dup.pairs).toBe(counts.pairs);

@@ -17,11 +17,13 @@ import { assignCounts, assignRunJson } from '../report/run-record.js';
 import { resolveCleanStage } from '../clean/stage.js';
 import { modelFromJson, type Model } from '../model/index.js';
 import { applyModel, type ModelApplication } from '../model/apply.js';
-import { fixed } from '../report/csv.js';
+import { fixed, withCsvBom } from '../report/csv.js';
 import { jsonText } from '../report/outputs.js';
 import { visibleJson, visibleLines } from './visible.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
+import { modelFileOf } from './model-path.js';
+import { progressReporter } from './progress.js';
 import { UsageError } from '../util/errors.js';
 import { runAssignStream, DEFAULT_STREAM_BATCH, type AssignStreamFlags } from './assign-stream.js';
 
@@ -38,11 +40,12 @@ export function registerAssign(program: Command, io: CliIo, setExit: (code: numb
     .argument('<inputs...>', 'folders, files, or - for stdin');
   addInputFlags(cmd);
   cmd
-    .requiredOption('--model <file>', 'a model.json written by sheaf group')
+    .requiredOption('--model <file>', 'a model.json written by sheaf group, or the output folder holding it')
     .option('--min-fit <f>', 'one fit threshold for every group (default: each group’s own, from its training documents)')
     .option('--out <dir>', 'output folder', 'sheaf-assigned')
+    .option('--no-bom', 'write assigned.csv without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
     .option('--json', 'print the counts as JSON on stdout')
-    .option('--quiet', 'no notes on stderr')
+    .option('--quiet', 'no progress bars or notes on stderr')
     .option('--stream <format>', "write one row per input row to stdout as it goes (jsonl or csv), in constant memory, instead of a folder; reads CSV, TSV or JSON Lines files or - (stdin); cleaning is the model's recorded decision (tickets or none) without the boilerplate rule, which judges a whole pile")
     .option('--batch <n>', `with --stream: rows filed at a time (default ${DEFAULT_STREAM_BATCH}; the output is the same whatever the size)`)
     .action(async (inputs: string[], flags: AssignFlags & Partial<AssignStreamFlags>, command: Command) => {
@@ -52,7 +55,8 @@ export function registerAssign(program: Command, io: CliIo, setExit: (code: numb
 }
 
 /** Reads and checks a model file (one clear line when it is missing, foreign or damaged). */
-export async function loadModel(file: string, cwd: string): Promise<Model> {
+export async function loadModel(given: string, cwd: string): Promise<Model> {
+  const file = await modelFileOf(given, cwd); // a run folder: its model.json
   let text: string;
   try {
     text = await readFile(path.resolve(cwd, file), 'utf8');
@@ -68,6 +72,7 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const minFit = decimal(flags.minFit, 'minFit');
   if (minFit !== undefined && !(minFit >= -1 && minFit <= 1)) throw new UsageError(`minFit must be a number from -1 to 1; got ${minFit}`, 'minFit');
   const ingestOptions = ingestOptionsFromFlags(flags);
+  flags.model = await modelFileOf(flags.model, io.cwd); // a run folder: its model.json
   const model = await loadModel(flags.model, io.cwd);
   const outDir = path.resolve(io.cwd, flags.out);
   await checkOutputFolders({ inputs, alsoReads: [flags.model, flags.stopwords], out: flags.out, quiet: flags.quiet }, io);
@@ -77,18 +82,22 @@ async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promi
   const { read, notes } = await readInputs(inputs, ingestOptions, flags, io, note, null);
   // The model's cleaning unless --clean says otherwise.
   const mode = cleanModeFromFlags(flags);
-  const a = applyModel(model, read, minFit, mode === null ? model.cleaning : resolveCleanStage({ ...model.cleaning.rules, mode }));
+  const bar = progressReporter(io, flags.quiet ?? false);
+  let a: ModelApplication;
+  try {
+    a = applyModel(model, read, minFit, mode === null ? model.cleaning : resolveCleanStage({ ...model.cleaning.rules, mode }), (d, t) => bar.update('assign', d, t));
+  } finally {
+    bar.done();
+  }
   const clean = a.clean;
   for (const line of [...notes, ...cleaningNotes(clean)]) note(line);
   const counts = assignCounts(model, a, minFit);
   const context = { command: 'assign', startedAt, finishedAt: new Date(), versions: versions(), cwd: io.cwd, out: flags.out };
-  const written = await writeOutputFolder(
-    outDir,
-    new Map([
-      ['assigned.csv', assignedCsv(model, a)],
-      ['run.json', assignRunJson(model, a, { context, modelFile: flags.model, minFit, read })],
-    ]),
-  );
+  const files = new Map([
+    ['assigned.csv', assignedCsv(model, a)],
+    ['run.json', assignRunJson(model, a, { context, modelFile: flags.model, minFit, read })],
+  ]);
+  const written = await writeOutputFolder(outDir, flags.bom === false ? files : withCsvBom(files));
   if (flags.json) {
     io.stdout.write(visibleJson(jsonText(counts)));
     return 0;

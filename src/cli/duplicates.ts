@@ -9,6 +9,7 @@ import type { Command } from 'commander';
 import type { CliIo } from './io.js';
 import { decimal, wholeNumber } from './parse.js';
 import { versions } from './versions.js';
+import { progressReporter } from './progress.js';
 import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, readInputs, type GroupFlags } from './inputs.js';
 import { duplicatesRunJson } from '../report/run-record.js';
 import { vectorFiles } from '../report/group-outputs.js';
@@ -17,7 +18,7 @@ import { visible, visibleJson, visibleLines } from './visible.js';
 import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
 import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from '../report/duplicates.js';
 import { jsonText } from '../report/outputs.js';
-import { fixed } from '../report/csv.js';
+import { fixed, withCsvBom } from '../report/csv.js';
 import { writeOutputFolder, type FileContent } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import type { DiffPiece } from '../duplicates/index.js';
@@ -44,8 +45,9 @@ export function registerDuplicates(program: Command, io: CliIo, setExit: (code: 
     .option('--show <n>', 'print what differs inside the n strongest sets', '0')
     .option('--out <dir>', 'output folder', 'sheaf-duplicates')
     .option('--save-vectors <dir>', 'also write the vectors compared (MatrixMarket), their columns (terms.txt, with --by tfidf) and ids')
+    .option('--no-bom', 'write the CSV files without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
     .option('--json', 'print duplicates.json on stdout')
-    .option('--quiet', 'no notes on stderr')
+    .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: DuplicatesFlags) => {
       setExit(await runDuplicates(inputs, flags, io));
     });
@@ -79,7 +81,13 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   const t0 = now();
   const { read, docs, clean, notes } = await readInputs(inputs, ingestOptions, flags, io, note);
   const readMs = now() - t0;
-  const run = findDuplicates(docs, options, { now });
+  const bar = progressReporter(io, flags.quiet ?? false);
+  let run: DuplicateRun;
+  try {
+    run = findDuplicates(docs, options, { now, progress: (stage, d, t) => bar.update(stage, d, t) });
+  } finally {
+    bar.done();
+  }
   for (const line of notes) note(line);
   const o = run.options;
   const src = { docs: run.docs, by: o.by, threshold: o.threshold, sets: run.sets, pairs: run.pairs, setOf: run.setOf };
@@ -99,7 +107,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
       }),
     ],
   ]);
-  const written = (await writeOutputFolder(outDir, files)).map((p) => path.join(flags.out, path.basename(p)));
+  const written = (await writeOutputFolder(outDir, flags.bom === false ? files : withCsvBom(files))).map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
     const v = await writeOutputFolder(path.resolve(io.cwd, flags.saveVectors), vectorFiles(run.matrix, run.columns, run.docs));
     written.push(...v.map((p) => path.join(flags.saveVectors as string, path.basename(p))));

@@ -14,6 +14,7 @@ import { DOCUMENT_COLUMNS, evaluateLabels, evaluationJson, jsonText } from '../r
 import { visible, visibleJson } from './visible.js';
 import { UsageError } from '../util/errors.js';
 import { checkInputKind } from '../ingest/index.js';
+import { matchColumn } from './truth.js';
 
 interface EvaluateFlags {
   truth: string;
@@ -58,7 +59,7 @@ async function runEvaluate(file: string, flags: EvaluateFlags, io: CliIo): Promi
     if (i < 0) throw new UsageError(visible(`${file} has no column ${JSON.stringify(name)} for --${option}; its columns are: ${header.join(', ')}`), option);
     return i;
   };
-  const t = column(truthColumn(header, flags.truth, file), 'truth');
+  const t = column(truthColumn(header, truthName(header, flags.truth), file), 'truth');
   const g = column(flags.group, 'group');
   const body = rows.slice(1);
   if (body.length === 0) throw new UsageError(`${file} has a header but no rows`);
@@ -71,6 +72,19 @@ async function runEvaluate(file: string, flags: EvaluateFlags, io: CliIo): Promi
   if (flags.json) io.stdout.write(visibleJson(jsonText(evaluationJson(e))));
   else io.stdout.write(evaluationLines(e, Math.max(60, io.stdout.columns ?? 110)).join('\n') + '\n');
   return 0;
+}
+
+/**
+ * `--truth` as the user spelt it, matched to the header as `--text`/`--id`
+ * are: exact first, then the one column equal to it when case is ignored
+ * (two or more: refused). In a documents.csv sheaf wrote, its own columns are
+ * not candidates (their names resolve in {@link truthColumn}).
+ */
+export function truthName(header: readonly string[], name: string): string {
+  const written = DOCUMENT_COLUMNS.every((c, i) => header[i] === c);
+  const own = new Set<string>(written ? DOCUMENT_COLUMNS : []);
+  if (own.has(name)) return name;
+  return matchColumn(header.filter((c) => !own.has(c)), name, 'truth') ?? name;
 }
 
 /**

@@ -14,7 +14,8 @@ import { progressReporter } from './progress.js';
 import { versions } from './versions.js';
 import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
 import { addAnalysisFlags, addInputFlags, cleaningNotes, readInputs, type GroupFlags } from './inputs.js';
-import { addGroupingFlags, assertTruthColumn, groupDuplicateOptions, groupOptionsFromFlags } from './group-flags.js';
+import { addGroupingFlags, groupDuplicateOptions, groupOptionsFromFlags } from './group-flags.js';
+import { resolveTruth } from './truth.js';
 import { groupSummaryLines } from './group-summary.js';
 import { groupDocumentsAsync, type GroupResult, type StageTiming } from '../pipeline.js';
 import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
@@ -54,6 +55,7 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
     .option('--guide <file>', 'a JSON guide: named groups with seed terms or example ids that k-means starts from (see docs/edits.md)')
     .option('--edits <file>', 'a JSON edits file (rename, merge, split, pin) applied to this run’s groups (see docs/edits.md)')
     .option('--match-similarity <s>', 'least centre cosine for a group to continue a previous one (default 0.5)')
+    .option('--no-bom', 'write the CSV files without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
     .option('--json', 'print the groups as JSON on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: GroupFlags) => {
@@ -104,7 +106,8 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const { read, docs, notes } = await readInputs(inputs, ingestOptions, flags, io, note, null);
   const readMs = now() - t0;
   checkMemory(docs.reduce((a, d) => a + d.text.length, 0), limit, `the text read (${docs.length} documents)`);
-  if (flags.truth) assertTruthColumn(docs, flags.truth);
+  // A column (case-insensitive, as --text/--id) or, for files read from folders, `folder`.
+  const truthSource = flags.truth ? resolveTruth(docs, flags.truth, read.inputs.filter((i) => i.kind === 'folder').map((i) => i.path)) : null;
 
   // Core.
   const progress = progressReporter(io, flags.quiet ?? false);
@@ -114,12 +117,11 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   } finally {
     progress.done();
   }
-  const truth = flags.truth;
   const unsortedSet = new Set(result.unsorted.rows);
-  const evaluation = truth
+  const evaluation = truthSource
     ? evaluateLabels(
-        truth,
-        result.docs.map((d) => d.fields.get(truth) ?? ''),
+        truthSource.field,
+        result.docs.map((d) => truthSource.labelOf(d)),
         // Unsorted documents are scored as a class of their own, not left out.
         Array.from(result.partition.assignments, (g, r) => (g >= 0 ? String(g) : unsortedSet.has(r) ? 'unsorted' : '')),
       )
@@ -136,7 +138,13 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     );
   }
   const td = now();
-  const near = dupOptions ? { found: nearCopiesOfVectors(result.docs, result.matrix, dupOptions), threshold: dupOptions.threshold } : null;
+  const nearBar = progressReporter(io, flags.quiet ?? false);
+  let near: { found: ReturnType<typeof nearCopiesOfVectors>; threshold: number } | null = null;
+  try {
+    near = dupOptions ? { found: nearCopiesOfVectors(result.docs, result.matrix, dupOptions, (d, t) => nearBar.update('near-copies', d, t)), threshold: dupOptions.threshold } : null;
+  } finally {
+    nearBar.done();
+  }
   const dupMs = now() - td;
 
   // Outputs.
@@ -146,6 +154,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     kind: command,
     near,
     createdBy: `sheaf ${version.sheaf}`,
+    bom: flags.bom !== false,
     report:
       command === 'group' && flags.report !== false
         ? {

@@ -16,6 +16,7 @@ import { UsageError } from '../util/errors.js';
 import type { CleanReport } from '../clean/index.js';
 import { CLEAN_CHOICES, cleanStage, resolveCleanStage, type CleanChoice, type CleanSettings } from '../clean/stage.js';
 import type { Doc } from '../types.js';
+import { progressReporter, progressShown } from './progress.js';
 
 /** Raw flag values as commander hands them over. */
 export interface GroupFlags {
@@ -63,6 +64,8 @@ export interface GroupFlags {
   termCounts?: string;
   json?: boolean;
   quiet?: boolean;
+  /** False with --no-bom: CSV files without the UTF-8 byte order mark. */
+  bom?: boolean;
 }
 
 /** The formats sheaf reads, shown after the options in the help of every command that reads documents. */
@@ -124,7 +127,16 @@ export async function readInputs(
   note: (line: string) => void,
   clean: CleanSettings | null = resolveCleanStage({ mode: cleanModeFromFlags(flags) ?? 'auto' }),
 ): Promise<ReadInputs> {
-  const read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin });
+  // Reading progress by bytes (a bar on stderr once reading takes over a second).
+  const bar = progressReporter(io, flags.quiet ?? false);
+  let read: IngestResult;
+  try {
+    // Only when a bar can be drawn: the files are sized first for the total.
+    const progress = progressShown(io, flags.quiet ?? false) ? (done: number, total: number) => bar.update('read', done, total) : undefined;
+    read = await ingest(inputs, ingestOptions, { cwd: io.cwd, stdin: io.stdin, ...(progress ? { progress } : {}) });
+  } finally {
+    bar.done();
+  }
   reportSkips(read.skipped, read.warnings, note);
   const notes: string[] = [];
   if (read.decoding.length > 0) {

@@ -15,6 +15,7 @@ import { registerOrganize } from './organize.js';
 import { registerTermCounts } from './term-counts.js';
 import { versions } from './versions.js';
 import { visible } from './visible.js';
+import { restoreTerminal } from './progress.js';
 import { UsageError } from '../util/errors.js';
 
 /** Exit codes: 0 done, 1 failed while running, 2 bad usage or unusable input. */
@@ -80,6 +81,7 @@ export async function runCli(argv: readonly string[], io: CliIo): Promise<number
     await program.parseAsync([...argv], { from: 'user' });
     return code;
   } catch (err) {
+    restoreTerminal(); // a bar drawn when the error came: cursor shown, line wrap on, before the message
     if (err instanceof CommanderError) {
       if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') {
         return EXIT.ok;

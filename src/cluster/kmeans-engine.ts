@@ -242,6 +242,14 @@ interface RestartOutcome {
   batches: number;
 }
 
+/**
+ * Progress of a k-means run: steps done and the most there can be (restarts ×
+ * `maxIterations` Lloyd passes, or × `batchIterations` mini-batch steps; a
+ * restart that converges early counts in full). Data for the caller to show;
+ * the engine never prints.
+ */
+export type KMeansProgress = (done: number, total: number) => void;
+
 /** What {@link kmeansSteps} returns once every restart is done. */
 export interface RunSummary {
   readonly kept: RestartOutcome;
@@ -273,14 +281,18 @@ function tally(ws: Workspace, pass: number): void {
  * best kept in `ws.best*`. Yields whenever `ws.request` holds a pass to do;
  * returns the kept restart's outcome and every restart's objective.
  */
-export function* kmeansSteps(ws: Workspace, plan: KMeansPlan): Generator<void, RunSummary, void> {
+export function* kmeansSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMeansProgress): Generator<void, RunSummary, void> {
   const opts = plan.options;
   const restarts = plan.initial ? 1 : opts.restarts;
+  // Progress: steps of every restart (Lloyd passes or mini-batch steps), a restart that stops early jumps to its end.
+  const per = plan.miniBatch ? opts.batchIterations : opts.maxIterations;
+  const step = (r: number) => (onProgress ? (s: number) => onProgress(r * per + Math.min(s, per), restarts * per) : undefined);
   const restartObjectives = new Float64Array(restarts);
   let kept: RestartOutcome | undefined;
   for (let r = 0; r < restarts; r++) {
     const rng = createRng(deriveSeed(opts.seed, r));
-    const outcome = plan.miniBatch ? yield* miniBatchRestart(ws, rng) : yield* lloydRestart(ws, rng, plan.initial);
+    const outcome = plan.miniBatch ? yield* miniBatchRestart(ws, rng, step(r)) : yield* lloydRestart(ws, rng, plan.initial, step(r));
+    onProgress?.((r + 1) * per, restarts * per);
     restartObjectives[r] = outcome.objective;
     if (kept === undefined || outcome.objective > kept.objective) {
       kept = outcome;
@@ -301,7 +313,7 @@ export function* kmeansSteps(ws: Workspace, plan: KMeansPlan): Generator<void, R
  * a re-seeding reads it; every restart ends with one, which also gives the
  * fit against the final means when the limit stopped it.
  */
-function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | null): Generator<void, RestartOutcome, void> {
+function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | null, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
   const { active, assign, fit, upper, lower, options, previous } = ws;
   const m = active.length;
   const work = options.prune ? WORK_ASSIGN_PRUNED : WORK_ASSIGN_PLAIN;
@@ -327,6 +339,7 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
     yield;
     tally(ws, iterations);
     iterations++;
+    onStep?.(iterations);
     if (ws.passStats[STAT_CHANGED] === 0) {
       converged = true;
       break;
@@ -607,7 +620,7 @@ function sortMoves(ws: Workspace): void {
  *    up to {@link REPAIR_ROUNDS} times; groups still empty after that take
  *    their row without a further pass.
  */
-function* miniBatchRestart(ws: Workspace, rng: Rng): Generator<void, RestartOutcome, void> {
+function* miniBatchRestart(ws: Workspace, rng: Rng, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
   const { active, sample, batch, assign, fit, upper, options, k } = ws;
   const m = active.length;
   const sampleSize = Math.min(m, Math.max(k, 3 * options.batchSize));
@@ -633,6 +646,7 @@ function* miniBatchRestart(ws: Workspace, rng: Rng): Generator<void, RestartOutc
     yield;
     tally(ws, -1);
     batches++;
+    onStep?.(batches);
     if (miniBatchStep(ws) < options.batchTolerance) {
       converged = true;
       break;

@@ -53,7 +53,9 @@ import {
   kmeansSteps,
   validateInitialAssignments,
   type KMeansPlan,
+  type KMeansProgress,
 } from './kmeans-engine.js';
+export type { KMeansProgress } from './kmeans-engine.js';
 
 export type { KMeansOptions, KMeansResult } from './kmeans-types.js';
 
@@ -228,10 +230,10 @@ export function planKMeans(matrix: Csr, options: Partial<KMeansOptions> & { grou
  * {@link DEFAULT_KMEANS_OPTIONS} and validated against the data; a bad value
  * throws {@link UsageError}.
  */
-export function sphericalKMeans(matrix: Csr, options: Partial<KMeansOptions> & { groups: number }): KMeansResult {
+export function sphericalKMeans(matrix: Csr, options: Partial<KMeansOptions> & { groups: number }, onProgress?: KMeansProgress): KMeansResult {
   const plan = planKMeans(matrix, options);
   const ws = createWorkspace(plan, LOCAL_ALLOCATOR);
-  const steps = kmeansSteps(ws, plan);
+  const steps = kmeansSteps(ws, plan, onProgress);
   for (;;) {
     const step = steps.next();
     if (step.done) return finishResult(ws, step.value);

@@ -37,6 +37,7 @@
  */
 import { createReadStream } from 'node:fs';
 import { readFile, stat } from 'node:fs/promises';
+import { byteMeter, metered, type ByteMeter, type ReadProgress } from './progress.js';
 import { createHash } from 'node:crypto';
 import path from 'node:path';
 import type { Doc, Skipped } from '../types.js';
@@ -169,6 +170,8 @@ export interface IngestIo {
    * listing an absolute folder fails with, or `null` to list it normally.
    */
   readonly readdirFailure?: ReaddirFailure;
+  /** Reading progress in bytes (see `./progress.ts`); files are sized first, only when given. */
+  readonly progress?: ReadProgress;
 }
 
 type ReadAs = 'csv' | 'tsv' | 'jsonl' | 'json' | 'document';
@@ -193,6 +196,11 @@ function readDocument(text: string, ext: string): { text: string; title: string 
   if (ext === '.html' || ext === '.htm' || ext === '.xhtml') return htmlToText(text);
   if (ext === '.md' || ext === '.markdown' || ext === '.mdown' || ext === '.mkd') return readMarkdown(text);
   return readPlainText(text);
+}
+
+/** The absolute paths of the plain files and folder files a plan reads (for the reading progress). */
+function plannedFiles(planned: readonly Planned[]): string[] {
+  return planned.flatMap((p) => (p.kind === 'file' && !p.pipe ? [p.abs] : p.kind === 'folder' ? p.listing.files.map((rel) => path.join(p.abs, rel)) : []));
 }
 
 function posixPath(p: string): string {
@@ -508,11 +516,11 @@ async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: s
   return read;
 }
 
-async function readFileInput(given: string, abs: string, pipe: boolean, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
+async function readFileInput(given: string, abs: string, pipe: boolean, opts: IngestOptions, io: IngestIo, meter: ByteMeter | null = null): Promise<InputRead> {
   const ext = path.extname(abs).toLowerCase();
   const readAs = readAsFor(opts.format, ext);
   const whole = wholeReaderFor(opts.format, ext);
-  const opened = streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 }));
+  const opened = metered(streamOf(io.open ? io.open(abs) : createReadStream(abs, { highWaterMark: 1 << 20 })), meter);
   const source = pipe ? capStream(opened, opts.maxStreamBytes) : opened;
   try {
     if (whole !== null) return await readWholeFile(given, await collectBytes(source), whole, ext, opts);
@@ -581,7 +589,7 @@ async function mapPool<T, R>(items: readonly T[], limit: number, fn: (item: T) =
   return out;
 }
 
-async function readFolderInput(given: string, abs: string, listing: Listing, opts: IngestOptions, io: IngestIo): Promise<InputRead> {
+async function readFolderInput(given: string, abs: string, listing: Listing, opts: IngestOptions, io: IngestIo, meter: ByteMeter | null = null): Promise<InputRead> {
   const shown = (rel: string): string => path.posix.join(given.replace(/\\/g, '/'), rel);
   type One = OneFile & { sha: string | null; bytes: number; mailbox?: InputRead };
   const results = await mapPool(listing.files, READ_CONCURRENCY, async (rel): Promise<One> => {
@@ -607,6 +615,7 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
       }
     }
     if (buf === null) return { doc: null, skip: { source, reason }, warnings: [], decoding: null, attachments: null, sha: null, bytes: 0 };
+    meter?.add(buf.length);
     const sha = createHash('sha256').update(buf).digest('hex');
     const ext = path.extname(rel).toLowerCase();
     if (ext === '.mbox') {
@@ -821,10 +830,11 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
 
   // 2. Read, in the order given.
   const reads: InputRead[] = [];
+  const meter = io.progress ? await byteMeter(plannedFiles(capped.planned), io.progress) : null;
   for (const p of capped.planned) {
     if (p.kind === 'stdin') reads.push(await readStdinInput(opts, io.stdin as NodeJS.ReadableStream));
-    else if (p.kind === 'file') reads.push(await readFileInput(p.given, p.abs, p.pipe, opts, io));
-    else if (p.kind === 'folder') reads.push(await readFolderInput(p.given, p.abs, p.listing, opts, io));
+    else if (p.kind === 'file') reads.push(await readFileInput(p.given, p.abs, p.pipe, opts, io, meter));
+    else if (p.kind === 'folder') reads.push(await readFolderInput(p.given, p.abs, p.listing, opts, io, meter));
     else reads.push(skippedInput(p.given, p.reason));
   }
 

@@ -5,7 +5,8 @@
  * `dc:title`), else the first heading-like line of page 1.
  *
  * pdf.js runs in this thread (its "fake worker"), with `eval` off, no font
- * loading and messages silenced (verbosity 0). Character maps for
+ * loading and messages silenced (verbosity 0); what it prints while loading
+ * is captured, never written to stdout ({@link pdfjsLoadMessages}). Character maps for
  * non-embedded CJK fonts are read from the package's `cmaps/` folder.
  *
  * @module
@@ -113,8 +114,34 @@ interface TextItemLike {
 type PdfjsModule = typeof import('pdfjs-dist/legacy/build/pdf.mjs');
 let pdfjsModule: Promise<PdfjsModule> | null = null;
 
+/** What pdf.js printed while it loaded, kept here instead of on stdout (see {@link pdfjsLoadMessages}). */
+const loadMessages: string[] = [];
+
+/**
+ * The lines pdf.js wrote with `console.log` while its module loaded — in
+ * Node, without the optional `@napi-rs/canvas` package, "Warning: Cannot
+ * load …" and "Warning: Cannot polyfill `DOMMatrix` …" (rendering only; text
+ * extraction does not need them). pdf.js prints them on module load, before
+ * any `verbosity` option can apply, and stdout carries data only (`--json`
+ * must parse), so they are captured as data here; empty until a PDF is read.
+ */
+export function pdfjsLoadMessages(): readonly string[] {
+  return loadMessages;
+}
+
 function loadPdfjs(): Promise<PdfjsModule> {
-  pdfjsModule ??= import('pdfjs-dist/legacy/build/pdf.mjs');
+  pdfjsModule ??= (async () => {
+    const log = console.log;
+    console.log = (...args: unknown[]): void => {
+      loadMessages.push(args.map(String).join(' '));
+    };
+    try {
+      // Later messages are off: every document is opened with `verbosity: 0`, which pdf.js also makes its global level.
+      return await import('pdfjs-dist/legacy/build/pdf.mjs');
+    } finally {
+      console.log = log;
+    }
+  })();
   return pdfjsModule;
 }
 

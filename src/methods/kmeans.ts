@@ -60,9 +60,8 @@ function* formByKMeans(
   hooks: PipelineHooks,
 ): Generator<PipelineStep, { partition: Partition; kmeans: KMeansResult; choice: GroupChoice | null }, StepReply> {
   function* run(groups: number, initialAssignments?: Int32Array): Generator<PipelineStep, KMeansResult, StepReply> {
-    hooks.progress?.('group', 0, 1);
-    const km = (yield { kind: 'kmeans', matrix, options: { ...settings.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) } }) as KMeansResult;
-    hooks.progress?.('group', 1, 1);
+    const onProgress = hooks.progress ? (done: number, total: number) => hooks.progress?.('k-means', done, total) : undefined;
+    const km = (yield { kind: 'kmeans', matrix, options: { ...settings.kmeans, groups, ...(initialAssignments ? { initialAssignments } : {}) }, onProgress }) as KMeansResult;
     return km;
   }
   if (typeof settings.groups === 'number') {

@@ -33,13 +33,25 @@ export interface ModelApplication extends Assignment {
  * overrides the per-group thresholds. Pass an `IngestResult` (or its docs and
  * exportRows) so `auto` cleaning knows the export rows.
  */
-export function applyModel(model: Model, input: readonly Doc[] | DocumentInput, minFit?: number, cleaning: CleanSettings = model.cleaning): ModelApplication {
+export function applyModel(
+  model: Model,
+  input: readonly Doc[] | DocumentInput,
+  minFit?: number,
+  cleaning: CleanSettings = model.cleaning,
+  /** Documents analysed so far and in all, about every 1% (data for a progress bar). */
+  onProgress?: (done: number, total: number) => void,
+): ModelApplication {
   const cleaned = cleanStage(Array.isArray(input) ? { docs: input as readonly Doc[] } : (input as DocumentInput), cleaning);
   const docs = cleaned.docs;
   const analyzer = createAnalyzer(model.analyzer);
   const matrix = transformTfidf(
     (function* () {
-      for (const d of docs) yield analyzer.analyze(d.text);
+      const step = Math.max(1, Math.floor(docs.length / 100));
+      for (let i = 0; i < docs.length; i++) {
+        if (i % step === 0) onProgress?.(i, docs.length);
+        yield analyzer.analyze(docs[i]!.text);
+      }
+      onProgress?.(docs.length, docs.length);
     })(),
     model.vocabulary,
   );

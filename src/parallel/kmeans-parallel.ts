@@ -43,6 +43,7 @@ import {
   kmeansSteps,
   type Allocator,
   type Workspace,
+  type KMeansProgress,
 } from '../cluster/kmeans-engine.js';
 import { LIST_ACTIVE, STAT_LENGTH, runBlock } from '../cluster/kmeans-kernel.js';
 import type { Csr } from '../types.js';
@@ -288,10 +289,11 @@ class Crew {
 export async function sphericalKMeansParallel(
   matrix: Csr,
   options: Partial<KMeansOptions> & { groups: number } & Partial<ParallelOptions>,
+  onProgress?: KMeansProgress,
 ): Promise<KMeansResult> {
   const { threads: threadsGiven, workerUrl, ...kmeans } = options;
   const parallel = resolveParallelOptions({ threads: threadsGiven, workerUrl });
-  if (parallel.threads === 1) return sphericalKMeans(matrix, kmeans);
+  if (parallel.threads === 1) return sphericalKMeans(matrix, kmeans, onProgress);
   const plan = planKMeans(shareCsr(matrix), kmeans);
   const script = workerScript(parallel.workerUrl);
   const ws = createWorkspace(plan, SHARED_ALLOCATOR);
@@ -299,7 +301,7 @@ export async function sphericalKMeansParallel(
   const crew = new Crew(ws, parallel.threads, script);
   try {
     await crew.ready();
-    const steps = kmeansSteps(ws, plan);
+    const steps = kmeansSteps(ws, plan, onProgress);
     for (;;) {
       const step = steps.next();
       if (step.done) return finishResult(ws, step.value);

@@ -19,8 +19,8 @@ export const PARALLEL_MIN_ROWS = 20_000;
 export function kmeansRunner(threads: number): KMeansRunner {
   return async (req) =>
     threads > 1 && req.matrix.rows >= PARALLEL_MIN_ROWS
-      ? sphericalKMeansParallel(req.matrix, { ...req.options, threads })
-      : sphericalKMeans(req.matrix, req.options);
+      ? sphericalKMeansParallel(req.matrix, { ...req.options, threads }, req.onProgress)
+      : sphericalKMeans(req.matrix, req.options, req.onProgress);
 }
 
 /**

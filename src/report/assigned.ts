@@ -27,5 +27,6 @@ export function assignedCsv(model: Model, a: ModelApplication): string {
       ];
     }
   }
-  return csvText([...own, ...columns], rows());
+  // The formula guard on sheaf's own columns only: the input's own columns are written as they were (see csv.ts).
+  return csvText([...own, ...columns], rows(), { guarded: own.length });
 }

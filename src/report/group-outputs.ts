@@ -18,6 +18,7 @@ import { documentsCsvChunks, groupsJson, jsonText, treeNewick } from './outputs.
 import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from './duplicates.js';
 import { renderReport } from './html.js';
 import { reportFromRun } from './report-from-run.js';
+import { withCsvBom } from './csv.js';
 
 /** Near-copies found in the run's own vectors, and at which threshold. */
 export interface GroupNearCopies {
@@ -35,6 +36,8 @@ export interface GroupOutputOptions {
   readonly createdBy: string;
   /** report.html's heading and metadata, or null for no report. */
   readonly report?: { readonly title: string; readonly createdAt: string; readonly version: string; readonly skipped: number } | null;
+  /** A UTF-8 byte order mark before every CSV file (default true; see `withCsvBom`). */
+  readonly bom?: boolean;
 }
 
 /** The output files of a grouping run, in the order they are listed to the user (run.json is added by the caller, last). */
@@ -64,7 +67,7 @@ export function groupOutputs(result: GroupResult, options: GroupOutputOptions): 
   }
   files.set('tree.nwk', treeNewick(result));
   for (const [name, content] of methodOf(result).outputs(result, result.docs)) files.set(name, content);
-  return files;
+  return options.bom === false ? files : withCsvBom(files);
 }
 
 /** What the JSON summary on stdout holds: groups.json for `group`, the tree for `tree`. */

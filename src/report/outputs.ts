@@ -67,7 +67,8 @@ export function documentsCsvChunks(result: GroupResult, extras: DocumentExtras =
       yield row;
     }
   }
-  return csvChunks(header, rows());
+  // The formula guard on sheaf's own columns only: the user's columns are written as they were (see csv.ts).
+  return csvChunks(header, rows(), { guarded: DOCUMENT_COLUMNS.length });
 }
 
 /** The shape of `groups.json`. */

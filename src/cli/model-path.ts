@@ -1,0 +1,35 @@
+/**
+ * `--model` may name the model file or the output folder of the run that
+ * wrote it: a folder is looked into for `model.json`.
+ *
+ * @module
+ */
+import { stat } from 'node:fs/promises';
+import path from 'node:path';
+import { UsageError } from '../util/errors.js';
+
+/** The file name `sheaf group` gives the saved model in its output folder. */
+export const MODEL_FILE = 'model.json';
+
+/**
+ * The model file `given` names (relative to `cwd`, as given): `given` itself,
+ * or `given/model.json` when `given` is a folder. A folder without one is
+ * refused with a {@link UsageError} saying so; a missing path is left for the
+ * reader to report.
+ */
+export async function modelFileOf(given: string, cwd: string): Promise<string> {
+  let folder = false;
+  try {
+    folder = (await stat(path.resolve(cwd, given))).isDirectory();
+  } catch {
+    return given;
+  }
+  if (!folder) return given;
+  const inside = path.join(given, MODEL_FILE);
+  try {
+    if ((await stat(path.resolve(cwd, inside))).isFile()) return inside;
+  } catch {
+    // refused below
+  }
+  throw new UsageError(`--model ${given} is a folder with no ${MODEL_FILE} in it; name a model.json written by sheaf group, or the output folder of that run`, 'model');
+}
