@@ -110,9 +110,9 @@ describe('sheaf duplicates and sheaf assign write the BOM too', () => {
     const run = await sheaf(['assign', input, '--model', path.join(dir, 'o', 'model.json'), '--text', 'body', '--id', 'ticket', '--out', path.join(dir, 'a'), '--quiet']);
     expect(run.code).toBe(0);
     const text = readFileSync(path.join(dir, 'a', 'assigned.csv'), 'utf8');
-    expect(text.startsWith('\uFEFFid,group,label,fit,status,amount,note,body\r\n')).toBe(true);
-    expect(text).toMatch(/\r\nT1,[01],[^,]+,0\.\d{4},(matched|new),-5,-5 refund,printer jams/);
-    expect(text).toMatch(/\r\n'=1\+1,[01],[^,]+,0\.\d{4},(matched|new),12,@owner,/);
+    expect(text.startsWith('\uFEFFid,group,label,fit,status,second_group,second_label,second_fit,amount,note,body\r\n')).toBe(true);
+    expect(text).toMatch(/\r\nT1,[01],[^,]+,0\.\d{4},(matched|new),[01],[^,]+,-?\d\.\d{4},-5,-5 refund,printer jams/);
+    expect(text).toMatch(/\r\n'=1\+1,[01],[^,]+,0\.\d{4},(matched|new),[01],[^,]+,-?\d\.\d{4},12,@owner,/);
     const off = await sheaf(['assign', input, '--model', path.join(dir, 'o', 'model.json'), '--text', 'body', '--id', 'ticket', '--no-bom', '--out', path.join(dir, 'b'), '--quiet']);
     expect(off.code).toBe(0);
     expect(readFileSync(path.join(dir, 'b', 'assigned.csv'), 'utf8').startsWith('id,group,')).toBe(true);

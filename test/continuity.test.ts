@@ -82,7 +82,7 @@ describe('matchGroups', () => {
 });
 
 describe('sheaf group --previous on generated weekly piles', () => {
-  const csv = (file: string) => parse(readFileSync(file), { columns: true }) as Record<string, string>[];
+  const csv = (file: string) => parse(readFileSync(file), { columns: true, bom: true }) as Record<string, string>[];
   let dir: string;
   let w1: Record<string, string>[];
   let w1groups: { groups: { id: number; label: string; size: number }[] };

@@ -13,7 +13,7 @@ import { csrFromDense } from './helpers/csr.js';
 import { applyEdits, parseEdits } from '../src/edits/index.js';
 import { modelFromJson } from '../src/model/index.js';
 
-const csv = (file: string) => parse(readFileSync(file), { columns: true }) as Record<string, string>[];
+const csv = (file: string) => parse(readFileSync(file), { columns: true, bom: true }) as Record<string, string>[];
 const groupOf = (rows: Record<string, string>[], theme: string): string => {
   const counts = new Map<string, number>();
   for (const r of rows) if (r.theme === theme) counts.set(r.group, (counts.get(r.group) ?? 0) + 1);

@@ -12,7 +12,7 @@ import { sheaf, tempDir } from './helpers/cli.js';
 import { weeklyPile } from './helpers/weekly.js';
 import { parseGuide } from '../src/edits/guide.js';
 
-const csv = (file: string) => parse(readFileSync(file), { columns: true }) as Record<string, string>[];
+const csv = (file: string) => parse(readFileSync(file), { columns: true, bom: true }) as Record<string, string>[];
 
 describe('sheaf group --guide', () => {
   let dir: string;
