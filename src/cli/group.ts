@@ -29,6 +29,8 @@ import { visibleJson, visibleLines } from './visible.js';
 import { withFileDigests, type RunFile } from './organize.js';
 import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
+import { documentLinks, pageSize, trendsFromFlag } from './report-inputs.js';
+import { trendsRecord } from '../report/report-extras.js';
 
 export type { GroupFlags } from './inputs.js';
 
@@ -47,6 +49,7 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
     .option('--duplicates <t>', 'near-copies at cosine >= t go in duplicate_set, duplicates.csv/json and the report', '0.9')
     .option('--no-duplicates', 'do not look for near-copies')
     .option('--no-report', 'do not write report.html')
+    .option('--date <column>', 'count each group per day, week or month by this column (mtime: the files’ modification times)')
     .option('--json', 'print the groups as JSON on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: GroupFlags) => {
@@ -132,9 +135,12 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   // Outputs.
   const tw = now();
   const version = versions();
+  const date = (flags as { date?: string }).date;
+  const trends = command === 'group' && date !== undefined ? await trendsFromFlag(result, date, read.exportRows, io.cwd) : null;
   const files = groupOutputs(result, {
     kind: command,
     near,
+    trends,
     createdBy: `sheaf ${version.sheaf}`,
     report:
       command === 'group' && flags.report !== false
@@ -143,9 +149,14 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
             createdAt: new Date().toISOString(),
             version: version.sheaf,
             skipped: read.skipped.length,
+            originals: docs.map((d) => d.text),
+            links: documentLinks(docs, read.exportRows, io.cwd, outDir),
+            evaluation,
           }
         : null,
   });
+  const pageBytes = files.has('report.html') ? Buffer.byteLength(files.get('report.html') as string) : null;
+  if (pageBytes !== null) note(`sheaf: note: report.html is ${pageSize(pageBytes)} (texts load when a document is opened or searched)`);
   const n = read.docs.length;
   const timings: StageTiming[] = [
     { stage: 'read', ms: readMs, items: n },
@@ -154,7 +165,9 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     { stage: 'write', ms: now() - tw, items: n },
   ];
   const context = { command, startedAt, finishedAt: new Date(), versions: version, cwd: io.cwd, out: flags.out };
-  files.set('run.json', jsonText(await withFileDigests(groupRunRecord(result, { context, ingestOptions, read, threads, evaluation, timings }) as { files?: RunFile[] })));
+  const record = groupRunRecord(result, { context, ingestOptions, read, threads, evaluation, timings });
+  Object.assign(record, { trends: trends ? trendsRecord(result, trends) : null, reportBytes: pageBytes });
+  files.set('run.json', jsonText(await withFileDigests(record as { files?: RunFile[] })));
   const written = (await writeOutputFolder(outDir, files)).map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
     const v = await writeOutputFolder(path.resolve(io.cwd, flags.saveVectors), vectorFiles(result.matrix, result.vocabulary.terms, result.docs));

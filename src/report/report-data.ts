@@ -38,14 +38,12 @@ export interface ReportData {
     readonly cohesion: number;
     /** Highest cosine between this group's centroid and another's, when known. */
     readonly separation?: number;
-    readonly terms: readonly { readonly term: string; readonly weight: number }[];
+    /** Terms that name it; `inGroup`/`outside`: share of the group's documents / of the other documents containing it. */
+    readonly terms: readonly { readonly term: string; readonly weight: number; readonly inGroup?: number; readonly outside?: number }[];
     /** True when the group's cohesion is low relative to the others. */
     readonly mixed?: boolean;
     /** Exemplar document ids, closest first. */
     readonly exemplars: readonly string[];
-    /** Position on the 2-D map of groups. */
-    readonly x: number;
-    readonly y: number;
   }[];
   /** How the number of groups was chosen automatically (knee of the objective over the tree's cuts), when it was. */
   readonly choice?: {

@@ -11,7 +11,6 @@ import { pathToFileURL } from 'node:url';
 import { chromium, type Browser } from 'playwright-core';
 import { diffWords } from 'diff';
 import type { ReportData, ReportDiffPiece } from '../../src/report/report-data.js';
-import { groupMap } from '../../src/report/map.js';
 import { ingest } from '../../src/ingest/index.js';
 import { groupDocuments } from '../../src/pipeline.js';
 import { groupAverageLink } from '../../src/cluster/tree.js';
@@ -154,7 +153,6 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
   const fit = docs.map((d, i) => (d.group < 0 ? Number.NaN : dot(vectors[i], centroids[d.group])));
   const termMajor = new Float32Array(vocab.size * k);
   for (let t = 0; t < vocab.size; t++) for (let g = 0; g < k; g++) termMajor[t * k + g] = centroids[g][t];
-  const map = groupMap(termMajor, vocab.size, k);
   const labels = options.hostile
     ? [HOSTILE.close, HOSTILE.img, 'parcel / courier']
     : ['password / reset', 'refund / invoice', 'parcel / courier'];
@@ -175,8 +173,6 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
       separation,
       terms: top.map((t) => ({ term: options.hostile && g === 0 && t === top[0] ? HOSTILE.svg : terms[t], weight: centroids[g][t] })),
       exemplars: byFit.slice(0, 2).map((i) => docs[i].id),
-      x: map.x[g],
-      y: map.y[g],
     };
   });
   // Average-link between groups: mean pairwise cosine = (ΣA·ΣB)/(|A||B|).
@@ -278,8 +274,6 @@ export function largeReport(n: number, k: number): ReportData {
       cohesion: 0.3,
       terms: [{ term: words[g % words.length], weight: 0.5 }],
       exemplars: [`D${g}`],
-      x: Math.cos((2 * Math.PI * g) / k),
-      y: Math.sin((2 * Math.PI * g) / k),
     })),
     documents,
   };
