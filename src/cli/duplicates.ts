@@ -163,9 +163,12 @@ export function duplicateLines(run: DuplicateRun, width: number, show: number): 
   return lines;
 }
 
-/** A diff as one line: removed words as ⟦-…⟧, added words as ⟦+…⟧. */
+/**
+ * A diff as one line, marked as the report marks it: words only in this copy between a filled pair `▸…◂`,
+ * words only in the representative between a hollow pair `▹…◃` (filled: present here; hollow: gone).
+ */
 export function diffText(d: MemberDiff | { pieces: readonly DiffPiece[] }): string {
   if (!d.pieces.some((p) => p.kind !== 'same')) return '(identical text)';
-  const parts = d.pieces.map((p) => (p.kind === 'same' ? p.text : p.kind === 'added' ? `⟦+${p.text}⟧` : `⟦-${p.text}⟧`));
+  const parts = d.pieces.map((p) => (p.kind === 'same' ? p.text : p.kind === 'added' ? `▸${p.text}◂` : `▹${p.text}◃`));
   return parts.join('').replace(/\s+/g, ' ').trim();
 }

@@ -71,7 +71,7 @@ export async function trendsFromFlag(result: GroupResult, column: string, export
       ? 'UTC (file modification times)'
       : withOffset === 0
         ? 'UTC (the values carry no time zone; read as UTC)'
-        : `UTC (${withOffset} value(s) with a time zone converted to UTC; values without one read as UTC)`;
+        : `UTC (${withOffset} value(s) carry Z or an offset and were converted to UTC; values without one were read as UTC)`;
   return { column, zone, trends: groupTrends(dates, result.partition.assignments, result.partition.groups) };
 }
 

@@ -107,9 +107,9 @@ article.member h3 { margin: .5rem 0 .25rem; font-size: 1.05rem; overflow-wrap: a
 .diff { white-space: pre-wrap; overflow-wrap: anywhere; background: var(--panel); padding: .5rem .75rem; border-radius: 6px; line-height: 1.7; }
 /* Word changes: words only in this copy sit on a tinted band with a filled corner mark; words only in the representative are struck through with a hollow one. */
 ins { background: var(--ins-bg); color: var(--ins-fg); text-decoration: none; border-bottom: 2px solid currentColor; padding: 0 .15em; border-radius: 3px 3px 0 0; }
-ins::before { content: "\25B8"; font-size: .7em; vertical-align: super; margin-right: .1em; }
+ins::before { content: "\\25B8"; font-size: .7em; vertical-align: super; margin-right: .1em; }
 del { background: var(--del-bg); color: var(--del-fg); text-decoration: line-through; text-decoration-thickness: 2px; padding: 0 .15em; border-radius: 3px; }
-del::before { content: "\25B9"; font-size: .7em; vertical-align: super; margin-right: .1em; text-decoration: none; display: inline-block; }
+del::before { content: "\\25B9"; font-size: .7em; vertical-align: super; margin-right: .1em; text-decoration: none; display: inline-block; }
 .elided { color: var(--muted); font-style: italic; }
 /* Group numbers stand apart from names. */
 .gno { display: inline-block; min-width: 1.7em; padding: 0 .35em; margin-right: .45em; border-radius: 999px; background: var(--track);
@@ -127,6 +127,7 @@ fieldset.filters legend { color: var(--muted); font-size: .875rem; padding: 0 .2
 button.toggle[aria-pressed="true"] { background: var(--fg); color: var(--bg); }
 .cut .tools input[type="range"] { width: min(22rem, 60vw); }
 .cut output { font-weight: 700; }
+.cut-table button.toggle { white-space: nowrap; }
 .holds { display: flex; flex-wrap: wrap; gap: .25rem .75rem; }
 dl.doc-facts, dl.doc-columns { display: grid; grid-template-columns: max-content 1fr; gap: .25rem 1rem; margin: .5rem 0; }
 dl.doc-facts div, dl.doc-columns div { display: contents; }

@@ -218,7 +218,7 @@ export function trendsBody(data: ReportData): string[] {
     .map((g, i) => i)
     .sort((a, b) => data.groups[b].size - data.groups[a].size || a - b)
     .slice(0, 6);
-  const w = Math.max(320, Math.min(900, 40 + p * 14));
+  const w = Math.max(640, Math.min(1000, 60 + p * 22));
   const h = 240;
   const left = 44;
   const bottom = 40;
