@@ -21,6 +21,7 @@ import { fixed } from '../report/csv.js';
 import { writeOutputFolder, type FileContent } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import type { DiffPiece } from '../duplicates/index.js';
+import { duplicatesReportFile } from './report-inputs.js';
 
 interface DuplicatesFlags extends GroupFlags {
   threshold?: string;
@@ -44,6 +45,7 @@ export function registerDuplicates(program: Command, io: CliIo, setExit: (code: 
     .option('--show <n>', 'print what differs inside the n strongest sets', '0')
     .option('--out <dir>', 'output folder', 'sheaf-duplicates')
     .option('--save-vectors <dir>', 'also write the vectors compared (MatrixMarket), their columns (terms.txt, with --by tfidf) and ids')
+    .option('--no-report', 'do not write report.html')
     .option('--json', 'print duplicates.json on stdout')
     .option('--quiet', 'no notes on stderr')
     .action(async (inputs: string[], flags: DuplicatesFlags) => {
@@ -88,6 +90,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     ['duplicates.csv', duplicatesCsv(src)],
     ['duplicates.json', duplicatesJsonChunks(src)],
     [PAIRS_FILE, nearCopyPairsCsvChunks(src)],
+    ...duplicatesReportFile(run, inputs, read, docs, flags.report !== false, io.cwd, outDir, note),
     [
       'run.json',
       duplicatesRunJson(run, {

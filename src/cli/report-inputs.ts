@@ -14,6 +14,11 @@ import type { GroupResult } from '../pipeline.js';
 import { UsageError } from '../util/errors.js';
 import { groupTrends, hasOffset } from '../trends/index.js';
 import type { TrendsInput } from '../report/report-extras.js';
+import type { DuplicateRun } from '../near-copies.js';
+import type { IngestResult } from '../ingest/index.js';
+import { duplicatesReportData } from '../report/report-duplicates.js';
+import { renderReport } from '../report/html.js';
+import { versions } from './versions.js';
 
 /** The `--date` value that asks for the files' modification times. */
 export const DATE_MTIME = 'mtime';
@@ -80,4 +85,33 @@ export function pageSize(bytes: number): string {
   if (bytes < 1000) return `${bytes} B`;
   if (bytes < 1e6) return `${(bytes / 1e3).toFixed(1)} kB`;
   return `${(bytes / 1e6).toFixed(1)} MB`;
+}
+
+/**
+ * `report.html` of `sheaf duplicates` as a `[name, content]` entry (none with `--no-report`), with a note of its size.
+ * `docs` are the documents as searched (cleaned), `read.docs` as written.
+ */
+export function duplicatesReportFile(
+  run: DuplicateRun,
+  inputs: readonly string[],
+  read: IngestResult,
+  docs: readonly Doc[],
+  wanted: boolean,
+  cwd: string,
+  outDir: string,
+  note: (line: string) => void,
+): [string, string][] {
+  if (!wanted) return [];
+  const html = renderReport(
+    duplicatesReportData(run, {
+      title: `sheaf near-copies — ${inputs.map((i) => (i === '-' ? 'standard input' : path.basename(i))).join(', ')}`,
+      createdAt: new Date().toISOString(),
+      version: versions().sheaf,
+      skipped: read.skipped.length,
+      originals: read.docs.length === docs.length ? read.docs.map((d) => d.text) : undefined,
+      links: documentLinks(docs, read.exportRows, cwd, outDir),
+    }),
+  );
+  note(`sheaf: note: report.html is ${pageSize(Buffer.byteLength(html))}`);
+  return [['report.html', html]];
 }

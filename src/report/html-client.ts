@@ -278,14 +278,15 @@ function byFit(a, b) {
   var fa = D.fit[a], fb = D.fit[b];
   return (fa === null ? -Infinity : fa) - (fb === null ? -Infinity : fb) || 0;
 }
+var hasGroups = data.groups.id.length > 0;
 function docColumns(showGroup) {
   var cols = [
     { key: 'id', title: 'ID', sort: function (a, b) { return collator.compare(D.id[a], D.id[b]); }, cell: docLink },
     { key: 'title', title: 'Title', text: true, sort: function (a, b) { return collator.compare(D.title[a], D.title[b]); }, cell: function (i) { return docTitle(i); } },
-    { key: 'fit', title: 'Fit', num: true, sort: byFit, cell: function (i) { return fixed(D.fit[i], 3); } },
   ];
-  if (showGroup) cols.push({ key: 'group', title: 'Group', sort: function (a, b) { return D.group[a] - D.group[b]; }, cell: function (i) { return groupLink(D.group[i]); } });
-  cols.push({ key: 'margin', title: 'Margin', num: true, sort: function (a, b) { var x = D.margin[a], y = D.margin[b]; return (x === null ? Infinity : x) - (y === null ? Infinity : y) || 0; }, cell: function (i) { return fixed(D.margin[i], 3); } });
+  if (hasGroups) cols.push({ key: 'fit', title: 'Fit', num: true, sort: byFit, cell: function (i) { return fixed(D.fit[i], 3); } });
+  if (showGroup && hasGroups) cols.push({ key: 'group', title: 'Group', sort: function (a, b) { return D.group[a] - D.group[b]; }, cell: function (i) { return groupLink(D.group[i]); } });
+  if (hasGroups) cols.push({ key: 'margin', title: 'Margin', num: true, sort: function (a, b) { var x = D.margin[a], y = D.margin[b]; return (x === null ? Infinity : x) - (y === null ? Infinity : y) || 0; }, cell: function (i) { return fixed(D.margin[i], 3); } });
   if (data.duplicates) cols.push({ key: 'set', title: 'Near-duplicate set', cell: function (i) { return setLink(D.duplicateSet[i]); } });
   COLS.names.forEach(function (name, c) {
     var values = COLS.values[c];
@@ -329,7 +330,7 @@ function buildMount(mount) {
     for (var a = 0; a < n; a++) all[a] = a;
     makeTable(mount, {
       caption: 'All documents', noun: 'documents', searchLabel: 'Search all documents (id, title, columns, text):',
-      items: all, columns: docColumns(true), hay: docHay, sortKey: null, filters: { group: true },
+      items: all, columns: docColumns(true), hay: docHay, sortKey: null, filters: { group: hasGroups },
     });
   } else if (kind === 'ungrouped') {
     makeTable(mount, {
@@ -489,8 +490,8 @@ function makeFilters(uid, opts, onChange) {
     groupSel.appendChild(el('option', { value: 'cut', text: 'a merged group (chosen in the tree)', hidden: true }));
     field('Group', groupSel);
   }
-  var fitLo = field('Fit from', el('input', { type: 'number', step: '0.01', min: '-1', max: '1', inputmode: 'decimal', className: 'short' }));
-  var fitHi = field('to', el('input', { type: 'number', step: '0.01', min: '-1', max: '1', inputmode: 'decimal', className: 'short' }));
+  var fitLo = hasGroups ? field('Fit from', el('input', { type: 'number', step: '0.01', min: '-1', max: '1', inputmode: 'decimal', className: 'short' })) : null;
+  var fitHi = hasGroups ? field('to', el('input', { type: 'number', step: '0.01', min: '-1', max: '1', inputmode: 'decimal', className: 'short' })) : null;
   var setSel = null;
   if (data.duplicates) {
     setSel = el('select');
@@ -531,12 +532,12 @@ function makeFilters(uid, opts, onChange) {
   node.addEventListener('change', changed);
   reset.addEventListener('click', function () {
     if (groupSel) groupSel.value = 'any';
-    fitLo.value = ''; fitHi.value = '';
+    if (fitLo) { fitLo.value = ''; fitHi.value = ''; }
     if (setSel) setSel.value = 'any';
     if (colSel) { colSel.value = ''; colVal.value = ''; }
     onChange();
   });
-  function num(input) { var v = input.value.trim(); return v === '' || !isFinite(Number(v)) ? null : Number(v); }
+  function num(input) { if (!input) return null; var v = input.value.trim(); return v === '' || !isFinite(Number(v)) ? null : Number(v); }
   return {
     node: node,
     setCut: function (groups) {
@@ -723,8 +724,8 @@ function renderDocument(i) {
   heading.textContent = docTitle(i);
   var dl = el('dl', { className: 'doc-facts' });
   fact(dl, 'ID', el('code', { text: D.id[i] }));
-  fact(dl, 'Group', D.group[i] >= 0 ? groupLink(D.group[i]) : el('span', { text: D.fit[i] !== null ? 'unsorted (fits no group well)' : 'none (no usable terms)' }));
-  fact(dl, 'Fit', el('span', { text: fixed(D.fit[i], 3) + ' (cosine to the group\u2019s centre)' }));
+  if (hasGroups) fact(dl, 'Group', D.group[i] >= 0 ? groupLink(D.group[i]) : el('span', { text: D.fit[i] !== null ? 'unsorted (fits no group well)' : 'none (no usable terms)' }));
+  if (hasGroups) fact(dl, 'Fit', el('span', { text: fixed(D.fit[i], 3) + ' (cosine to the group\u2019s centre)' }));
   if (D.next[i] >= 0) {
     fact(dl, 'Next closest group', groupLink(D.next[i]));
     fact(dl, 'Margin', el('span', { text: fixed(D.margin[i], 3) + (D.margin[i] !== null && D.margin[i] < 0.05 ? ' \u2014 close to both groups' : ' (fit minus the cosine to the next group)') }));
@@ -783,7 +784,7 @@ function renderDocument(i) {
 
 // ---- routing by hash ----
 var views = Array.prototype.slice.call(doc.querySelectorAll('section.view'));
-var overview = doc.getElementById('overview');
+var overview = doc.getElementById('overview') || doc.getElementById('duplicates');
 var notice = doc.getElementById('route-notice');
 var navLinks = Array.prototype.slice.call(doc.querySelectorAll('nav.views a'));
 function route(moveFocus) {

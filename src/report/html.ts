@@ -69,6 +69,7 @@ export function renderReport(data: ReportData): string {
   const bySize = groups.slice().sort((a, b) => b.size - a.size || a.id - b.id);
   const grouped = groups.reduce((s, g) => s + (Number.isFinite(g.size) ? g.size : 0), 0);
 
+  if (data.kind === 'duplicates') return renderDuplicatesReport(data);
   const nav: [string, string][] = [
     ['overview', 'Overview'],
     ['relations', 'Relations'],
@@ -360,4 +361,63 @@ function duplicatesView(data: ReportData): string {
     else body.push(mountPoint('sets', ''));
   }
   return view('duplicates', 'Near-duplicates', body);
+}
+
+/** The page's head, top bar and navigation (shared by both kinds of report). */
+function pageHead(data: ReportData, nav: readonly [string, string][], meta: string): string[] {
+  return [
+    '<!DOCTYPE html>\n<html lang="en" class="no-js">\n<head>\n<meta charset="utf-8">\n',
+    `<meta http-equiv="Content-Security-Policy" content="${e(reportCsp())}">\n`,
+    '<meta name="viewport" content="width=device-width, initial-scale=1">\n',
+    '<meta name="referrer" content="no-referrer">\n',
+    '<meta name="color-scheme" content="light dark">\n',
+    `<meta name="generator" content="${e(`sheaf ${data.version}`)}">\n`,
+    `<title>${e(data.title)}</title>\n`,
+    `<style>${REPORT_CSS}</style>\n</head>\n<body>\n`,
+    '<a class="skip" href="#main">Skip to the content</a>\n',
+    '<header class="top"><div class="inner">',
+    `<h1>${e(data.title)}</h1>`,
+    `<p class="meta">${meta}</p>`,
+    '<nav class="views" aria-label="Views"><ul>',
+    ...nav.map(([id, text]) => `<li><a href="#${id}">${e(text)}</a></li>`),
+    '</ul></nav></div></header>\n<main id="main" tabindex="-1">\n',
+    '<p id="route-notice" class="notice" role="status" hidden></p>\n',
+  ];
+}
+
+/** The sections every report ends with: a near-duplicate set's page, the document reader, the data blocks and the script. */
+function pageTail(data: ReportData): string[] {
+  return [
+    `<section class="view" id="duplicate-set" data-nav="duplicates" aria-labelledby="duplicate-set-h">` +
+      `<h2 id="duplicate-set-h" tabindex="-1">Near-duplicate set</h2><div id="duplicate-set-body">` +
+      `<p class="muted">Choose a set in the <a href="#duplicates">list of near-duplicate sets</a>.</p></div></section>\n`,
+    `<section class="view" id="document" data-nav="documents" aria-labelledby="document-h">` +
+      `<h2 id="document-h" tabindex="-1">Document</h2><div id="document-body">` +
+      `<p class="muted">Open a document from <a href="#documents">the list of documents</a>.</p></div></section>\n`,
+    '</main>\n',
+    `<script type="application/json" id="${REPORT_DATA_ELEMENT_ID}">${jsonForScript(reportPayload(data))}</script>\n`,
+    ...textChunks(data).map((c, i) => `<script type="application/json" id="${REPORT_TEXT_ELEMENT_PREFIX}${i}">${jsonForScript(c)}</script>\n`),
+    `<script>${REPORT_SCRIPT}</script>\n</body>\n</html>\n`,
+  ];
+}
+
+/** The report of `sheaf duplicates`: the sets, each set's page, and the documents in sets. */
+function renderDuplicatesReport(data: ReportData): string {
+  const parts = pageHead(
+    data,
+    [
+      ['duplicates', 'Near-duplicate sets'],
+      ['documents', 'Documents in sets'],
+    ],
+    `sheaf ${e(data.version)} · ${e(data.createdAt)} · ${e(formatCount(data.counts.documents))} documents compared`,
+  );
+  parts.push(duplicatesView(data));
+  parts.push(
+    view('documents', 'Documents in sets', [
+      `<p>${e(formatCount(data.documents.length))} documents belong to a near-duplicate set. Search by id, title or text; open a document by its id.</p>`,
+      mountPoint('all', ''),
+    ]),
+  );
+  parts.push(...pageTail(data));
+  return parts.join('');
 }

@@ -13,6 +13,8 @@ export interface ReportDiffPiece {
 
 /** Everything `renderReport` draws. */
 export interface ReportData {
+  /** `group` (default): a grouping run; `duplicates`: the near-copy part alone (`sheaf duplicates`). */
+  readonly kind?: 'group' | 'duplicates';
   /** Page title, e.g. "sheaf — tickets.csv". */
   readonly title: string;
   /** ISO time the run finished (shown, not computed by the report). */
