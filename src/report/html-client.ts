@@ -404,9 +404,10 @@ function renderDiff(pieces, full) {
 function renderMember(set, mem) {
   var at = indexOfId.get(mem.id);
   var art = el('article', { className: 'member' });
-  art.appendChild(el('h3', { text: titleOfId(mem.id) }));
+  art.appendChild(el('h3', null, [at === undefined ? titleOfId(mem.id) : el('a', { href: '#doc-' + at, text: titleOfId(mem.id) })]));
   var facts = el('p', { className: 'muted' }, ['id ', el('code', { text: mem.id })]);
-  if (at !== undefined) { append(facts, ' \u00b7 group '); append(facts, groupLink(D.group[at])); }
+  if (at !== undefined && hasGroups) { append(facts, ' \u00b7 group '); append(facts, groupLink(D.group[at])); }
+  if (at !== undefined && TX.chunks) { append(facts, ' \u00b7 '); append(facts, el('a', { href: '#doc-' + at, text: 'read the text' })); }
   art.appendChild(facts);
   if (mem.id === set.representative) {
     art.appendChild(el('p', { text: 'This is the set\u2019s representative: the other documents are compared with it.' }));
