@@ -125,22 +125,7 @@ export function renderReport(data: ReportData): string {
   if (data.evaluation) parts.push(view('scores', 'Scores against known labels', evaluationBody(data)));
   groups.forEach((g, i) => parts.push(groupView(g, i, groups, grouped, titleById)));
   parts.push(duplicatesView(data));
-  parts.push(
-    `<section class="view" id="document" data-nav="documents" aria-labelledby="document-h">` +
-      `<h2 id="document-h" tabindex="-1">Document</h2><div id="document-body">` +
-      `<p class="muted">Open a document from <a href="#documents">the list of all documents</a>.</p></div></section>\n`,
-  );
-  parts.push(
-    `<section class="view" id="duplicate-set" data-nav="duplicates" aria-labelledby="duplicate-set-h">` +
-      `<h2 id="duplicate-set-h" tabindex="-1">Near-duplicate set</h2><div id="duplicate-set-body">` +
-      `<p class="muted">Choose a set in the <a href="#duplicates">list of near-duplicate sets</a>.</p></div></section>\n`,
-  );
-  parts.push(
-    '</main>\n',
-    `<script type="application/json" id="${REPORT_DATA_ELEMENT_ID}">${jsonForScript(reportPayload(data))}</script>\n`,
-    ...textChunks(data).map((c, i) => `<script type="application/json" id="${REPORT_TEXT_ELEMENT_PREFIX}${i}">${jsonForScript(c)}</script>\n`),
-    `<script>${REPORT_SCRIPT}</script>\n</body>\n</html>\n`,
-  );
+  parts.push(...pageTail(data));
   return parts.join('');
 }
 

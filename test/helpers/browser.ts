@@ -17,6 +17,8 @@ import { groupAverageLink } from '../../src/cluster/tree.js';
 import { groupSeparation } from '../../src/cluster/quality.js';
 import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../../src/near-copies.js';
 import { reportFromRun } from '../../src/report/report-from-run.js';
+import { mergeNames } from '../../src/report/report-extras.js';
+import { groupTrends } from '../../src/trends/index.js';
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 
@@ -132,7 +134,7 @@ export function wordDiff(representative: string, text: string): ReportDiffPiece[
  * from {@link groupMap}, the average-link tree between the three groups, and two
  * near-duplicate sets with word diffs.
  */
-export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplicates?: boolean } = {}): ReportData {
+export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplicates?: boolean; dated?: boolean } = {}): ReportData {
   const docs = tinyCorpus(options.hostile);
   const vocab = new Map<string, number>();
   for (const d of docs) for (const w of d.text.split(/\s+/).filter(Boolean)) if (!vocab.has(w)) vocab.set(w, vocab.size);
@@ -171,7 +173,13 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
       size: sizes[g],
       cohesion: members.reduce((s, i) => s + fit[i], 0) / members.length,
       separation,
-      terms: top.map((t) => ({ term: options.hostile && g === 0 && t === top[0] ? HOSTILE.svg : terms[t], weight: centroids[g][t] })),
+      terms: top.map((t) => ({
+        term: options.hostile && g === 0 && t === top[0] ? HOSTILE.svg : terms[t],
+        weight: centroids[g][t],
+        // Shares of documents containing the term, in the group and elsewhere (counted here from the texts).
+        inGroup: members.filter((i) => docs[i].text.split(' ').includes(terms[t])).length / members.length,
+        outside: docs.filter((d, i) => d.group !== g && d.text.split(' ').includes(terms[t]) && i >= 0).length / (docs.length - members.length),
+      })),
       exemplars: byFit.slice(0, 2).map((i) => docs[i].id),
     };
   });
@@ -225,6 +233,42 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
       },
     ],
   };
+  // Export columns: a channel and a creation time (ISO 8601 UTC) per ticket, spread over three weeks of 2029.
+  const columns = options.hostile ? [HOSTILE.img, 'created'] : ['channel', 'created'];
+  const created = docs.map((_, i) => `2029-01-${String(1 + ((i * 5) % 21)).padStart(2, '0')}T0${i % 10}:30:00Z`);
+  if (options.hostile) created[3] = HOSTILE.script;
+  const channel = docs.map((_, i) => (options.hostile && i === 0 ? HOSTILE.comment : ['mail', 'chat', 'phone'][i % 3]));
+  // Runner-up group of each grouped document and the margin, by the same cosines as the fits.
+  const next = docs.map((d, i) => {
+    if (d.group < 0) return { next: -1, margin: Number.NaN };
+    let best = -1;
+    let cos = -Infinity;
+    for (let g = 0; g < k; g++) {
+      if (g === d.group) continue;
+      const c = dot(vectors[i], centroids[g]);
+      if (c > cos) [best, cos] = [g, c];
+    }
+    return { next: best, margin: fit[i] - cos };
+  });
+  const similarity: number[] = [];
+  for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) similarity.push(dot(centroids[a], centroids[b]));
+  const trends = options.dated
+    ? (() => {
+        const t = groupTrends(created, Int32Array.from(docs, (d) => d.group), k);
+        const p = t.periods.length;
+        return {
+          column: 'created',
+          granularity: t.granularity,
+          zone: 'UTC',
+          periods: t.periods,
+          counts: Array.from({ length: k }, (_, g) => Array.from(t.counts.subarray(g * p, g * p + p))),
+          rising: Array.from(t.rising),
+          unparsed: t.unparsed.length,
+          unparsedIds: Array.from(t.unparsed, (i) => docs[i].id),
+          periodOf: t.periodOf,
+        };
+      })()
+    : null;
   return {
     title: options.hostile ? `sheaf — ${HOSTILE.close}` : 'sheaf — tiny tickets',
     createdAt: '2026-01-02T03:04:05.000Z',
@@ -243,7 +287,30 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
       group: d.group,
       fit: fit[i],
       duplicateSet: setOf.get(d.id) ?? -1,
+      next: next[i].next,
+      margin: next[i].margin,
+      fields: [channel[i], created[i]],
+      text: options.hostile && i === 2 ? `${HOSTILE.img} ${d.text}` : d.text,
+      ...(i === 0 ? { cleaned: d.text.split(' ').slice(0, 4).join(' ') } : {}),
+      ...(trends && trends.periodOf[i] >= 0 ? { period: trends.periods[trends.periodOf[i]] } : {}),
     })),
+    columns,
+    similarity,
+    ...(options.tree === false ? {} : { mergeNames: mergeNames(groups, merges) }),
+    ...(trends
+      ? {
+          trends: {
+            column: trends.column,
+            granularity: trends.granularity,
+            zone: trends.zone,
+            periods: trends.periods,
+            counts: trends.counts,
+            rising: trends.rising,
+            unparsed: trends.unparsed,
+            unparsedIds: trends.unparsedIds,
+          },
+        }
+      : {}),
     ...(options.duplicates === false ? {} : { duplicates }),
   };
 }
