@@ -25,6 +25,9 @@ export function duplicatesReportData(run: Pick<DuplicateRun, 'docs' | 'inputOrde
   const rows = run.docs;
   const o = run.options;
   const by = o.by === 'shingles' ? `resemblance of ${o.shingle}-word shingles` : 'cosine of TF-IDF vectors';
+  const seen = new Set<string>();
+  for (const d of rows) for (const key of d.fields.keys()) seen.add(key);
+  const columns = [...seen];
   const documents: ReportData['documents'][number][] = [];
   run.inputOrder.forEach((r, i) => {
     if (run.setOf[r]! < 0) return;
@@ -36,6 +39,7 @@ export function duplicatesReportData(run: Pick<DuplicateRun, 'docs' | 'inputOrde
       group: -1,
       fit: Number.NaN,
       duplicateSet: run.setOf[r]!,
+      fields: columns.map((c) => rows[r]!.fields.get(c) ?? ''),
       text: original ?? rows[r]!.text,
       ...(original !== undefined && original !== rows[r]!.text ? { cleaned: rows[r]!.text } : {}),
       ...(link ? { link } : {}),
@@ -53,6 +57,7 @@ export function duplicatesReportData(run: Pick<DuplicateRun, 'docs' | 'inputOrde
     counts: { documents: rows.length, grouped: 0, withoutTerms: 0, skipped: context.skipped, terms: 0 },
     groups: [],
     documents,
+    columns,
     duplicates: {
       threshold: o.threshold,
       by,

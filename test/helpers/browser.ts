@@ -235,7 +235,7 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
   };
   // Export columns: a channel and a creation time (ISO 8601 UTC) per ticket, spread over three weeks of 2029.
   const columns = options.hostile ? [HOSTILE.img, 'created'] : ['channel', 'created'];
-  const created = docs.map((_, i) => `2029-01-${String(1 + ((i * 5) % 21)).padStart(2, '0')}T0${i % 10}:30:00Z`);
+  const created = docs.map((_, i) => new Date(Date.UTC(2029, 0, 1 + ((i * 13) % 80), i % 10, 30)).toISOString());
   if (options.hostile) created[3] = HOSTILE.script;
   const channel = docs.map((_, i) => (options.hostile && i === 0 ? HOSTILE.comment : ['mail', 'chat', 'phone'][i % 3]));
   // Runner-up group of each grouped document and the margin, by the same cosines as the fits.
