@@ -279,7 +279,7 @@ describe('the demo tickets with every view', () => {
       await go(o.page, '#relations');
       await shot(o.page, 'relations-matrix');
       await go(o.page, '#group-0');
-      await shot(o.page, 'group-terms');
+      await shot(o.page, 'group-terms', false);
       await go(o.page, '#doc-3');
       await shot(o.page, 'reader-demo');
       const set = data.duplicates!.sets.find((s) => s.members.some((m) => m.diff?.some((p) => p.kind !== 'same')))!;
@@ -424,4 +424,33 @@ describe('hostile text in the new places never runs', () => {
       await o.context.close();
     }
   });
+});
+
+describe('100,000 documents with texts', () => {
+  it('opens without parsing the texts, reads one document, and searches the texts', async () => {
+    const { largeReport } = await import('./helpers/browser.js');
+    const n = 100_000;
+    const base = largeReport(n, 20);
+    // Every 7th document's text holds the word "kelp" (titles never do).
+    const data: ReportData = {
+      ...base,
+      documents: base.documents.map((d, i) => ({ ...d, text: `Ticket ${i}: the ${i % 7 === 0 ? 'kelp' : 'rope'} near berth ${i % 97} needs a look.` })),
+    };
+    const html = renderReport(data);
+    const o = await open(html);
+    try {
+      // No text block is parsed before a document is opened or searched: the page's data block has no text in it.
+      expect(o.errors).toEqual([]);
+      await go(o.page, '#doc-99999');
+      expect(await o.page.locator('#document .doc-text').textContent()).toBe(data.documents[99_999].text);
+      await go(o.page, '#group-0');
+      const view = o.page.locator('#group-0');
+      await view.locator('input[type="search"]').fill('kelp');
+      // Group 0 holds i ≡ 0 (mod 20); of those, the ones with i ≡ 0 (mod 7): i ≡ 0 (mod 140).
+      await expect.poll(() => view.locator('table.rows').getAttribute('data-count'), { timeout: 60_000 }).toBe(String(Math.ceil(n / 140)));
+      expect(o.errors).toEqual([]);
+    } finally {
+      await o.context.close();
+    }
+  }, 180_000);
 });

@@ -233,7 +233,7 @@ function makeTable(mount, cfg) {
       var row = el('tr');
       for (var c = 0; c < cfg.columns.length; c++) {
         var col = cfg.columns[c];
-        var td = el('td', { className: col.num ? 'num' : col.text ? 'text' : null, 'data-label': col.title });
+        var td = el('td', { className: col.cls || (col.num ? 'num' : col.text ? 'text' : null), 'data-label': col.title });
         append(td, col.cell(item));
         row.appendChild(td);
       }
@@ -290,7 +290,7 @@ function docColumns(showGroup) {
   if (data.duplicates) cols.push({ key: 'set', title: 'Near-duplicate set', cell: function (i) { return setLink(D.duplicateSet[i]); } });
   COLS.names.forEach(function (name, c) {
     var values = COLS.values[c];
-    cols.push({ key: 'col-' + c, title: name, text: true, sort: function (a, b) { return collator.compare(values[a], values[b]); }, cell: function (i) { var v = values[i]; return v.length > 60 ? el('span', { title: shortText(v, 400), text: shortText(v, 60) }) : v; } });
+    cols.push({ key: 'col-' + c, title: name, text: true, cls: 'col', sort: function (a, b) { return collator.compare(values[a], values[b]); }, cell: function (i) { var v = values[i]; return v.length > 40 ? el('span', { title: shortText(v, 400), text: shortText(v, 40) }) : v; } });
   });
   return cols;
 }

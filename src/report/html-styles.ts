@@ -118,6 +118,7 @@ a.glink { text-decoration: none; }
 a.glink .gname { text-decoration: underline; }
 h2 .gno { font-size: .6em; vertical-align: .3em; }
 svg .gno-svg { font-weight: 700; fill: var(--muted); }
+td.col { white-space: nowrap; }
 .table-wrap, .scroll { overflow-x: auto; max-width: 100%; }
 fieldset.filters { display: flex; flex-wrap: wrap; gap: .5rem 1rem; align-items: end; border: 1px solid var(--line); border-radius: 6px; padding: .5rem .75rem .75rem; margin: .5rem 0; }
 fieldset.filters legend { color: var(--muted); font-size: .875rem; padding: 0 .25rem; }
@@ -168,6 +169,7 @@ table.counts-grid th, table.counts-grid td { padding: .2rem .4rem; }
   table.rows td, table.rows-stack td { border: 0; padding: .15rem 0; display: grid; grid-template-columns: 6.5rem minmax(0, 1fr); gap: .5rem; text-align: left; }
   table.rows td::before, table.rows-stack td::before { content: attr(data-label); color: var(--muted); font-size: .85rem; overflow-wrap: anywhere; }
   table.rows td[colspan] { display: block; }
+  table.rows td.col { white-space: normal; overflow-wrap: anywhere; }
   table.rows td[colspan]::before { content: none; }
   .tools input[type="search"] { min-width: 0; width: 100%; }
   .filter select, .filter input { max-width: 100%; }
