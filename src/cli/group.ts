@@ -29,7 +29,7 @@ import { visibleJson, visibleLines } from './visible.js';
 import { withFileDigests, type RunFile } from './organize.js';
 import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
-import { documentLinks, pageSize, trendsFromFlag } from './report-inputs.js';
+import { assertDateColumn, documentLinks, pageSize, trendsFromFlag } from './report-inputs.js';
 import { trendsRecord } from '../report/report-extras.js';
 
 export type { GroupFlags } from './inputs.js';
@@ -98,6 +98,8 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const readMs = now() - t0;
   checkMemory(docs.reduce((a, d) => a + d.text.length, 0), limit, `the text read (${docs.length} documents)`);
   if (flags.truth) assertTruthColumn(docs, flags.truth);
+  const dateFlag = (flags as { date?: string }).date;
+  if (dateFlag !== undefined) assertDateColumn(docs, dateFlag);
 
   // Core.
   const progress = progressReporter(io, flags.quiet ?? false);

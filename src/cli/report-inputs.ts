@@ -61,13 +61,7 @@ export async function trendsFromFlag(result: GroupResult, column: string, export
       }),
     );
   } else {
-    if (!docs.some((d) => d.fields.has(column))) {
-      const columns = [...new Set(docs.flatMap((d) => [...d.fields.keys()]))];
-      throw new UsageError(
-        `--date column ${JSON.stringify(column)} is not in the input; ${columns.length ? `its columns are: ${columns.join(', ')}` : `it has no columns besides the text (--date ${DATE_MTIME} reads the files' modification times)`}`,
-        'date',
-      );
-    }
+    assertDateColumn(docs, column);
     dates = docs.map((d) => d.fields.get(column) ?? '');
   }
   const withOffset = dates.filter((v) => v !== '' && hasOffset(v)).length;
@@ -78,6 +72,16 @@ export async function trendsFromFlag(result: GroupResult, column: string, export
         ? 'UTC (the values carry no time zone; read as UTC)'
         : `UTC (${withOffset} value(s) carry Z or an offset and were converted to UTC; values without one were read as UTC)`;
   return { column, zone, trends: groupTrends(dates, result.partition.assignments, result.partition.groups) };
+}
+
+/** Throws the UsageError of `--date COLUMN` when no document has that column (`mtime` passes). */
+export function assertDateColumn(docs: readonly Doc[], column: string): void {
+  if (column === DATE_MTIME || docs.some((d) => d.fields.has(column))) return;
+  const columns = [...new Set(docs.flatMap((d) => [...d.fields.keys()]))];
+  throw new UsageError(
+    `--date column ${JSON.stringify(column)} is not in the input; ${columns.length ? `its columns are: ${columns.join(', ')}` : `it has no columns besides the text (--date ${DATE_MTIME} reads the files' modification times)`}`,
+    'date',
+  );
 }
 
 /** `1.2 MB`-style size of a page (decimal units). */
