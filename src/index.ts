@@ -78,6 +78,8 @@ export { assignedCsv } from './report/assigned.js';
 export { modelSourceOf, modelJsonOf } from './model/source.js';
 export { renderReport } from './report/html.js';
 export { reportFromRun } from './report/report-from-run.js';
+export { duplicatesReportData } from './report/report-duplicates.js';
+export { groupTrends, trendRows, parseDateValue, isoWeek, type GroupTrends, type Granularity } from './trends/index.js';
 export type { ReportData } from './report/report-data.js';
 export { csvText, guardCell } from './report/csv.js';
 export { writeOutputFolder, writeOutput, MARKER, removeLiveStagingSync, removeStaleStaging, type OutputWrite, type OutputManifest } from './report/folder.js';
