@@ -5,7 +5,7 @@ import { DomUtils, parseDocument } from 'htmlparser2';
 import type { Document, Element } from 'domhandler';
 import { renderReport, REPORT_DATA_ELEMENT_ID, REPORT_TEXT_ELEMENT_PREFIX } from '../src/report/html.js';
 import { escapeHtml, formatCount, formatFixed, jsonForScript, truncate } from '../src/report/html-escape.js';
-import { reportPayload, TEXT_CHUNK, type ReportPayload } from '../src/report/html-payload.js';
+import { COLUMN_VALUE_CHARS, reportPayload, TEXT_CHUNK, type ReportPayload } from '../src/report/html-payload.js';
 import { REPORT_SCRIPT } from '../src/report/html-client.js';
 import { similarityAxis, treeLayout } from '../src/report/html-charts.js';
 import type { ReportData } from '../src/report/report-data.js';
@@ -400,5 +400,17 @@ describe('renderReport property: arbitrary strings never escape their place', ()
       }),
       { numRuns: 150, seed: 7 },
     );
+  });
+});
+
+describe('column values in the data block', () => {
+  it('are cut at COLUMN_VALUE_CHARS characters with an ellipsis (the whole text stays in the text blocks)', () => {
+    const base = tinyReport();
+    const long = 'x'.repeat(COLUMN_VALUE_CHARS + 5);
+    const data: ReportData = { ...base, documents: base.documents.map((d, i) => (i === 0 ? { ...d, fields: [long, 'y'], text: long } : d)) };
+    const p = reportPayload(data);
+    expect(p.columns.values[0][0]).toBe('x'.repeat(COLUMN_VALUE_CHARS - 1) + '…');
+    expect(p.columns.values[1][0]).toBe('y');
+    expect(p.columns.values[0][1]).toBe(base.documents[1].fields![0]);
   });
 });

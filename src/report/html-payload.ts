@@ -16,6 +16,12 @@ import { roundOrNull } from './html-escape.js';
 /** Decimals kept for fits and similarities in the embedded data (and shown by the page). */
 export const PAYLOAD_DIGITS = 3;
 
+/**
+ * Longest column value kept in the page's main data block (in characters); a longer one (typically the
+ * export's text column, which the reader shows in full from the text blocks) is cut and ends with `…`.
+ */
+export const COLUMN_VALUE_CHARS = 120;
+
 /** Documents per embedded text block. */
 export const TEXT_CHUNK = 1000;
 
@@ -111,7 +117,7 @@ export function reportPayload(data: ReportData): ReportPayload {
     documents.margin[i] = roundOrNull(d.margin ?? Number.NaN, PAYLOAD_DIGITS);
     documents.link[i] = d.link === undefined ? null : String(d.link);
     documents.period[i] = d.period === undefined ? -1 : periodIndex.get(d.period) ?? -1;
-    for (let c = 0; c < names.length; c++) values[c][i] = String(d.fields?.[c] ?? '');
+    for (let c = 0; c < names.length; c++) values[c][i] = cutValue(String(d.fields?.[c] ?? ''));
   }
   const k = data.groups.length;
   const merges = data.tree?.merges ?? [];
@@ -156,4 +162,13 @@ export function reportPayload(data: ReportData): ReportPayload {
 /** The value if it is a safe integer, else `fallback` (ids and counts only ever reach the page as integers). */
 function wholeOr(value: number, fallback: number): number {
   return Number.isSafeInteger(value) ? value : fallback;
+}
+
+/** A column value cut to {@link COLUMN_VALUE_CHARS} characters (never inside a surrogate pair), `…` when cut. */
+function cutValue(v: string): string {
+  if (v.length <= COLUMN_VALUE_CHARS) return v;
+  let end = COLUMN_VALUE_CHARS - 1;
+  const code = v.charCodeAt(end - 1);
+  if (code >= 0xd800 && code <= 0xdbff) end--;
+  return v.slice(0, end) + '…';
 }

@@ -21,7 +21,7 @@ import { createHash } from 'node:crypto';
 import type { ReportData } from './report-data.js';
 import { escapeHtml as e, formatCount, formatFixed, formatShare, jsonForScript } from './html-escape.js';
 import { groupHref, groupName, sizesChart, treeChart, treeLayout } from './html-charts.js';
-import { reportPayload, textChunks } from './html-payload.js';
+import { COLUMN_VALUE_CHARS, reportPayload, textChunks } from './html-payload.js';
 import { evaluationBody, groupLink, groupNumber, similarityGraph, similarityMatrix, sparkline, termTable, trendsBody } from './html-views.js';
 import { REPORT_CSS } from './html-styles.js';
 import { REPORT_SCRIPT } from './html-client.js';
@@ -107,7 +107,7 @@ export function renderReport(data: ReportData): string {
   parts.push(treeView(data));
   parts.push(
     view('documents', 'All documents', [
-      `<p>${e(formatCount(data.documents.length))} documents in input order. Search by id, title or text; filter by group, fit, near-copies or a column of the export; sort by a column heading; open a document by its id.</p>`,
+      `<p>${e(formatCount(data.documents.length))} documents in input order. Search by id, title or text; filter by group, fit, near-copies or a column of the export (values longer than ${COLUMN_VALUE_CHARS} characters are cut here; the reader shows the whole text); sort by a column heading; open a document by its id.</p>`,
       mountPoint('all', ''),
     ]),
   );
