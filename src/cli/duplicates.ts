@@ -90,7 +90,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     ['duplicates.csv', duplicatesCsv(src)],
     ['duplicates.json', duplicatesJsonChunks(src)],
     [PAIRS_FILE, nearCopyPairsCsvChunks(src)],
-    ...duplicatesReportFile(run, inputs, read, docs, flags.report !== false, io.cwd, outDir, note),
+    ...duplicatesReportFile(run, inputs, read, docs, flags.report !== false, io.cwd, outDir),
     [
       'run.json',
       duplicatesRunJson(run, {

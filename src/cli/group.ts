@@ -29,7 +29,7 @@ import { visibleJson, visibleLines } from './visible.js';
 import { withFileDigests, type RunFile } from './organize.js';
 import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
-import { assertDateColumn, documentLinks, pageSize, trendsFromFlag } from './report-inputs.js';
+import { assertDateColumn, documentLinks, trendsFromFlag } from './report-inputs.js';
 import { trendsRecord } from '../report/report-extras.js';
 
 export type { GroupFlags } from './inputs.js';
@@ -158,7 +158,6 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
         : null,
   });
   const pageBytes = files.has('report.html') ? Buffer.byteLength(files.get('report.html') as string) : null;
-  if (pageBytes !== null) note(`sheaf: note: report.html is ${pageSize(pageBytes)} (texts load when a document is opened or searched)`);
   const n = read.docs.length;
   const timings: StageTiming[] = [
     { stage: 'read', ms: readMs, items: n },

@@ -2,7 +2,7 @@
  * EDGE: what `sheaf group` hands the report and trends besides the result:
  * links from the output folder to the input files, the date of each document
  * (an export column, or a file's modification time with `--date mtime`), and
- * the size of the written page.
+ * the report of `sheaf duplicates`.
  *
  * @module
  */
@@ -84,15 +84,9 @@ export function assertDateColumn(docs: readonly Doc[], column: string): void {
   );
 }
 
-/** `1.2 MB`-style size of a page (decimal units). */
-export function pageSize(bytes: number): string {
-  if (bytes < 1000) return `${bytes} B`;
-  if (bytes < 1e6) return `${(bytes / 1e3).toFixed(1)} kB`;
-  return `${(bytes / 1e6).toFixed(1)} MB`;
-}
 
 /**
- * `report.html` of `sheaf duplicates` as a `[name, content]` entry (none with `--no-report`), with a note of its size.
+ * `report.html` of `sheaf duplicates` as a `[name, content]` entry (none with `--no-report`).
  * `docs` are the documents as searched (cleaned), `read.docs` as written.
  */
 export function duplicatesReportFile(
@@ -103,7 +97,6 @@ export function duplicatesReportFile(
   wanted: boolean,
   cwd: string,
   outDir: string,
-  note: (line: string) => void,
 ): [string, string][] {
   if (!wanted) return [];
   const html = renderReport(
@@ -116,6 +109,5 @@ export function duplicatesReportFile(
       links: documentLinks(docs, read.exportRows, cwd, outDir),
     }),
   );
-  note(`sheaf: note: report.html is ${pageSize(Buffer.byteLength(html))}`);
   return [['report.html', html]];
 }
