@@ -83,6 +83,8 @@ export { assignedCsv } from './report/assigned.js';
 export { modelSourceOf, modelJsonOf } from './model/source.js';
 export { renderReport } from './report/html.js';
 export { reportFromRun } from './report/report-from-run.js';
+export { duplicatesReportData } from './report/report-duplicates.js';
+export { groupTrends, trendRows, parseDateValue, isoWeek, type GroupTrends, type Granularity } from './trends/index.js';
 export type { ReportData } from './report/report-data.js';
 export { csvText, guardCell, withCsvBom, UTF8_BOM, type CsvLayout } from './report/csv.js';
 export type { ReadProgress } from './ingest/progress.js';

@@ -29,6 +29,7 @@ import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } fro
 import { refineGroups } from './cluster/unsorted.js';
 import { GUARD_SPARE_TERMS, groupNameStopwords, guardNames } from './label/names.js';
 import { reduceForGrouping, reductionFor, termSpacePartition, type ReducedGrouping } from './reduce/index.js';
+import { nextGroupsOf, type NextGroups } from './cluster/second.js';
 
 export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
 export type { PipelineHooks, StageTiming } from './types.js';
@@ -74,6 +75,8 @@ export interface GroupResultCommon {
   readonly unsorted: { readonly rows: Int32Array; readonly threshold: number };
   /** Per group: 1 when flagged as mixed (cohesion low relative to the others). */
   readonly mixed: Uint8Array;
+  /** Per row: the closest group other than its own and the margin (own cosine − its cosine), in the space the groups were formed in. */
+  readonly next: NextGroups;
   readonly timings: readonly StageTiming[];
   /** With `reduce`: the decomposition, the reduced rows and the reduced centres the groups were formed on (partition.centroids are term-space). */
   readonly reduced: ReducedGrouping | null;
@@ -198,6 +201,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
     cohesion: groupCohesion(matrix, partition.assignments, k, partition.centroids),
     separation: groupSeparation(partition.centroids, matrix.cols, k),
     silhouette: sampledSilhouette(matrix, partition.assignments, k, { sampleSize: resolved.choose.sampleSize, seed: resolved.seed }),
+    next: nextGroupsOf(grouping, refined.partition.centroids, k, partition.assignments),
   }));
 
   const groups = time('label', nonEmpty, () => {
@@ -224,7 +228,8 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
     partition,
     tree,
     choice: formed.choice,
-    quality,
+    quality: { cohesion: quality.cohesion, separation: quality.separation, silhouette: quality.silhouette },
+    next: quality.next,
     groups,
     emptyRows: empty,
     unsorted: { rows: refined.unsorted, threshold: refined.threshold },

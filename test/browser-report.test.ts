@@ -121,9 +121,10 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
       bySize.map((g) => `Group ${g.id}: ${g.label}, ${formatCount(g.size)} documents, cohesion ${formatFixed(g.cohesion, 3)}`),
     );
     const labels = await o.page.locator('#overview svg.sizes-chart text.bar-label').evaluateAll((ts: any[]) =>
-      ts.map((t) => t.firstChild.textContent),
+      ts.map((t) => [t.firstChild.textContent, t.firstChild.nextSibling.textContent]),
     );
-    expect(labels).toEqual(bySize.map((g) => `${g.id} · ${g.label}`));
+    // The number apart (its own tspan), then the name.
+    expect(labels).toEqual(bySize.map((g) => [String(g.id), ` ${g.label}`]));
     const values = await o.page.locator('#overview svg.sizes-chart a text.bar-value').allTextContents();
     expect(values.filter((_, i) => i % 2 === 0)).toEqual(bySize.map((g) => formatCount(g.size)));
     expect(await o.page.locator('#overview dl.counts dd').first().textContent()).toBe(formatCount(data.counts.documents));
@@ -135,7 +136,8 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
     await o.page.waitForFunction((h) => (globalThis as any).location.hash === h, `#group-${g.id}`);
     expect(await visibleViews(o.page)).toEqual([`group-${g.id}`]);
     const view = o.page.locator(`#group-${g.id}`);
-    expect(await view.locator('h2').textContent()).toBe(`Group ${g.id} · ${g.label}`);
+    expect(await view.locator('h2 .gno').textContent()).toBe(String(g.id));
+    expect(await view.locator('h2').textContent()).toBe(`${g.id} ${g.label}`);
     expect(await view.locator('table.rows').getAttribute('data-count')).toBe(String(g.size));
     expect(await view.locator('p.status').textContent()).toBe(`Showing 1–${Math.min(50, g.size)} of ${formatCount(g.size)} documents.`);
     const expected = groupRowsByFit(data, g.id).slice(0, 50);
@@ -146,14 +148,14 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
     expect(await view.locator('th[aria-sort="descending"]').textContent()).toBe('Fit');
   });
 
-  it('searching filters the rows of a group', async () => {
+  it('searching filters the rows of a group (ids, titles, columns and texts)', async () => {
     const g = data.groups.slice().sort((a, b) => b.size - a.size)[0];
     const rows = data.documents.filter((d) => d.group === g.id);
     // The commonest word of 4+ letters in this group's titles.
     const tally = new Map<string, number>();
     for (const d of rows) for (const w of new Set(d.title.toLowerCase().match(/[a-z]{4,}/g) ?? [])) tally.set(w, (tally.get(w) ?? 0) + 1);
     const q = [...tally.entries()].sort((a, b) => b[1] - a[1] || (a[0] < b[0] ? -1 : 1))[0][0];
-    const expected = rows.filter((d) => `${d.id}\n${d.title}`.toLowerCase().includes(q));
+    const expected = rows.filter((d) => [d.id, d.title, ...(d.fields ?? []), d.text ?? ''].join('\n').toLowerCase().includes(q));
     expect(expected.length).toBeGreaterThan(0);
     expect(expected.length).toBeLessThan(rows.length);
     const view = o.page.locator(`#group-${g.id}`);
@@ -161,7 +163,6 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
     await expect.poll(() => view.locator('table.rows').getAttribute('data-count'), { timeout: 10_000 }).toBe(String(expected.length));
     const titles = await view.locator('table.rows tbody tr td:nth-child(2)').allTextContents();
     expect(titles.length).toBe(Math.min(50, expected.length));
-    for (const t of titles) expect(t.toLowerCase()).toContain(q);
     expect(await view.locator('p.status').textContent()).toContain(`matching “${q.toUpperCase()}” (of ${formatCount(rows.length)})`);
     await view.locator('input[type="search"]').fill('');
     await expect.poll(() => view.locator('table.rows').getAttribute('data-count'), { timeout: 10_000 }).toBe(String(rows.length));
@@ -199,7 +200,7 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
     expect(await view.getByRole('button', { name: '← Previous' }).isDisabled()).toBe(true);
   });
 
-  it('near-duplicates: the list of sets, and a set page with its word diff marked by <ins>/<del> and text markers', async () => {
+  it('near-duplicates: the list of sets, and a set page with its word diff marked by <ins>/<del>, no bracket notation', async () => {
     const dup = data.duplicates!;
     await o.page.locator('nav.views a[href="#duplicates"]').click();
     const list = o.page.locator('#duplicates');
@@ -217,12 +218,16 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
     const diffs = await view.locator('p.diff').allTextContents();
     expect(diffs).toEqual(
       withDiff.map((m) =>
-        m.diff!.map((p) => (p.kind === 'added' ? `{+${p.text}+}` : p.kind === 'removed' ? `[-${p.text}-]` : p.text)).join(''),
+        m.diff!.map((p) => p.text).join(''),
       ),
     );
     const first = withDiff[0].diff!;
     const ins = await view.locator('article.member').nth(set.members.findIndex((m) => m.id === withDiff[0].id)).locator('ins').allTextContents();
-    expect(ins).toEqual(first.filter((p) => p.kind === 'added').map((p) => `{+${p.text}+}`));
+    expect(ins).toEqual(first.filter((p) => p.kind === 'added').map((p) => p.text));
+    expect(diffs.join('')).not.toMatch(/\{\+|\+\}|\[-|-\]/);
+    // The marks are drawn by the style sheet (a filled corner for added words, a hollow one for removed).
+    const marks = await view.locator('ins').first().evaluate((n: any) => (globalThis as any).getComputedStyle(n, '::before').content);
+    expect(marks).toBe('"\u25B8"');
     const similarity = await view.locator('article.member p', { hasText: 'Similarity to the representative' }).first().textContent();
     expect(similarity).toBe(`Similarity to the representative: ${formatFixed(withDiff[0].similarity, 3)}`);
   });
@@ -242,9 +247,10 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
     expect(await visibleViews(o.page)).toEqual(['duplicate-set']);
   });
 
-  it('map and tree draw every group; a leaf of the tree opens its group', async () => {
-    await go(o.page, '#map');
-    expect(await o.page.locator('#map svg circle').count()).toBe(data.groups.length);
+  it('relations and tree draw every group; a leaf of the tree opens its group', async () => {
+    await go(o.page, '#relations');
+    expect(await o.page.locator('#relations svg.sim-matrix rect').count()).toBe(data.groups.length ** 2);
+    expect(await o.page.locator('#relations svg.sim-graph circle').count()).toBe(data.groups.length);
     await go(o.page, '#tree');
     expect(await visibleViews(o.page)).toEqual(['tree']);
     expect(await o.page.locator('#tree svg path.branch').count()).toBe(data.tree!.merges.length);
@@ -274,7 +280,7 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
       seen.push(f.href);
       if (f.href && /^#group-\d+$/.test(f.href)) hit = f;
     }
-    expect(seen.slice(0, 6)).toEqual(['#overview', '#map', '#tree', '#documents', '#duplicates', hit?.href]);
+    expect(seen.slice(0, 6)).toEqual(['#overview', '#relations', '#tree', '#documents', '#duplicates', hit?.href]);
     expect(hit).not.toBeNull();
     expect(hit!.outline).toBe('solid 3px');
     await o.page.keyboard.press('Enter');
@@ -286,13 +292,13 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
 
   it('the skip link moves focus to the content without changing the view or the hash', async () => {
     await o.page.goto(o.url);
-    await go(o.page, '#map');
+    await go(o.page, '#relations');
     await o.page.locator('a.skip').focus();
     await o.page.keyboard.press('Enter');
     expect(await o.page.evaluate(() => (globalThis as any).document.activeElement.id)).toBe('main');
-    expect(await o.page.evaluate(() => (globalThis as any).location.hash)).toBe('#map');
-    expect(await visibleViews(o.page)).toEqual(['map']);
-    // The next Tab lands on the first link inside the content: a circle of the map.
+    expect(await o.page.evaluate(() => (globalThis as any).location.hash)).toBe('#relations');
+    expect(await visibleViews(o.page)).toEqual(['relations']);
+    // The next Tab lands on the first link inside the content: a row label of the similarity grid.
     await o.page.keyboard.press('Tab');
     expect(await o.page.evaluate(() => (globalThis as any).document.activeElement.getAttribute('href'))).toMatch(/^#group-\d+$/);
   });
@@ -320,7 +326,7 @@ describe('report of a real run on the demo tickets (corpus-demo/tickets.csv, 8 g
 describe('hostile titles, ids, labels and terms', () => {
   const data = tinyReport({ hostile: true });
   const html = renderReport(data);
-  const hashes = ['#overview', '#map', '#tree', '#documents', '#ungrouped', '#group-0', '#group-1', '#group-2', '#duplicates', '#set-0', '#set-1'];
+  const hashes = ['#overview', '#relations', '#doc-0', '#doc-2', '#doc-3', '#tree', '#documents', '#ungrouped', '#group-0', '#group-1', '#group-2', '#duplicates', '#set-0', '#set-1'];
 
   for (const bypassCSP of [false, true]) {
     it(`no script from the data runs, no dialog opens${bypassCSP ? ' (CSP switched off: escaping alone)' : ' (CSP on)'}`, async () => {
@@ -358,7 +364,7 @@ describe('hostile titles, ids, labels and terms', () => {
             outsideLinks: all.filter((el: any) => el.hasAttribute('href') && !el.getAttribute('href').startsWith('#')).length,
           };
         });
-        expect(shape).toEqual({ scripts: 2, embedded: 0, handlers: [], outsideLinks: 0 });
+        expect(shape).toEqual({ scripts: 3, embedded: 0, handlers: [], outsideLinks: 0 });
         // The unknown view name is shown literally.
         expect(await o.page.locator('#route-notice').textContent()).toBe(`This report has no view called “${HOSTILE.img}”; showing the overview.`);
       } finally {
@@ -373,10 +379,10 @@ describe('hostile titles, ids, labels and terms', () => {
       expect(await o.page.locator('h1').textContent()).toBe(data.title);
       expect(await o.page.title()).toBe(`Overview — ${data.title}`);
       await go(o.page, '#group-0');
-      expect(await o.page.locator('#group-0 h2').textContent()).toBe(`Group 0 · ${HOSTILE.close}`);
+      expect(await o.page.locator('#group-0 h2').textContent()).toBe(`0 ${HOSTILE.close}`);
       const titles = await o.page.locator('#group-0 table.rows tbody td:nth-child(2)').allTextContents();
       expect(titles).toEqual(expect.arrayContaining([HOSTILE.script, HOSTILE.close, HOSTILE.img]));
-      expect(await o.page.locator('#group-0 svg.terms-chart text.bar-label').first().evaluate((t: any) => t.lastChild.textContent)).toBe(HOSTILE.svg);
+      expect(await o.page.locator('#group-0 table.terms td strong').first().textContent()).toBe(HOSTILE.svg);
       await go(o.page, '#documents');
       const ids = await o.page.locator('#documents table.rows tbody td:first-child').allTextContents();
       expect(ids).toEqual(data.documents.map((d) => d.id));
@@ -407,7 +413,7 @@ describe('views degrade without a tree or near-duplicates', () => {
       await go(o.page, '#set-0');
       expect(await o.page.locator('#duplicate-set-body').textContent()).toBe('Near-duplicates were not searched for in this run.');
       await go(o.page, '#documents');
-      expect(await o.page.locator('#documents thead th').allTextContents()).toEqual(['ID', 'Title', 'Fit', 'Group']);
+      expect(await o.page.locator('#documents thead th').allTextContents()).toEqual(['ID', 'Title', 'Fit', 'Group', 'Margin', 'channel', 'created']);
       await go(o.page, '#ungrouped');
       expect(await o.page.locator('#ungrouped table.rows tbody td:first-child').allTextContents()).toEqual(['T-112']);
       expect(o.errors).toEqual([]);

@@ -75,7 +75,7 @@ describe('sheaf duplicates on the demo tickets', () => {
     const run = await sheaf(['duplicates', 'd.csv', '--threshold', '0.5', '--out', 'o', '--show', '1'], { cwd: dir });
     expect(run.code).toBe(0);
     expect(run.stdout).toContain('  2 (');
-    expect(run.stdout).toContain('⟦-morning⟧⟦+evening⟧');
+    expect(run.stdout).toContain('▹morning◃▸evening◂');
   });
 
   it('--by shingles compares word order: a reordered text is no copy', async () => {

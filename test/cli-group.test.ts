@@ -44,7 +44,7 @@ describe('sheaf group on the demo tickets', () => {
     const input = readCsv(demoCsv);
     const docs = readCsv(path.join(out, 'documents.csv'));
     expect(docs).toHaveLength(input.length);
-    expect(Object.keys(docs[0])).toEqual(['id', 'group', 'label', 'fit', 'duplicate_set', 'created', 'channel', 'customer', 'subject', 'body', 'category', 'priority']);
+    expect(Object.keys(docs[0])).toEqual(['id', 'group', 'label', 'fit', 'duplicate_set', 'next_group', 'next_margin', 'created', 'channel', 'customer', 'subject', 'body', 'category', 'priority']);
     docs.forEach((d, i) => {
       expect(d.id).toBe(input[i].ticket_id);
       expect(d.body).toBe(input[i].body);

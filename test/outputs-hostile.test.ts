@@ -12,6 +12,7 @@ import { sheaf, tempDir } from './helpers/cli.js';
 import { visible, visibleJson, visibleLines } from '../src/cli/visible.js';
 import { duplicatesJson, duplicatesJsonChunks, nearCopyPairsCsvChunks, type DuplicateOutputSource } from '../src/report/duplicates.js';
 import { jsonText } from '../src/report/outputs.js';
+import { diffText } from '../src/cli/duplicates.js';
 
 const root = path.resolve(__dirname, '..');
 const demoCsv = path.join(root, 'corpus-demo', 'tickets.csv');
@@ -96,6 +97,12 @@ describe('terminal output of documents holding escape sequences', () => {
     expect(run.stdout).toMatch(/^set \d+ — representative t\d+\\/m);
     expect(run.stdout).not.toMatch(RAW_BUT_NEWLINE);
     expect(run.stderr).not.toMatch(RAW_BUT_NEWLINE);
+  });
+
+  it('near-copy word changes: our own marks around spelt-out controls, no bracket notation', () => {
+    const line = visible(diffText({ pieces: [{ kind: 'same', text: 'refund ' }, { kind: 'added', text: `now${ESC}[2J` }, { kind: 'removed', text: 'later\u202e' }] }));
+    expect(line).toBe('refund ▸now\\x1b[2J◂▹later\\u202e◃');
+    expect(line).not.toMatch(/⟦|\{\+|\[-/);
   });
 
   it('evaluate shows a hostile label column name and labels spelt out', async () => {

@@ -3,11 +3,11 @@ import fc from 'fast-check';
 import { createHash } from 'node:crypto';
 import { DomUtils, parseDocument } from 'htmlparser2';
 import type { Document, Element } from 'domhandler';
-import { renderReport, REPORT_DATA_ELEMENT_ID } from '../src/report/html.js';
+import { renderReport, REPORT_DATA_ELEMENT_ID, REPORT_TEXT_ELEMENT_PREFIX } from '../src/report/html.js';
 import { escapeHtml, formatCount, formatFixed, jsonForScript, truncate } from '../src/report/html-escape.js';
-import { reportPayload, type ReportPayload } from '../src/report/html-payload.js';
+import { COLUMN_VALUE_CHARS, reportPayload, TEXT_CHUNK, type ReportPayload } from '../src/report/html-payload.js';
 import { REPORT_SCRIPT } from '../src/report/html-client.js';
-import { placeLabels, similarityAxis, treeLayout } from '../src/report/html-charts.js';
+import { similarityAxis, treeLayout } from '../src/report/html-charts.js';
 import type { ReportData } from '../src/report/report-data.js';
 import { HOSTILE, tinyReport } from './helpers/browser.js';
 
@@ -47,18 +47,26 @@ const URL_ATTRIBUTES = ['src', 'srcset', 'action', 'formaction', 'poster', 'data
 const ALLOWED_TAGS = new Set([
   'html', 'head', 'meta', 'title', 'style', 'body', 'a', 'header', 'div', 'h1', 'h2', 'h3', 'p', 'nav', 'ul', 'ol', 'li',
   'main', 'section', 'dl', 'dt', 'dd', 'strong', 'code', 'table', 'caption', 'thead', 'tbody', 'tr', 'th', 'td',
-  'details', 'summary', 'svg', 'desc', 'text', 'rect', 'circle', 'path', 'line', 'script',
+  'details', 'summary', 'svg', 'desc', 'text', 'rect', 'circle', 'path', 'line', 'script', 'span', 'tspan', 'polyline',
+  'label', 'input', 'output',
 ]);
 
 /** Checks that hold for every report: structure, safety, self-containment. */
 function checkSafe(html: string, data: ReportData): Document {
   const doc = parse(html);
   // Exactly one executable script, whose text is the constant client script, and the data block.
+  // Exactly one executable script (the last), the data block first, then the text blocks (JSON, never run).
   const s = scripts(doc);
-  expect(s).toHaveLength(2);
+  const chunks = data.documents.some((d) => d.text !== undefined) ? Math.ceil(data.documents.length / TEXT_CHUNK) : 0;
+  expect(s).toHaveLength(2 + chunks);
   expect(s[0].attribs).toEqual({ type: 'application/json', id: REPORT_DATA_ELEMENT_ID });
-  expect(s[1].attribs).toEqual({});
-  expect(DomUtils.textContent(s[1])).toBe(REPORT_SCRIPT);
+  for (let c = 0; c < chunks; c++) {
+    expect(s[1 + c].attribs).toEqual({ type: 'application/json', id: `${REPORT_TEXT_ELEMENT_PREFIX}${c}` });
+    const block = JSON.parse(DomUtils.textContent(s[1 + c])) as { original: string[] };
+    expect(block.original).toEqual(data.documents.slice(c * TEXT_CHUNK, (c + 1) * TEXT_CHUNK).map((d) => d.text ?? ''));
+  }
+  expect(s[s.length - 1].attribs).toEqual({});
+  expect(DomUtils.textContent(s[s.length - 1])).toBe(REPORT_SCRIPT);
   // The data block seen by the parser is the whole raw block: nothing in the data ended it early.
   const raw = rawDataBlock(html);
   expect(DomUtils.textContent(s[0])).toBe(raw);
@@ -101,7 +109,7 @@ describe('renderReport: self-contained page', () => {
   it('has a CSP allowing only its own inline script and style, by SHA-256 of their exact text', () => {
     const csp = cspOf(doc);
     const style = DomUtils.findOne((el) => el.name === 'style', doc.children)!;
-    const script = scripts(doc)[1];
+    const script = scripts(doc).at(-1)!;
     expect(csp).toBe(
       `default-src 'none'; script-src 'sha256-${sha256(DomUtils.textContent(script))}'; ` +
         `style-src 'sha256-${sha256(DomUtils.textContent(style))}'; base-uri 'none'; form-action 'none'`,
@@ -120,9 +128,9 @@ describe('renderReport: self-contained page', () => {
 
   it('has every view, one page per group, and navigation by hash', () => {
     const views = DomUtils.findAll((el) => el.name === 'section', doc.children).map((el) => el.attribs.id);
-    expect(views).toEqual(['overview', 'map', 'tree', 'documents', 'ungrouped', 'group-0', 'group-1', 'group-2', 'duplicates', 'duplicate-set']);
+    expect(views).toEqual(['overview', 'relations', 'tree', 'documents', 'ungrouped', 'group-0', 'group-1', 'group-2', 'duplicates', 'duplicate-set', 'document']);
     const nav = DomUtils.findAll((el) => el.name === 'a', [byId(doc, 'main').parent!.children.find((c) => (c as Element).name === 'header') as Element]);
-    expect(nav.map((a) => a.attribs.href)).toEqual(['#overview', '#map', '#tree', '#documents', '#ungrouped', '#duplicates']);
+    expect(nav.map((a) => a.attribs.href)).toEqual(['#overview', '#relations', '#tree', '#documents', '#ungrouped', '#duplicates']);
     for (const id of views) {
       const h2 = DomUtils.findOne((el) => el.name === 'h2', [byId(doc, id)])!;
       expect(h2.attribs.tabindex).toBe('-1');
@@ -151,27 +159,36 @@ describe('renderReport: self-contained page', () => {
     expect(DomUtils.textContent(byId(doc, d))).toMatch(/^Horizontal bars, one row per group \(3\)/);
     const rows = DomUtils.findAll((el) => el.name === 'tr', [DomUtils.findOne((el) => el.name === 'details', [overview])!]);
     expect(rows.slice(1).map((r) => DomUtils.findAll((c) => c.name === 'td', [r]).map((c) => DomUtils.textContent(c)))).toEqual([
-      ['0 · password / reset', '4', '36.4%', formatFixed(data.groups[0].cohesion, 3), formatFixed(data.groups[0].separation, 3)],
-      ['2 · parcel / courier', '4', '36.4%', formatFixed(data.groups[2].cohesion, 3), formatFixed(data.groups[2].separation, 3)],
-      ['1 · refund / invoice', '3', '27.3%', formatFixed(data.groups[1].cohesion, 3), formatFixed(data.groups[1].separation, 3)],
+      ['0password / reset', '4', '36.4%', formatFixed(data.groups[0].cohesion, 3), formatFixed(data.groups[0].separation, 3)],
+      ['2parcel / courier', '4', '36.4%', formatFixed(data.groups[2].cohesion, 3), formatFixed(data.groups[2].separation, 3)],
+      ['1refund / invoice', '3', '27.3%', formatFixed(data.groups[1].cohesion, 3), formatFixed(data.groups[1].separation, 3)],
     ]);
   });
 
-  it('map: circle area proportional to size, positions follow x/y with one scale for both axes', () => {
-    const circles = DomUtils.findAll((el) => el.name === 'circle', [byId(doc, 'map')]);
-    expect(circles).toHaveLength(3);
-    // Drawn largest first: 0 (4), 2 (4), 1 (3).
-    const r = circles.map((c) => Number(c.attribs.r));
-    expect(r[0]).toBeCloseTo(44, 2);
-    expect((r[2] / r[0]) ** 2).toBeCloseTo(3 / 4, 3);
-    const cx = circles.map((c) => Number(c.attribs.cx));
-    const cy = circles.map((c) => Number(c.attribs.cy));
-    const g = [data.groups[0], data.groups[2], data.groups[1]];
-    const sx = (cx[1] - cx[0]) / (g[1].x - g[0].x);
-    const sy = -(cy[1] - cy[0]) / (g[1].y - g[0].y);
-    expect(sx).toBeGreaterThan(0);
-    expect(sy / sx).toBeCloseTo(1, 2);
-    expect((cx[2] - cx[0]) / (g[2].x - g[0].x)).toBeCloseTo(sx, 1);
+  it('relations: a k × k grid of centre similarities in the tree\'s leaf order, and a line per pair of groups on the ring', () => {
+    const rel = byId(doc, 'relations');
+    const k = data.groups.length;
+    const order = treeLayout(k, data.tree!.merges).leafOrder;
+    const cells = DomUtils.findAll((el) => el.name === 'rect' && /^sim-/.test(el.attribs.class ?? ''), [rel]);
+    expect(cells).toHaveLength(k * k);
+    // Row r, column c holds the similarity of groups order[r] and order[c] (title text), the diagonal apart.
+    cells.forEach((cell, at) => {
+      const a = order[Math.floor(at / k)];
+      const b = order[at % k];
+      const title = DomUtils.textContent(cell);
+      if (a === b) expect(cell.attribs.class).toBe('sim-self');
+      else expect(title).toBe(`Groups ${a} and ${b}: ${formatFixed(data.similarity![a * k + b], 3).replace(/^/, 'similarity ')}`);
+    });
+    // Darker (more opaque) for more alike pairs.
+    const off = cells.filter((c) => c.attribs.class === 'sim-cell').map((c, i) => [Number(c.attribs['fill-opacity']), i] as const);
+    const sims = cells.map((_, at) => data.similarity![order[Math.floor(at / k)] * k + order[at % k]]).filter((_, at) => Math.floor(at / k) !== at % k);
+    const byOpacity = off.slice().sort((x, y) => x[0] - y[0]).map((x) => sims[x[1]]);
+    expect(byOpacity).toEqual(sims.slice().sort((x, y) => x - y));
+    const edges = DomUtils.findAll((el) => el.name === 'line' && el.attribs.class === 'sim-edge', [rel]);
+    expect(edges).toHaveLength((k * (k - 1)) / 2);
+    expect(edges.map((e) => Number(e.attribs['data-s']))).toEqual(
+      [data.similarity![1], data.similarity![2], data.similarity![5]].map((v) => Number(v.toFixed(3))).sort((x, y) => y - x),
+    );
   });
 
   it('tree: one branch per merge, join heights linear in similarity on the axis, leaves on the bottom edge, leaves linked', () => {
@@ -217,17 +234,22 @@ describe('renderReport: self-contained page', () => {
   it('group page: stats, term bars with weights, exemplars with titles, a mount for the document list', () => {
     const g = data.groups[0];
     const page = byId(doc, 'group-0');
-    expect(DomUtils.textContent(DomUtils.findOne((el) => el.name === 'h2', [page])!)).toBe('Group 0 · password / reset');
+    const h2 = DomUtils.findOne((el) => el.name === 'h2', [page])!;
+    // The number stands apart from the name.
+    expect(DomUtils.textContent(DomUtils.findOne((el) => el.attribs.class === 'gno', [h2])!)).toBe('0');
+    expect(DomUtils.textContent(h2)).toBe('0 password / reset');
     expect(DomUtils.textContent(DomUtils.findOne((el) => el.name === 'ul', [page])!)).toBe(
       `4 documents (36.4% of those grouped)cohesion ${formatFixed(g.cohesion, 3)}separation ${formatFixed(g.separation, 3)}`,
     );
-    const chart = DomUtils.findOne((el) => el.name === 'svg', [page])!;
-    const labels = DomUtils.findAll((el) => el.name === 'text' && el.attribs.class === 'bar-label', [chart]).map(
-      (t) => DomUtils.textContent(t.children[0]),
+    // The term table: term, weight, share of the group's documents with it, share of the others.
+    const table = DomUtils.findOne((el) => el.name === 'table' && (el.attribs.class ?? '').startsWith('terms'), [page])!;
+    const rows = DomUtils.findAll((el) => el.name === 'tr', [table]).slice(1);
+    expect(rows.map((r) => DomUtils.findAll((c) => c.name === 'td', [r]).map((c) => DomUtils.textContent(c).trim()))).toEqual(
+      g.terms.map((t) => [t.term, formatFixed(t.weight, 4), formatFixed(100 * t.inGroup!, 1) + '%', formatFixed(100 * t.outside!, 1) + '%']),
     );
-    expect(labels).toEqual(g.terms.map((t) => t.term));
-    const bars = DomUtils.findAll((el) => el.name === 'rect', [chart]).map((r) => Number(r.attribs.width));
-    expect(bars[1] / bars[0]).toBeCloseTo(g.terms[1].weight / g.terms[0].weight, 3);
+    // 'password' is in all 4 documents of group 0 and in none of the 7 others (tinyCorpus).
+    const pw = g.terms.find((t) => t.term === 'password')!;
+    expect([pw.inGroup, pw.outside]).toEqual([1, 0]);
     const ex = DomUtils.findAll((el) => el.name === 'li', [DomUtils.findOne((el) => el.name === 'ol', [page])!]).map((li) => DomUtils.textContent(li));
     expect(ex).toEqual(g.exemplars.map((id) => `${data.documents.find((d) => d.id === id)!.title} ${id}`));
     const mount = DomUtils.findOne((el) => 'data-table' in el.attribs, [page])!;
@@ -261,7 +283,7 @@ describe('renderReport: hostile input', () => {
     const settings = DomUtils.findAll((el) => el.name === 'td', [DomUtils.findOne((el) => el.name === 'table' && el.attribs.class === 'settings', doc.children)!]);
     expect(settings.map((td) => DomUtils.textContent(td))).toContain(HOSTILE.attr);
     expect(settings.map((td) => DomUtils.textContent(td))).toContain(HOSTILE.script);
-    expect(DomUtils.textContent(DomUtils.findOne((el) => el.name === 'h2', [byId(doc, 'group-0')])!)).toBe(`Group 0 · ${HOSTILE.close}`);
+    expect(DomUtils.textContent(DomUtils.findOne((el) => el.name === 'h2', [byId(doc, 'group-0')])!)).toBe(`0 ${HOSTILE.close}`);
     const exemplars = DomUtils.textContent(DomUtils.findOne((el) => el.name === 'ol', [byId(doc, 'group-0')])!);
     expect(exemplars).toContain(HOSTILE.close);
     // The hostile term shows in the fallback table cell exactly.
@@ -271,7 +293,10 @@ describe('renderReport: hostile input', () => {
     // the raw markup holds the escaped forms.
     expect(html).toContain('&lt;/script&gt;&lt;script&gt;window.__pwned = &quot;close&quot;&lt;/script&gt;');
     expect(html).toContain('&quot; autofocus onfocus=&quot;window.__pwned = &#39;attr&#39;&quot; x=&quot;');
-    expect(html.match(/<script/g)).toHaveLength(2);
+    expect(html.match(/<script/g)).toHaveLength(3);
+    // Hostile column names and values, texts, merged names: only in JSON blocks, escaped.
+    expect(html).not.toContain(HOSTILE.img);
+    expect(html).not.toContain(HOSTILE.comment);
   });
 
   it('the data block escapes <, >, &, U+2028 and U+2029 as \\u escapes', () => {
@@ -310,9 +335,9 @@ describe('renderReport: views degrade when parts are missing', () => {
     const html = renderReport(data);
     const doc = checkSafe(html, data);
     expect(DomUtils.textContent(byId(doc, 'overview'))).toContain('This run made no groups.');
-    expect(DomUtils.textContent(byId(doc, 'map'))).toContain('A map needs at least two groups.');
+    expect(DomUtils.textContent(byId(doc, 'relations'))).toContain('Relations need at least two groups.');
     expect(DomUtils.findAll((el) => el.name === 'section', doc.children).map((s) => s.attribs.id)).toEqual([
-      'overview', 'map', 'tree', 'documents', 'duplicates', 'duplicate-set',
+      'overview', 'relations', 'tree', 'documents', 'duplicates', 'duplicate-set', 'document',
     ]);
   });
 
@@ -333,17 +358,6 @@ describe('renderReport: views degrade when parts are missing', () => {
     expect(treeLayout(4, merges).leafOrder).toEqual([0, 2, 1, 3]);
     expect(treeLayout(4, merges.slice(0, 2)).leafOrder).toEqual([1, 3, 0, 2]);
     expect(treeLayout(4, [merges[0], { left: 0, right: 1, similarity: 0.5, size: 2 }]).problem).toBe('merge 1 reuses node 0');
-  });
-});
-
-describe('map label placement', () => {
-  it('a label moves above its circle when below would cover another circle, and inside the frame at an edge', () => {
-    // A at (200,100) r 10; B just below it at (200,125) r 5: A's label below would cover B, so it goes above.
-    const spots = placeLabels([0, 1, 2], [200, 200, 710], [100, 125, 260], [10, 5, 8], ['group A', 'group B', 'edge group'], 720, 520);
-    expect(spots[0]).toEqual({ x: 200, y: 85, anchor: 'middle' });
-    expect(spots[1]).toEqual({ x: 200, y: 143, anchor: 'middle' });
-    // Near the right edge only the spot to the left keeps the whole label inside.
-    expect(spots[2]).toEqual({ x: 698, y: 264, anchor: 'end' });
   });
 });
 
@@ -386,5 +400,17 @@ describe('renderReport property: arbitrary strings never escape their place', ()
       }),
       { numRuns: 150, seed: 7 },
     );
+  });
+});
+
+describe('column values in the data block', () => {
+  it('are cut at COLUMN_VALUE_CHARS characters with an ellipsis (the whole text stays in the text blocks)', () => {
+    const base = tinyReport();
+    const long = 'x'.repeat(COLUMN_VALUE_CHARS + 5);
+    const data: ReportData = { ...base, documents: base.documents.map((d, i) => (i === 0 ? { ...d, fields: [long, 'y'], text: long } : d)) };
+    const p = reportPayload(data);
+    expect(p.columns.values[0][0]).toBe('x'.repeat(COLUMN_VALUE_CHARS - 1) + '…');
+    expect(p.columns.values[1][0]).toBe('y');
+    expect(p.columns.values[0][1]).toBe(base.documents[1].fields![0]);
   });
 });

@@ -22,6 +22,7 @@ import { fixed, withCsvBom } from '../report/csv.js';
 import { writeOutputFolder, type FileContent } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import type { DiffPiece } from '../duplicates/index.js';
+import { duplicatesReportFile } from './report-inputs.js';
 
 interface DuplicatesFlags extends GroupFlags {
   threshold?: string;
@@ -46,6 +47,7 @@ export function registerDuplicates(program: Command, io: CliIo, setExit: (code: 
     .option('--out <dir>', 'output folder', 'sheaf-duplicates')
     .option('--save-vectors <dir>', 'also write the vectors compared (MatrixMarket), their columns (terms.txt, with --by tfidf) and ids')
     .option('--no-bom', 'write the CSV files without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
+    .option('--no-report', 'do not write report.html')
     .option('--json', 'print duplicates.json on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: DuplicatesFlags) => {
@@ -96,6 +98,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
     ['duplicates.csv', duplicatesCsv(src)],
     ['duplicates.json', duplicatesJsonChunks(src)],
     [PAIRS_FILE, nearCopyPairsCsvChunks(src)],
+    ...duplicatesReportFile(run, inputs, read, docs, flags.report !== false, io.cwd, outDir),
     [
       'run.json',
       duplicatesRunJson(run, {
@@ -171,9 +174,12 @@ export function duplicateLines(run: DuplicateRun, width: number, show: number): 
   return lines;
 }
 
-/** A diff as one line: removed words as ⟦-…⟧, added words as ⟦+…⟧. */
+/**
+ * A diff as one line, marked as the report marks it: words only in this copy between a filled pair `▸…◂`,
+ * words only in the representative between a hollow pair `▹…◃` (filled: present here; hollow: gone).
+ */
 export function diffText(d: MemberDiff | { pieces: readonly DiffPiece[] }): string {
   if (!d.pieces.some((p) => p.kind !== 'same')) return '(identical text)';
-  const parts = d.pieces.map((p) => (p.kind === 'same' ? p.text : p.kind === 'added' ? `⟦+${p.text}⟧` : `⟦-${p.text}⟧`));
+  const parts = d.pieces.map((p) => (p.kind === 'same' ? p.text : p.kind === 'added' ? `▸${p.text}◂` : `▹${p.text}◃`));
   return parts.join('').replace(/\s+/g, ' ').trim();
 }

@@ -82,14 +82,4 @@ export function groupDuplicateOptions(value: string, group: ResolvedGroupOptions
   return resolveFindDuplicatesOptions({ threshold: decimal(value, 'duplicates'), show: 50, analyzer: group.analyzer, vectorize: group.vectorize });
 }
 
-/** Throws unless some document has the `--truth` column (checked before the heavy work). */
-export function assertTruthColumn(docs: readonly Doc[], field: string): void {
-  if (!docs.some((d) => d.fields.has(field))) {
-    const columns = [...new Set(docs.flatMap((d) => [...d.fields.keys()]))];
-    throw new UsageError(
-      `--truth column ${JSON.stringify(field)} is not in the input; ${columns.length ? `its columns are: ${columns.join(', ')}` : 'it has no columns besides the text'}`,
-      'truth',
-    );
-  }
-}
 

@@ -32,6 +32,8 @@ import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
 import { previousFromFlags, editsFromFlags, guideFromFlags, type EditsFlags, type PreviousFlags } from './previous.js';
 import { continuityLines } from '../report/continuity.js';
+import { assertDateColumn, documentLinks, trendsFromFlag } from './report-inputs.js';
+import { trendsRecord } from '../report/report-extras.js';
 
 export type { GroupFlags } from './inputs.js';
 
@@ -56,6 +58,7 @@ export function registerGroup(program: Command, io: CliIo, setExit: (code: numbe
     .option('--edits <file>', 'a JSON edits file (rename, merge, split, pin) applied to this run’s groups (see docs/edits.md)')
     .option('--match-similarity <s>', 'least centre cosine for a group to continue a previous one (default 0.5)')
     .option('--no-bom', 'write the CSV files without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
+    .option('--date <column>', 'count each group per day, week or month by this column (mtime: the files’ modification times)')
     .option('--json', 'print the groups as JSON on stdout')
     .option('--quiet', 'no progress bars or notes on stderr')
     .action(async (inputs: string[], flags: GroupFlags) => {
@@ -108,6 +111,8 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   checkMemory(docs.reduce((a, d) => a + d.text.length, 0), limit, `the text read (${docs.length} documents)`);
   // A column (case-insensitive, as --text/--id) or, for files read from folders, `folder`.
   const truthSource = flags.truth ? resolveTruth(docs, flags.truth, read.inputs.filter((i) => i.kind === 'folder').map((i) => i.path)) : null;
+  const dateFlag = (flags as { date?: string }).date;
+  if (dateFlag !== undefined) assertDateColumn(docs, dateFlag);
 
   // Core.
   const progress = progressReporter(io, flags.quiet ?? false);
@@ -150,9 +155,12 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   // Outputs.
   const tw = now();
   const version = versions();
+  const date = (flags as { date?: string }).date;
+  const trends = command === 'group' && date !== undefined ? await trendsFromFlag(result, date, read.exportRows, io.cwd) : null;
   const files = groupOutputs(result, {
     kind: command,
     near,
+    trends,
     createdBy: `sheaf ${version.sheaf}`,
     bom: flags.bom !== false,
     report:
@@ -162,9 +170,13 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
             createdAt: new Date().toISOString(),
             version: version.sheaf,
             skipped: read.skipped.length,
+            originals: docs.map((d) => d.text),
+            links: documentLinks(docs, read.exportRows, io.cwd, outDir),
+            evaluation,
           }
         : null,
   });
+  const pageBytes = files.has('report.html') ? Buffer.byteLength(files.get('report.html') as string) : null;
   const n = read.docs.length;
   const timings: StageTiming[] = [
     { stage: 'read', ms: readMs, items: n },
@@ -173,7 +185,9 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     { stage: 'write', ms: now() - tw, items: n },
   ];
   const context = { command, startedAt, finishedAt: new Date(), versions: version, cwd: io.cwd, out: flags.out };
-  files.set('run.json', jsonText(await withFileDigests(groupRunRecord(result, { context, ingestOptions, read, threads, evaluation, timings }) as { files?: RunFile[] })));
+  const record = groupRunRecord(result, { context, ingestOptions, read, threads, evaluation, timings });
+  Object.assign(record, { trends: trends ? trendsRecord(result, trends) : null, reportBytes: pageBytes });
+  files.set('run.json', jsonText(await withFileDigests(record as { files?: RunFile[] })));
   const written = (await writeOutputFolder(outDir, files)).map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
     const v = await writeOutputFolder(path.resolve(io.cwd, flags.saveVectors), vectorFiles(result.matrix, result.vocabulary.terms, result.docs));

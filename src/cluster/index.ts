@@ -8,3 +8,4 @@ export * from './tree.js';
 export * from './newick.js';
 export * from './quality.js';
 export * from './partition.js';
+export * from './second.js';

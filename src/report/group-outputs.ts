@@ -17,8 +17,10 @@ import { toMatrixMarket } from '../vectorize/index.js';
 import { documentsCsvChunks, groupsJson, jsonText, treeNewick } from './outputs.js';
 import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from './duplicates.js';
 import { renderReport } from './html.js';
-import { reportFromRun } from './report-from-run.js';
-import { withCsvBom } from './csv.js';
+import { reportFromRun, type ReportContext } from './report-from-run.js';
+import type { TrendsInput } from './report-extras.js';
+import { csvChunks, withCsvBom } from './csv.js';
+import { trendRows } from '../trends/index.js';
 
 /** Near-copies found in the run's own vectors, and at which threshold. */
 export interface GroupNearCopies {
@@ -35,7 +37,9 @@ export interface GroupOutputOptions {
   /** The model's `createdBy` (e.g. `sheaf 0.1.0`). */
   readonly createdBy: string;
   /** report.html's heading and metadata, or null for no report. */
-  readonly report?: { readonly title: string; readonly createdAt: string; readonly version: string; readonly skipped: number } | null;
+  readonly report?: ReportContext | null;
+  /** Counts per group over time (trends.csv and the report), when a date was given. */
+  readonly trends?: TrendsInput | null;
   /** A UTF-8 byte order mark before every CSV file (default true; see `withCsvBom`). */
   readonly bom?: boolean;
 }
@@ -59,9 +63,15 @@ export function groupOutputs(result: GroupResult, options: GroupOutputOptions): 
     if (options.report) {
       files.set(
         'report.html',
-        renderReport(reportFromRun(result, near ? near.found : null, near ? { threshold: near.threshold, by: 'cosine of TF-IDF vectors' } : null, options.report)),
+        renderReport(
+          reportFromRun(result, near ? near.found : null, near ? { threshold: near.threshold, by: 'cosine of TF-IDF vectors' } : null, {
+            ...options.report,
+            trends: options.trends ?? null,
+          }),
+        ),
       );
     }
+    if (options.trends) files.set('trends.csv', [...csvChunks(['group', 'period', 'count'], trendRows(options.trends.trends, result.partition.groups))].join(''));
   } else {
     files.set('tree.json', jsonText({ tree: groupsDoc.tree, groups: groupsDoc.groups.map((g) => ({ id: g.id, label: g.label, size: g.size })) }));
   }

@@ -31,9 +31,14 @@ export function groupHref(id: number): string {
   return `#group-${e(id)}`;
 }
 
-/** Short visible name of a group: `N · label`. */
+/** Short visible name of a group (its label; the number is shown apart, see {@link groupNumberSvg}). */
 export function groupName(g: Pick<Group, 'id' | 'label'>, max = 1000): string {
-  return truncate(`${g.id} · ${g.label}`, max);
+  return truncate(g.label, max);
+}
+
+/** A group's number inside an SVG text, set apart from the name by its own style. */
+export function groupNumberSvg(id: number): string {
+  return `<tspan class="gno-svg">${e(id)}</tspan> `;
 }
 
 /** Limits a number to [lo, hi]; `lo` for non-finite input. */
@@ -95,7 +100,7 @@ export function sizesChart(groups: readonly Group[], colourIndex: ReadonlyMap<nu
         `Group ${g.id}: ${g.label}, ${formatCount(g.size)} documents, cohesion ${formatFixed(g.cohesion, 3)}`,
       )}">`,
       `<rect class="row-hit" x="0" y="${y}" width="${width}" height="${rowH}"></rect>`,
-      `<text class="bar-label" x="${labelRight}" y="${y + 17}" text-anchor="end">${e(groupName(g, 40))}<title>${e(groupName(g))}</title></text>`,
+      `<text class="bar-label" x="${labelRight}" y="${y + 17}" text-anchor="end">${groupNumberSvg(g.id)}${e(groupName(g, 36))}<title>${e(`Group ${g.id}: ${g.label}`)}</title></text>`,
       `<rect class="bar" x="${barX}" y="${y + 5}" width="${c2(Math.max(w, 1))}" height="${rowH - 10}" fill="${colour}"></rect>`,
       `<text class="bar-value" x="${c2(barX + Math.max(w, 1) + 6)}" y="${y + 17}">${e(formatCount(g.size))}</text>`,
       `<rect class="bar-track" x="${cohX}" y="${y + 8}" width="${cohMax}" height="${rowH - 16}"></rect>`,
@@ -106,134 +111,6 @@ export function sizesChart(groups: readonly Group[], colourIndex: ReadonlyMap<nu
   });
   out.push('</svg>');
   return out.join('');
-}
-
-/**
- * The map of groups: one circle per group at its (x, y), area proportional to
- * its size (radius at least 3 units so small groups stay visible), labelled with
- * id and label, largest drawn first so small ones stay on top. Both axes share
- * one scale, so distances on the page are comparable in every direction.
- */
-export function mapChart(groups: readonly Group[], colourIndex: ReadonlyMap<number, number>): string {
-  const width = 720;
-  const height = 520;
-  const pad = 70;
-  const rMax = 44;
-  const rMin = 3;
-  const xs = groups.map((g) => (Number.isFinite(g.x) ? g.x : 0));
-  const ys = groups.map((g) => (Number.isFinite(g.y) ? g.y : 0));
-  const minX = Math.min(0, ...xs);
-  const maxX = Math.max(0, ...xs);
-  const minY = Math.min(0, ...ys);
-  const maxY = Math.max(0, ...ys);
-  const spanX = maxX - minX;
-  const spanY = maxY - minY;
-  const scale = Math.min(
-    spanX > 0 ? (width - 2 * pad) / spanX : Infinity,
-    spanY > 0 ? (height - 2 * pad) / spanY : Infinity,
-  );
-  const s = Number.isFinite(scale) ? scale : 0;
-  const cx0 = width / 2 - (s * (minX + maxX)) / 2;
-  const cy0 = height / 2 + (s * (minY + maxY)) / 2;
-  const maxSize = Math.max(1, ...groups.map((g) => (Number.isFinite(g.size) ? g.size : 0)));
-  const order = groups.map((_, i) => i).sort((a, b) => (groups[b].size - groups[a].size) || a - b);
-  const out: string[] = [
-    svgOpen(
-      'map',
-      width,
-      height,
-      'Map of the groups',
-      `${groups.length} circles, one per group. Circle area is proportional to the number of documents. ` +
-        'Groups whose centres are alike (high cosine similarity) are drawn close together; the axes have no units of their own. ' +
-        'Each circle links to the group page.',
-      'map-chart',
-    ),
-    `<rect class="plot-frame" x="1" y="1" width="${width - 2}" height="${height - 2}"></rect>`,
-  ];
-  const px = xs.map((x) => cx0 + s * x);
-  const py = ys.map((y) => cy0 - s * y); // positive y upwards
-  const pr = groups.map((g) => Math.max(rMin, rMax * Math.sqrt(clamp(g.size, 0, maxSize) / maxSize)));
-  const names = groups.map((g) => groupName(g, 26));
-  const placed = placeLabels(order, px, py, pr, names, width, height);
-  for (const i of order) {
-    const g = groups[i];
-    const label = placed[i];
-    out.push(
-      `<a href="${groupHref(g.id)}" class="chart-link" aria-label="${e(
-        `Group ${g.id}: ${g.label}, ${formatCount(g.size)} documents`,
-      )}">`,
-      `<circle class="map-dot" cx="${c2(px[i])}" cy="${c2(py[i])}" r="${c2(pr[i])}" fill="${groupColour(colourIndex.get(g.id) ?? i)}"></circle>`,
-      `<text class="map-label" x="${c2(label.x)}" y="${c2(label.y)}" text-anchor="${label.anchor}">${e(names[i])}<title>${e(
-        `${groupName(g)}, ${formatCount(g.size)} documents`,
-      )}</title></text>`,
-      `</a>`,
-    );
-  }
-  out.push('</svg>');
-  return out.join('');
-}
-
-/** Where a map label goes: its anchor point and text-anchor. */
-export interface LabelSpot {
-  readonly x: number;
-  readonly y: number;
-  readonly anchor: 'start' | 'middle' | 'end';
-}
-
-/** Rough width of 12px sans-serif text per character (common practice: about 0.55 em). */
-const CHAR_WIDTH = 6.8;
-
-/**
- * Greedy label placement for the map: in the given order (largest first), each
- * label takes the candidate spot (below, above, right, left of its circle) that
- * overlaps least with labels already placed and with circles, and stays inside
- * the frame; ties go to the earlier candidate.
- */
-export function placeLabels(
-  order: readonly number[],
-  px: readonly number[],
-  py: readonly number[],
-  pr: readonly number[],
-  names: readonly string[],
-  width: number,
-  height: number,
-): LabelSpot[] {
-  type Box = [number, number, number, number];
-  const boxes: Box[] = [];
-  const spots: LabelSpot[] = new Array(px.length);
-  const overlap = (a: Box, b: Box) =>
-    Math.max(0, Math.min(a[2], b[2]) - Math.max(a[0], b[0])) * Math.max(0, Math.min(a[3], b[3]) - Math.max(a[1], b[1]));
-  for (const i of order) {
-    const w = Array.from(names[i]).length * CHAR_WIDTH;
-    const candidates: LabelSpot[] = [
-      { x: px[i], y: py[i] + pr[i] + 13, anchor: 'middle' },
-      { x: px[i], y: py[i] - pr[i] - 5, anchor: 'middle' },
-      { x: px[i] + pr[i] + 4, y: py[i] + 4, anchor: 'start' },
-      { x: px[i] - pr[i] - 4, y: py[i] + 4, anchor: 'end' },
-    ];
-    let best = 0;
-    let bestScore = Infinity;
-    let bestBox: Box = [0, 0, 0, 0];
-    candidates.forEach((c, ci) => {
-      const x0 = c.anchor === 'middle' ? c.x - w / 2 : c.anchor === 'start' ? c.x : c.x - w;
-      const box: Box = [x0, c.y - 11, x0 + w, c.y + 3];
-      let score = 0;
-      for (const b of boxes) score += overlap(box, b);
-      for (let j = 0; j < px.length; j++) {
-        score += 0.5 * overlap(box, [px[j] - pr[j], py[j] - pr[j], px[j] + pr[j], py[j] + pr[j]]);
-      }
-      const outside = w * 14 - overlap(box, [2, 2, width - 2, height - 2]);
-      score += 4 * outside;
-      if (score < bestScore - 1e-9) {
-        bestScore = score;
-        best = ci;
-        bestBox = box;
-      }
-    });
-    boxes.push(bestBox);
-    spots[i] = candidates[best];
-  }
-  return spots;
 }
 
 /** Validated tree layout: leaf order and per-node positions, or a reason it cannot be drawn. */
@@ -374,44 +251,12 @@ export function treeChart(groups: readonly Group[], merges: readonly Merge[]): s
     const y = ny[leaf] + 8;
     out.push(
       `<a href="${groupHref(g.id)}" class="chart-link" aria-label="${e(`Group ${g.id}: ${g.label}`)}">`,
-      `<text class="leaf-label" x="${c2(x + 4)}" y="${c2(y)}" transform="rotate(90 ${c2(x + 4)} ${c2(y)})">${e(
-        groupName(g, 28),
-      )}<title>${e(groupName(g))}</title></text>`,
+      `<text class="leaf-label" x="${c2(x + 4)}" y="${c2(y)}" transform="rotate(90 ${c2(x + 4)} ${c2(y)})">${groupNumberSvg(g.id)}${e(
+        groupName(g, 24),
+      )}<title>${e(`Group ${g.id}: ${g.label}`)}</title></text>`,
       `</a>`,
     );
   }
-  out.push('</svg>');
-  return out.join('');
-}
-
-/** Horizontal bars of a group's label terms by weight (longest = largest weight). */
-export function termsChart(id: string, groupTitle: string, terms: Group['terms']): string {
-  const rowH = 22;
-  const width = 560;
-  const labelRight = 180;
-  const barX = 190;
-  const barMax = 290;
-  const height = rowH * Math.max(1, terms.length) + 8;
-  const maxW = Math.max(1e-12, ...terms.map((t) => (Number.isFinite(t.weight) ? Math.abs(t.weight) : 0)));
-  const out: string[] = [
-    svgOpen(
-      id,
-      width,
-      height,
-      `Terms of ${groupTitle}`,
-      `${terms.length} terms, one bar each, length proportional to the term's weight in naming the group; the weight is written after each bar.`,
-      'terms-chart',
-    ),
-  ];
-  terms.forEach((t, row) => {
-    const y = 4 + row * rowH;
-    const w = (barMax * clamp(Math.abs(t.weight), 0, maxW)) / maxW;
-    out.push(
-      `<text class="bar-label" x="${labelRight}" y="${y + 15}" text-anchor="end">${e(truncate(t.term, 24))}<title>${e(t.term)}</title></text>`,
-      `<rect class="bar bar-term" x="${barX}" y="${y + 4}" width="${c2(Math.max(w, 1))}" height="${rowH - 8}"></rect>`,
-      `<text class="bar-value" x="${c2(barX + Math.max(w, 1) + 6)}" y="${y + 15}">${e(formatFixed(t.weight, 3))}</text>`,
-    );
-  });
   out.push('</svg>');
   return out.join('');
 }

@@ -53,10 +53,41 @@ var sets = data.duplicates ? data.duplicates.sets : [];
 var setById = new Map();
 for (var si = 0; si < sets.length; si++) setById.set(sets[si].id, sets[si]);
 
+var COLS = data.columns || { names: [], values: [] };
+var TX = data.texts || { chunk: 1000, chunks: 0 };
+var MAX_TEXT = 200000;
+var textBlocks = new Array(TX.chunks);
+// Texts live in their own JSON blocks, parsed the first time one of their documents is opened or searched.
+function textBlock(c) {
+  if (!textBlocks[c]) {
+    var node = doc.getElementById('sheaf-text-' + c);
+    var block = null;
+    try { block = node ? JSON.parse(node.textContent) : null; } catch (err) { block = null; }
+    textBlocks[c] = block && block.original ? block : { original: [], cleaned: [] };
+  }
+  return textBlocks[c];
+}
+function docText(i) {
+  if (!TX.chunks) return null;
+  var t = textBlock(Math.floor(i / TX.chunk)).original[i % TX.chunk];
+  return typeof t === 'string' ? t : null;
+}
+function docCleaned(i) {
+  if (!TX.chunks) return null;
+  var t = textBlock(Math.floor(i / TX.chunk)).cleaned[i % TX.chunk];
+  return typeof t === 'string' ? t : null;
+}
 var hayCache = new Array(n);
 function docHay(i) {
   var h = hayCache[i];
-  if (h === undefined) { h = (D.id[i] + '\n' + D.title[i]).toLowerCase(); hayCache[i] = h; }
+  if (h === undefined) {
+    var parts = [D.id[i], D.title[i]];
+    for (var c = 0; c < COLS.names.length; c++) parts.push(COLS.values[c][i]);
+    var t = docText(i);
+    if (t !== null) parts.push(t);
+    h = parts.join('\n').toLowerCase();
+    hayCache[i] = h;
+  }
   return h;
 }
 
@@ -91,7 +122,14 @@ function fixed(x, d) {
 }
 function groupLink(id) {
   if (id < 0 || !groupLabel.has(id)) return el('span', { className: 'muted', text: 'none' });
-  return el('a', { href: '#group-' + id, text: id + ' \u00b7 ' + groupLabel.get(id) });
+  return el('a', { href: '#group-' + id, className: 'glink' }, [el('span', { className: 'gno', text: String(id) }), el('span', { className: 'gname', text: groupLabel.get(id) })]);
+}
+function shortText(t, max) {
+  t = String(t);
+  return t.length > max ? t.slice(0, max - 1) + '\u2026' : t;
+}
+function docLink(i) {
+  return el('a', { href: '#doc-' + i, title: 'Open this document' }, [el('code', { text: D.id[i] })]);
 }
 function setLink(id) {
   if (id < 0) return el('span', { className: 'muted' }, [el('span', { 'aria-hidden': 'true', text: '\u2013' }), el('span', { className: 'visually-hidden', text: 'none' })]);
@@ -158,7 +196,10 @@ function makeTable(mount, cfg) {
   var tbody = el('tbody');
   var table = el('table', { className: 'rows' }, [el('caption', { className: 'visually-hidden', text: cfg.caption }), el('thead', null, [tr]), tbody]);
   var pager = makePager(cfg.caption + ': pages', function (p) { state.page = p; draw(); });
-  mount.replaceChildren(tools, table, pager.node);
+  var filters = cfg.filters ? makeFilters(uid, cfg.filters, function () { state.page = 0; refilter(); draw(); }) : null;
+  var wrap = el('div', { className: 'table-wrap' }, [table]);
+  if (filters) mount.replaceChildren(tools, filters.node, wrap, pager.node);
+  else mount.replaceChildren(tools, wrap, pager.node);
 
   function resort() {
     var col = null;
@@ -170,9 +211,15 @@ function makeTable(mount, cfg) {
   }
   function refilter() {
     var q = state.query;
-    if (!q) { visible = sorted; return; }
+    var pass = filters ? filters.predicate() : null;
+    if (!q && !pass) { visible = sorted; return; }
     var out = [];
-    for (var r = 0; r < sorted.length; r++) if (cfg.hay(sorted[r]).indexOf(q) >= 0) out.push(sorted[r]);
+    for (var r = 0; r < sorted.length; r++) {
+      var it = sorted[r];
+      if (pass && !pass(it)) continue;
+      if (q && cfg.hay(it).indexOf(q) < 0) continue;
+      out.push(it);
+    }
     visible = out;
   }
   function draw() {
@@ -186,22 +233,25 @@ function makeTable(mount, cfg) {
       var row = el('tr');
       for (var c = 0; c < cfg.columns.length; c++) {
         var col = cfg.columns[c];
-        var td = el('td', { className: col.num ? 'num' : col.text ? 'text' : null });
+        var td = el('td', { className: col.cls || (col.num ? 'num' : col.text ? 'text' : null), 'data-label': col.title });
         append(td, col.cell(item));
         row.appendChild(td);
       }
       rows.push(row);
     }
     if (rows.length === 0) {
-      rows.push(el('tr', null, [el('td', { colspan: cfg.columns.length, className: 'muted', text: state.query ? 'Nothing matches this search.' : 'Nothing to list.' })]));
+      rows.push(el('tr', null, [el('td', { colspan: cfg.columns.length, className: 'muted', text: state.query || (filters && filters.active()) ? 'Nothing matches this search and these filters.' : 'Nothing to list.' })]));
     }
     tbody.replaceChildren.apply(tbody, rows);
     var total = cfg.items.length;
     var msg;
-    if (visible.length === 0) msg = state.query ? 'No ' + cfg.noun + ' match \u201c' + input.value.trim() + '\u201d (of ' + count(total) + ').' : 'No ' + cfg.noun + '.';
+    var narrowed = state.query || (filters && filters.active());
+    if (visible.length === 0) msg = narrowed ? 'No ' + cfg.noun + ' match \u201c' + input.value.trim() + '\u201d (of ' + count(total) + ').' : 'No ' + cfg.noun + '.';
     else {
       msg = 'Showing ' + count(start + 1) + '\u2013' + count(end) + ' of ' + count(visible.length) + ' ' + cfg.noun;
-      if (state.query) msg += ' matching \u201c' + input.value.trim() + '\u201d (of ' + count(total) + ')';
+      if (state.query) msg += ' matching \u201c' + input.value.trim() + '\u201d';
+      if (filters && filters.active()) msg += ' passing the filters';
+      if (narrowed) msg += ' (of ' + count(total) + ')';
       msg += '.';
     }
     status.textContent = msg;
@@ -212,6 +262,7 @@ function makeTable(mount, cfg) {
     });
   }
   var timer = 0;
+  table.__sheafFilters = filters;
   input.addEventListener('input', function () {
     clearTimeout(timer);
     timer = setTimeout(function () {
@@ -227,14 +278,20 @@ function byFit(a, b) {
   var fa = D.fit[a], fb = D.fit[b];
   return (fa === null ? -Infinity : fa) - (fb === null ? -Infinity : fb) || 0;
 }
+var hasGroups = data.groups.id.length > 0;
 function docColumns(showGroup) {
   var cols = [
-    { key: 'id', title: 'ID', sort: function (a, b) { return collator.compare(D.id[a], D.id[b]); }, cell: function (i) { return el('code', { text: D.id[i] }); } },
+    { key: 'id', title: 'ID', sort: function (a, b) { return collator.compare(D.id[a], D.id[b]); }, cell: docLink },
     { key: 'title', title: 'Title', text: true, sort: function (a, b) { return collator.compare(D.title[a], D.title[b]); }, cell: function (i) { return docTitle(i); } },
-    { key: 'fit', title: 'Fit', num: true, sort: byFit, cell: function (i) { return fixed(D.fit[i], 3); } },
   ];
-  if (showGroup) cols.push({ key: 'group', title: 'Group', sort: function (a, b) { return D.group[a] - D.group[b]; }, cell: function (i) { return groupLink(D.group[i]); } });
+  if (hasGroups) cols.push({ key: 'fit', title: 'Fit', num: true, sort: byFit, cell: function (i) { return fixed(D.fit[i], 3); } });
+  if (showGroup && hasGroups) cols.push({ key: 'group', title: 'Group', sort: function (a, b) { return D.group[a] - D.group[b]; }, cell: function (i) { return groupLink(D.group[i]); } });
+  if (hasGroups) cols.push({ key: 'margin', title: 'Margin', num: true, sort: function (a, b) { var x = D.margin[a], y = D.margin[b]; return (x === null ? Infinity : x) - (y === null ? Infinity : y) || 0; }, cell: function (i) { return fixed(D.margin[i], 3); } });
   if (data.duplicates) cols.push({ key: 'set', title: 'Near-duplicate set', cell: function (i) { return setLink(D.duplicateSet[i]); } });
+  COLS.names.forEach(function (name, c) {
+    var values = COLS.values[c];
+    cols.push({ key: 'col-' + c, title: name, text: true, cls: 'col', sort: function (a, b) { return collator.compare(values[a], values[b]); }, cell: function (i) { var v = values[i]; return v.length > 40 ? el('span', { title: shortText(v, 400), text: shortText(v, 40) }) : v; } });
+  });
   return cols;
 }
 
@@ -265,19 +322,19 @@ function buildMount(mount) {
   if (kind === 'group') {
     var gid = Number(mount.getAttribute('data-group'));
     makeTable(mount, {
-      caption: 'Documents of group ' + gid, noun: 'documents', searchLabel: 'Search this group\u2019s documents (id or title):',
-      items: byGroup.get(gid) || [], columns: docColumns(false), hay: docHay, sortKey: 'fit', sortDir: -1,
+      caption: 'Documents of group ' + gid, noun: 'documents', searchLabel: 'Search this group\u2019s documents (id, title, columns, text):',
+      items: byGroup.get(gid) || [], columns: docColumns(false), hay: docHay, sortKey: 'fit', sortDir: -1, filters: { group: false },
     });
   } else if (kind === 'all') {
     var all = new Array(n);
     for (var a = 0; a < n; a++) all[a] = a;
     makeTable(mount, {
-      caption: 'All documents', noun: 'documents', searchLabel: 'Search all documents (id or title):',
-      items: all, columns: docColumns(true), hay: docHay, sortKey: null,
+      caption: 'All documents', noun: 'documents', searchLabel: 'Search all documents (id, title, columns, text):',
+      items: all, columns: docColumns(true), hay: docHay, sortKey: null, filters: { group: hasGroups },
     });
   } else if (kind === 'ungrouped') {
     makeTable(mount, {
-      caption: 'Documents in no group', noun: 'documents', searchLabel: 'Search these documents (id or title):',
+      caption: 'Documents in no group', noun: 'documents', searchLabel: 'Search these documents (id, title, columns, text):',
       items: ungrouped, columns: docColumns(false), hay: docHay, sortKey: null,
     });
   } else if (kind === 'sets') {
@@ -299,6 +356,12 @@ function buildMount(mount) {
   }
 }
 function mountWithin(section) {
+  var cuts = section.querySelectorAll('[data-cut]');
+  for (var ci = 0; ci < cuts.length; ci++) {
+    if (cuts[ci].hasAttribute('data-ready')) continue;
+    cuts[ci].setAttribute('data-ready', '');
+    buildCut(cuts[ci]);
+  }
   var mounts = section.querySelectorAll('[data-table]');
   for (var m = 0; m < mounts.length; m++) {
     if (mounts[m].hasAttribute('data-ready')) continue;
@@ -332,8 +395,8 @@ function renderDiff(pieces, full) {
   var p = el('p', { className: 'diff' });
   for (var k = 0; k < pieces.length; k++) {
     var kind = pieces[k][0], text = pieces[k][1];
-    if (kind === 1) p.appendChild(el('ins', null, [el('span', { className: 'mark', text: '{+' }), text, el('span', { className: 'mark', text: '+}' })]));
-    else if (kind === 2) p.appendChild(el('del', null, [el('span', { className: 'mark', text: '[-' }), text, el('span', { className: 'mark', text: '-]' })]));
+    if (kind === 1) p.appendChild(el('ins', { title: 'only in this document' }, [text]));
+    else if (kind === 2) p.appendChild(el('del', { title: 'only in the representative' }, [text]));
     else { var parts = sameRun(text, k === 0, k === pieces.length - 1, full); for (var q = 0; q < parts.length; q++) append(p, parts[q]); }
   }
   return p;
@@ -341,9 +404,10 @@ function renderDiff(pieces, full) {
 function renderMember(set, mem) {
   var at = indexOfId.get(mem.id);
   var art = el('article', { className: 'member' });
-  art.appendChild(el('h3', { text: titleOfId(mem.id) }));
+  art.appendChild(el('h3', null, [at === undefined ? titleOfId(mem.id) : el('a', { href: '#doc-' + at, text: titleOfId(mem.id) })]));
   var facts = el('p', { className: 'muted' }, ['id ', el('code', { text: mem.id })]);
-  if (at !== undefined) { append(facts, ' \u00b7 group '); append(facts, groupLink(D.group[at])); }
+  if (at !== undefined && hasGroups) { append(facts, ' \u00b7 group '); append(facts, groupLink(D.group[at])); }
+  if (at !== undefined && TX.chunks) { append(facts, ' \u00b7 '); append(facts, el('a', { href: '#doc-' + at, text: 'read the text' })); }
   art.appendChild(facts);
   if (mem.id === set.representative) {
     art.appendChild(el('p', { text: 'This is the set\u2019s representative: the other documents are compared with it.' }));
@@ -386,9 +450,9 @@ function renderSet(id) {
   var summary = el('p', null, [count(set.members.length) + ' documents. Representative: ', el('strong', { text: titleOfId(set.representative) }), ' (', el('code', { text: set.representative }), ').']);
   var legend = el('p', { className: 'legend' }, [
     'How to read the differences: ',
-    el('ins', null, [el('span', { className: 'mark', text: '{+' }), 'added', el('span', { className: 'mark', text: '+}' })]),
+    el('ins', null, ['added']),
     ' words are in this document but not in the representative; ',
-    el('del', null, [el('span', { className: 'mark', text: '[-' }), 'removed', el('span', { className: 'mark', text: '-]' })]),
+    el('del', null, ['removed']),
     ' words are only in the representative. Long unchanged stretches are shortened.',
   ]);
   var list = el('div', { className: 'members' });
@@ -404,9 +468,324 @@ function renderSet(id) {
   show(0);
 }
 
+
+// ---- filters of a document table ----
+var filterCount = 0;
+function makeFilters(uid, opts, onChange) {
+  var fid = uid + '-f';
+  var boxes = [];
+  function field(labelText, control) {
+    var id = fid + '-' + (++filterCount);
+    control.id = id;
+    var wrap = el('div', { className: 'filter' }, [el('label', { for: id, text: labelText }), control]);
+    boxes.push(wrap);
+    return control;
+  }
+  var groupSel = null;
+  if (opts.group) {
+    groupSel = el('select');
+    groupSel.appendChild(el('option', { value: 'any', text: 'any' }));
+    for (var g = 0; g < data.groups.id.length; g++) groupSel.appendChild(el('option', { value: 'g' + data.groups.id[g], text: data.groups.id[g] + ': ' + shortText(data.groups.label[g], 40) }));
+    groupSel.appendChild(el('option', { value: 'unsorted', text: 'unsorted (fit no group well)' }));
+    groupSel.appendChild(el('option', { value: 'none', text: 'no usable terms' }));
+    groupSel.appendChild(el('option', { value: 'cut', text: 'a merged group (chosen in the tree)', hidden: true }));
+    field('Group', groupSel);
+  }
+  var fitLo = hasGroups ? field('Fit from', el('input', { type: 'number', step: '0.01', min: '-1', max: '1', inputmode: 'decimal', className: 'short' })) : null;
+  var fitHi = hasGroups ? field('to', el('input', { type: 'number', step: '0.01', min: '-1', max: '1', inputmode: 'decimal', className: 'short' })) : null;
+  var setSel = null;
+  if (data.duplicates) {
+    setSel = el('select');
+    setSel.appendChild(el('option', { value: 'any', text: 'any' }));
+    setSel.appendChild(el('option', { value: 'in', text: 'in a near-duplicate set' }));
+    setSel.appendChild(el('option', { value: 'out', text: 'in no set' }));
+    for (var s = 0; s < Math.min(sets.length, 500); s++) setSel.appendChild(el('option', { value: 's' + sets[s].id, text: 'set ' + sets[s].id }));
+    field('Near-copies', setSel);
+  }
+  var colSel = null, colVal = null;
+  if (COLS.names.length) {
+    colSel = el('select');
+    colSel.appendChild(el('option', { value: '', text: '(choose a column)' }));
+    COLS.names.forEach(function (name, c) { colSel.appendChild(el('option', { value: String(c), text: shortText(name, 40) })); });
+    field('Column', colSel);
+    var listId = fid + '-values';
+    colVal = field('contains', el('input', { type: 'text', autocomplete: 'off', spellcheck: 'false', list: listId }));
+    var datalist = el('datalist', { id: listId });
+    boxes.push(datalist);
+    colSel.addEventListener('change', function () {
+      var c = Number(colSel.value);
+      var seen = new Map();
+      if (colSel.value !== '') {
+        var vals = COLS.values[c];
+        for (var i = 0; i < vals.length && seen.size <= 200; i++) if (vals[i] !== '' && vals[i].length <= 80) seen.set(vals[i], true);
+      }
+      var opts2 = [];
+      if (seen.size <= 200) seen.forEach(function (_, v) { opts2.push(el('option', { value: v })); });
+      datalist.replaceChildren.apply(datalist, opts2);
+    });
+  }
+  var reset = el('button', { type: 'button', className: 'toggle', text: 'Clear filters' });
+  var cutGroups = null;
+  var node = el('fieldset', { className: 'filters' }, [el('legend', { text: 'Filters' })].concat(boxes, [reset]));
+  var timer = 0;
+  function changed() { clearTimeout(timer); timer = setTimeout(onChange, 120); }
+  node.addEventListener('input', changed);
+  node.addEventListener('change', changed);
+  reset.addEventListener('click', function () {
+    if (groupSel) groupSel.value = 'any';
+    if (fitLo) { fitLo.value = ''; fitHi.value = ''; }
+    if (setSel) setSel.value = 'any';
+    if (colSel) { colSel.value = ''; colVal.value = ''; }
+    onChange();
+  });
+  function num(input) { if (!input) return null; var v = input.value.trim(); return v === '' || !isFinite(Number(v)) ? null : Number(v); }
+  return {
+    node: node,
+    setCut: function (groups) {
+      cutGroups = new Set(groups);
+      if (!groupSel) return;
+      var opt = groupSel.querySelector('option[value="cut"]');
+      opt.hidden = false;
+      opt.textContent = 'groups ' + groups.join(', ') + ' (merged in the tree)';
+      groupSel.value = 'cut';
+      onChange();
+    },
+    active: function () { return this.predicate() !== null; },
+    predicate: function () {
+      var tests = [];
+      var gv = groupSel ? groupSel.value : 'any';
+      if (gv === 'unsorted') tests.push(function (i) { return D.group[i] < 0 && D.fit[i] !== null; });
+      else if (gv === 'none') tests.push(function (i) { return D.group[i] < 0 && D.fit[i] === null; });
+      else if (gv === 'cut' && cutGroups) tests.push(function (i) { return cutGroups.has(D.group[i]); });
+      else if (gv.charAt(0) === 'g') { var gid = Number(gv.slice(1)); tests.push(function (i) { return D.group[i] === gid; }); }
+      var lo = num(fitLo), hi = num(fitHi);
+      if (lo !== null) tests.push(function (i) { return D.fit[i] !== null && D.fit[i] >= lo; });
+      if (hi !== null) tests.push(function (i) { return D.fit[i] !== null && D.fit[i] <= hi; });
+      var sv = setSel ? setSel.value : 'any';
+      if (sv === 'in') tests.push(function (i) { return D.duplicateSet[i] >= 0; });
+      else if (sv === 'out') tests.push(function (i) { return D.duplicateSet[i] < 0; });
+      else if (sv.charAt(0) === 's') { var sid = Number(sv.slice(1)); tests.push(function (i) { return D.duplicateSet[i] === sid; }); }
+      if (colSel && colSel.value !== '' && colVal.value.trim() !== '') {
+        var vals = COLS.values[Number(colSel.value)];
+        var want = colVal.value.trim().toLowerCase();
+        tests.push(function (i) { return vals[i].toLowerCase().indexOf(want) >= 0; });
+      }
+      if (!tests.length) return null;
+      return function (i) { for (var t = 0; t < tests.length; t++) if (!tests[t](i)) return false; return true; };
+    },
+  };
+}
+
+// ---- coarser / finer: cut the tree at any number of groups ----
+function buildCut(mount) {
+  var k = data.groups.id.length;
+  var M = data.merges || [];
+  if (!M.length || k < 2) { mount.replaceChildren(el('p', { text: 'The tree has no merges to cut.' })); return; }
+  var uid = 'cut-' + (++tableCount);
+  var slider = el('input', { type: 'range', id: uid, min: '1', max: String(k), step: '1', value: String(Math.max(1, Math.ceil(k / 2))) });
+  var out = el('output', { for: uid });
+  var fewer = el('button', { type: 'button', className: 'toggle', text: 'Coarser' });
+  var more = el('button', { type: 'button', className: 'toggle', text: 'Finer' });
+  var tbody = el('tbody');
+  var table = el('table', { className: 'rows cut-table' }, [
+    el('caption', { className: 'visually-hidden', text: 'Groups after cutting the tree' }),
+    el('thead', null, [el('tr', null, [el('th', { scope: 'col', text: 'Name' }), el('th', { scope: 'col', className: 'num', text: 'Documents' }), el('th', { scope: 'col', text: 'Groups it holds' }), el('th', { scope: 'col', text: '' })])]),
+    tbody,
+  ]);
+  mount.replaceChildren(el('div', { className: 'tools' }, [el('label', { for: uid, text: 'Number of groups: ' }), fewer, slider, more, out]), el('div', { className: 'table-wrap' }, [table]));
+  function draw() {
+    var level = Math.min(k, Math.max(1, Number(slider.value) || k));
+    var steps = Math.min(M.length, k - level);
+    var members = [];
+    var alive = new Set();
+    for (var v = 0; v < k; v++) { members[v] = [v]; alive.add(v); }
+    for (var i = 0; i < steps; i++) {
+      var mg = M[i];
+      members[k + i] = (members[mg.left] || []).concat(members[mg.right] || []);
+      alive.delete(mg.left); alive.delete(mg.right); alive.add(k + i);
+    }
+    var nodes = [];
+    alive.forEach(function (node) {
+      var size = 0;
+      members[node].forEach(function (p) { size += data.groups.size[p] || 0; });
+      nodes.push({ node: node, size: size });
+    });
+    nodes.sort(function (a, b) { return b.size - a.size || a.node - b.node; });
+    out.textContent = count(nodes.length) + ' groups';
+    slider.setAttribute('aria-valuetext', nodes.length + ' groups');
+    var rows = nodes.map(function (x) {
+      var merged = x.node >= k;
+      var name = merged ? M[x.node - k].name : data.groups.label[x.node];
+      var ids = members[x.node].map(function (p) { return data.groups.id[p]; }).sort(function (a, b) { return a - b; });
+      var holds = el('span', { className: 'holds' });
+      ids.forEach(function (id) { holds.appendChild(groupLink(id)); });
+      var list = el('button', { type: 'button', className: 'toggle', text: 'List documents' });
+      list.addEventListener('click', function () { pendingCut = ids; location.hash = '#documents'; applyPendingCut(); });
+      return el('tr', { 'data-groups': ids.join(' ') }, [
+        el('td', { className: 'text', 'data-label': 'Name' }, [merged ? el('strong', { text: name }) : name, merged ? el('span', { className: 'muted', text: ' (merged)' }) : null]),
+        el('td', { className: 'num', 'data-label': 'Documents', text: count(x.size) }),
+        el('td', { 'data-label': 'Groups it holds' }, [holds]),
+        el('td', { 'data-label': '' }, [list]),
+      ]);
+    });
+    tbody.replaceChildren.apply(tbody, rows);
+  }
+  slider.addEventListener('input', draw);
+  fewer.addEventListener('click', function () { slider.value = String(Math.max(1, Number(slider.value) - 1)); draw(); });
+  more.addEventListener('click', function () { slider.value = String(Math.min(k, Number(slider.value) + 1)); draw(); });
+  draw();
+}
+var pendingCut = null;
+function applyPendingCut() {
+  if (!pendingCut) return;
+  var section = doc.getElementById('documents');
+  if (section.hidden) return;
+  var table = section.querySelector('table.rows');
+  if (!table || !table.__sheafFilters) return;
+  table.__sheafFilters.setCut(pendingCut);
+  pendingCut = null;
+}
+
+// ---- similarity graph threshold ----
+var simInput = doc.getElementById('sim-threshold');
+if (simInput) {
+  var simEdges = Array.prototype.slice.call(doc.querySelectorAll('line.sim-edge'));
+  var simOut = doc.getElementById('sim-value');
+  var simCount = doc.getElementById('sim-count');
+  var simDraw = function () {
+    var t = Number(simInput.value);
+    var shown = 0;
+    for (var e2 = 0; e2 < simEdges.length; e2++) {
+      if (Number(simEdges[e2].getAttribute('data-s')) >= t) { simEdges[e2].removeAttribute('visibility'); shown++; }
+      else simEdges[e2].setAttribute('visibility', 'hidden');
+    }
+    simOut.textContent = fixed(t, 2);
+    simCount.textContent = count(shown) + (shown === 1 ? ' line' : ' lines');
+  };
+  simInput.addEventListener('input', simDraw);
+  simDraw();
+}
+
+// ---- document reader ----
+var docSection = doc.getElementById('document');
+var termRes = new Map();
+function termRegex(gid) {
+  if (termRes.has(gid)) return termRes.get(gid);
+  var at = data.groups.id.indexOf(gid);
+  var terms = at >= 0 ? data.groups.terms[at].slice() : [];
+  terms = terms.filter(function (t) { return t.length > 0; }).sort(function (a, b) { return b.length - a.length; });
+  var re = null;
+  if (terms.length) {
+    var alts = terms.map(function (t) { return t.replace(/[.*+?^$(){}|[\]\\]/g, '\\$&').replace(/\s+/g, '\\s+'); });
+    try { re = new RegExp('(?<![\\p{L}\\p{N}])(?:' + alts.join('|') + ')[\\p{L}]*', 'giu'); } catch (err) { re = null; }
+  }
+  termRes.set(gid, re);
+  return re;
+}
+function marked(text, gid) {
+  var box = el('div', { className: 'doc-text' });
+  var cut = text.length > MAX_TEXT;
+  if (cut) text = text.slice(0, MAX_TEXT);
+  var re = termRegex(gid);
+  if (!re) { box.textContent = text; }
+  else {
+    re.lastIndex = 0;
+    var last = 0, hit, marks = 0;
+    while ((hit = re.exec(text)) !== null) {
+      if (hit[0] === '') { re.lastIndex++; continue; }
+      if (hit.index > last) box.appendChild(doc.createTextNode(text.slice(last, hit.index)));
+      box.appendChild(el('mark', { text: hit[0] }));
+      marks++;
+      last = hit.index + hit[0].length;
+    }
+    if (last < text.length) box.appendChild(doc.createTextNode(text.slice(last)));
+    box.setAttribute('data-marks', String(marks));
+  }
+  if (cut) box.appendChild(el('p', { className: 'muted', text: '[The text goes on; the first ' + count(MAX_TEXT) + ' characters are shown.]' }));
+  return box;
+}
+function safeLink(href) {
+  // Links are written by sheaf (percent-encoded relative paths or file: URLs); anything else is not made a link.
+  if (typeof href !== 'string' || href === '') return null;
+  if (/^file:\/\//i.test(href)) return href;
+  if (/^[a-z][a-z0-9+.-]*:/i.test(href) || /^\/\//.test(href)) return null;
+  return href;
+}
+function fact(dl, name, value) {
+  dl.appendChild(el('div', null, [el('dt', { text: name }), el('dd', null, [value])]));
+}
+function renderDocument(i) {
+  var body = doc.getElementById('document-body');
+  var heading = doc.getElementById('document-h');
+  if (!(i >= 0 && i < n)) {
+    heading.textContent = 'Document';
+    body.replaceChildren(el('p', { className: 'notice', text: 'There is no document ' + i + ' in this report.' }));
+    return;
+  }
+  heading.textContent = docTitle(i);
+  var dl = el('dl', { className: 'doc-facts' });
+  fact(dl, 'ID', el('code', { text: D.id[i] }));
+  if (hasGroups) fact(dl, 'Group', D.group[i] >= 0 ? groupLink(D.group[i]) : el('span', { text: D.fit[i] !== null ? 'unsorted (fits no group well)' : 'none (no usable terms)' }));
+  if (hasGroups) fact(dl, 'Fit', el('span', { text: fixed(D.fit[i], 3) + ' (cosine to the group\u2019s centre)' }));
+  if (D.next[i] >= 0) {
+    fact(dl, 'Next closest group', groupLink(D.next[i]));
+    fact(dl, 'Margin', el('span', { text: fixed(D.margin[i], 3) + (D.margin[i] !== null && D.margin[i] < 0.05 ? ' \u2014 close to both groups' : ' (fit minus the cosine to the next group)') }));
+  }
+  var href = safeLink(D.link[i]);
+  if (href) fact(dl, 'File', el('a', { href: href, text: D.link[i], rel: 'noopener noreferrer' }));
+  if (data.trends && D.period[i] >= 0) fact(dl, 'Period', el('span', { text: data.trends.periods[D.period[i]] }));
+  var parts = [dl];
+  if (COLS.names.length) {
+    var cols = el('dl', { className: 'doc-columns' });
+    COLS.names.forEach(function (name, c) {
+      var v = COLS.values[c][i];
+      if (v !== '') fact(cols, name, el('span', { text: shortText(v, 2000) }));
+    });
+    parts.push(el('h3', { text: 'Columns of the export' }), cols);
+  }
+  var sid = D.duplicateSet[i];
+  if (sid >= 0 && setById.has(sid)) {
+    var set = setById.get(sid);
+    var ul = el('ul', { className: 'near' });
+    set.members.forEach(function (mem) {
+      if (mem.id === D.id[i]) return;
+      var at = indexOfId.get(mem.id);
+      ul.appendChild(el('li', null, [at === undefined ? el('code', { text: mem.id }) : el('a', { href: '#doc-' + at, text: titleOfId(mem.id) }), el('span', { className: 'muted', text: mem.id === set.representative ? ' (representative)' : ' \u00b7 similarity ' + fixed(mem.similarity, 3) + ' to the representative' })]));
+    });
+    parts.push(el('h3', { text: 'Near-copies' }), el('p', null, ['In ', setLink(sid), ' with ' + count(set.members.length - 1) + ' other document(s):']), ul);
+  }
+  parts.push(el('h3', { text: 'Text' }));
+  var original = docText(i);
+  if (original === null) parts.push(el('p', { className: 'muted', text: 'This report holds no texts.' }));
+  else {
+    var cleaned = docCleaned(i);
+    var textBox = el('div');
+    var showWritten = el('button', { type: 'button', className: 'toggle', 'aria-pressed': 'true', text: 'As written' });
+    var showCleaned = el('button', { type: 'button', className: 'toggle', 'aria-pressed': 'false', text: 'As analysed (cleaned)' });
+    var choose = function (clean) {
+      showWritten.setAttribute('aria-pressed', clean ? 'false' : 'true');
+      showCleaned.setAttribute('aria-pressed', clean ? 'true' : 'false');
+      textBox.replaceChildren(marked(clean ? cleaned : original, D.group[i] >= 0 ? D.group[i] : D.next[i]));
+    };
+    showWritten.addEventListener('click', function () { choose(false); });
+    showCleaned.addEventListener('click', function () { choose(true); });
+    if (cleaned !== null) parts.push(el('div', { className: 'tools' }, [showWritten, showCleaned]));
+    else parts.push(el('p', { className: 'muted', text: 'Cleaning left this text as written.' }));
+    parts.push(el('p', { className: 'legend' }, ['Terms that name the group are ', el('mark', { text: 'marked' }), '.']));
+    parts.push(textBox);
+    choose(false);
+  }
+  var nav = el('nav', { className: 'step-nav', 'aria-label': 'Other documents' });
+  if (i > 0) nav.appendChild(el('a', { href: '#doc-' + (i - 1), text: '\u2190 previous document' }));
+  nav.appendChild(el('a', { href: '#documents', text: 'All documents' }));
+  if (i < n - 1) nav.appendChild(el('a', { href: '#doc-' + (i + 1), text: 'next document \u2192' }));
+  parts.push(nav);
+  body.replaceChildren.apply(body, parts);
+}
+
 // ---- routing by hash ----
 var views = Array.prototype.slice.call(doc.querySelectorAll('section.view'));
-var overview = doc.getElementById('overview');
+var overview = doc.getElementById('overview') || doc.getElementById('duplicates');
 var notice = doc.getElementById('route-notice');
 var navLinks = Array.prototype.slice.call(doc.querySelectorAll('nav.views a'));
 function route(moveFocus) {
@@ -417,10 +796,12 @@ function route(moveFocus) {
   var scrollTo = null;
   var missing = '';
   var m = /^set-(\d+)$/.exec(name);
+  var md = /^doc-(\d+)$/.exec(name);
   if (m && setSection) { target = setSection; renderSet(Number(m[1])); }
+  else if (md && docSection) { target = docSection; renderDocument(Number(md[1])); }
   else if (name) {
     var found = doc.getElementById(name);
-    if (found && found.classList.contains('view') && found !== setSection) target = found;
+    if (found && found.classList.contains('view') && found !== setSection && found !== docSection) target = found;
     else if (found && found.closest('section.view')) { target = found.closest('section.view'); scrollTo = found; }
     else if (found) return;
     else missing = name;
@@ -435,6 +816,7 @@ function route(moveFocus) {
     else navLinks[l].removeAttribute('aria-current');
   }
   mountWithin(target);
+  applyPendingCut();
   var h2 = target.querySelector('h2');
   doc.title = (h2 ? h2.textContent + ' \u2014 ' : '') + baseTitle;
   if (scrollTo) { scrollTo.scrollIntoView(); return; }

@@ -105,10 +105,77 @@ ol.exemplars li { margin: .25rem 0; overflow-wrap: anywhere; }
 article.member { border-top: 1px solid var(--line); padding: .5rem 0 1rem; }
 article.member h3 { margin: .5rem 0 .25rem; font-size: 1.05rem; overflow-wrap: anywhere; }
 .diff { white-space: pre-wrap; overflow-wrap: anywhere; background: var(--panel); padding: .5rem .75rem; border-radius: 6px; line-height: 1.7; }
-ins { background: var(--ins-bg); color: var(--ins-fg); text-decoration: underline; }
-del { background: var(--del-bg); color: var(--del-fg); text-decoration: line-through; }
-.mark { font-weight: 700; text-decoration: none; display: inline; }
+/* Word changes: words only in this copy sit on a tinted band with a filled corner mark; words only in the representative are struck through with a hollow one. */
+ins { background: var(--ins-bg); color: var(--ins-fg); text-decoration: none; border-bottom: 2px solid currentColor; padding: 0 .15em; border-radius: 3px 3px 0 0; }
+ins::before { content: "\\25B8"; font-size: .7em; vertical-align: super; margin-right: .1em; }
+del { background: var(--del-bg); color: var(--del-fg); text-decoration: line-through; text-decoration-thickness: 2px; padding: 0 .15em; border-radius: 3px; }
+del::before { content: "\\25B9"; font-size: .7em; vertical-align: super; margin-right: .1em; text-decoration: none; display: inline-block; }
 .elided { color: var(--muted); font-style: italic; }
+/* Group numbers stand apart from names. */
+.gno { display: inline-block; min-width: 1.7em; padding: 0 .35em; margin-right: .45em; border-radius: 999px; background: var(--track);
+  color: var(--fg); font-size: .8em; font-weight: 700; text-align: center; font-variant-numeric: tabular-nums; line-height: 1.6; vertical-align: .08em; text-decoration: none; }
+a.glink { text-decoration: none; }
+a.glink .gname { text-decoration: underline; }
+h2 .gno { font-size: .6em; vertical-align: .3em; }
+svg .gno-svg { font-weight: 700; fill: var(--muted); }
+td.col { white-space: nowrap; }
+.table-wrap, .scroll { overflow-x: auto; max-width: 100%; }
+fieldset.filters { display: flex; flex-wrap: wrap; gap: .5rem 1rem; align-items: end; border: 1px solid var(--line); border-radius: 6px; padding: .5rem .75rem .75rem; margin: .5rem 0; }
+fieldset.filters legend { color: var(--muted); font-size: .875rem; padding: 0 .25rem; }
+.filter { display: flex; flex-direction: column; gap: .15rem; font-size: .875rem; }
+.filter select, .filter input { font: inherit; padding: .25rem .4rem; border: 1px solid var(--muted); border-radius: 4px; background: var(--bg); color: var(--fg); max-width: 16rem; }
+.filter input.short { width: 5.5rem; }
+button.toggle[aria-pressed="true"] { background: var(--fg); color: var(--bg); }
+.cut .tools input[type="range"] { width: min(22rem, 60vw); }
+.cut output { font-weight: 700; }
+.cut-table button.toggle { white-space: nowrap; }
+.holds { display: flex; flex-wrap: wrap; gap: .25rem .75rem; }
+dl.doc-facts, dl.doc-columns { display: grid; grid-template-columns: max-content 1fr; gap: .25rem 1rem; margin: .5rem 0; }
+dl.doc-facts div, dl.doc-columns div { display: contents; }
+dl.doc-facts dt, dl.doc-columns dt { color: var(--muted); }
+dl.doc-facts dd, dl.doc-columns dd { margin: 0; overflow-wrap: anywhere; }
+.doc-text { white-space: pre-wrap; overflow-wrap: anywhere; background: var(--panel); border-left: 4px solid var(--bar); padding: .75rem 1rem; border-radius: 0 6px 6px 0; line-height: 1.6; }
+mark { background: #f3d9a4; color: #2b1d00; border-radius: 2px; padding: 0 .1em; }
+ul.near li { margin: .2rem 0; overflow-wrap: anywhere; }
+svg .sim-cell { fill: var(--bar); }
+svg .sim-self { fill: var(--muted); }
+svg .sim-value { font-size: 11px; fill: var(--fg); }
+svg .sim-value.on-dark { fill: #ffffff; }
+svg .sim-edge { stroke: var(--bar); stroke-opacity: .55; stroke-linecap: round; }
+svg .sim-node { fill: var(--panel); stroke: var(--fg); stroke-width: 1.5; }
+svg .sim-node-no { font-size: 11px; font-weight: 700; }
+svg .share-track { fill: var(--track); }
+svg .share-in { fill: var(--bar); }
+svg .share-out { fill: var(--muted); }
+svg.share { vertical-align: middle; margin-left: .3rem; }
+svg.spark { vertical-align: middle; }
+svg .spark-line { fill: none; stroke: var(--bar); stroke-width: 1.5; }
+svg .spark-end { fill: var(--bar); }
+svg .trend-line { fill: none; stroke-width: 2; }
+.trend-0 { stroke: #b5651d; background: #b5651d; } .trend-1 { stroke: #2f6f9f; background: #2f6f9f; } .trend-2 { stroke: #3d8b37; background: #3d8b37; }
+.trend-3 { stroke: #8e44ad; background: #8e44ad; } .trend-4 { stroke: #c0392b; background: #c0392b; } .trend-5 { stroke: #7f8c8d; background: #7f8c8d; }
+ul.trend-legend { list-style: none; padding: 0; display: flex; flex-wrap: wrap; gap: .25rem 1.25rem; }
+.swatch { display: inline-block; width: 1.2rem; height: .3rem; vertical-align: middle; margin-right: .4rem; border-radius: 2px; }
+.flag { display: inline-block; font-size: .75rem; font-weight: 700; padding: 0 .4rem; border-radius: 999px; border: 1px solid var(--focus); color: var(--focus); }
+table.label-grid td.top { font-weight: 700; background: var(--hit); }
+table.label-grid td.zero { color: var(--muted); }
+table.counts-grid th, table.counts-grid td { padding: .2rem .4rem; }
+/* Narrow screens: each row of a list becomes a card, each cell a labelled line. */
+@media (max-width: 560px) {
+  main, header.top .inner { padding: 0 .6rem; }
+  table.rows thead, table.rows-stack thead { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); }
+  table.rows, table.rows tbody, table.rows tr, table.rows td, table.rows-stack, table.rows-stack tbody, table.rows-stack tr, table.rows-stack td { display: block; width: 100%; }
+  table.rows tr, table.rows-stack tr { border: 1px solid var(--line); border-radius: 6px; margin: 0 0 .6rem; padding: .3rem .5rem; }
+  table.rows td, table.rows-stack td { border: 0; padding: .15rem 0; display: grid; grid-template-columns: 6.5rem minmax(0, 1fr); gap: .5rem; text-align: left; }
+  table.rows td::before, table.rows-stack td::before { content: attr(data-label); color: var(--muted); font-size: .85rem; overflow-wrap: anywhere; }
+  table.rows td[colspan] { display: block; }
+  table.rows td.col { white-space: normal; overflow-wrap: anywhere; }
+  table.rows td[colspan]::before { content: none; }
+  .tools input[type="search"] { min-width: 0; width: 100%; }
+  .filter select, .filter input { max-width: 100%; }
+  dl.doc-facts, dl.doc-columns { grid-template-columns: 1fr; gap: 0; }
+  dl.doc-facts dd, dl.doc-columns dd { margin-bottom: .4rem; }
+}
 @media print {
   .js section.view[hidden] { display: block; }
   nav.views, .pager, .tools, .skip { display: none; }

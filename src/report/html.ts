@@ -20,8 +20,9 @@
 import { createHash } from 'node:crypto';
 import type { ReportData } from './report-data.js';
 import { escapeHtml as e, formatCount, formatFixed, formatShare, jsonForScript } from './html-escape.js';
-import { groupHref, groupName, mapChart, sizesChart, termsChart, treeChart, treeLayout } from './html-charts.js';
-import { reportPayload } from './html-payload.js';
+import { groupHref, groupName, sizesChart, treeChart, treeLayout } from './html-charts.js';
+import { COLUMN_VALUE_CHARS, reportPayload, textChunks } from './html-payload.js';
+import { evaluationBody, groupLink, groupNumber, similarityGraph, similarityMatrix, sparkline, termTable, trendsBody } from './html-views.js';
 import { REPORT_CSS } from './html-styles.js';
 import { REPORT_SCRIPT } from './html-client.js';
 import { choiceSection, mixedStat, unsortedCounts } from './html-quality.js';
@@ -30,6 +31,9 @@ type Group = ReportData['groups'][number];
 
 /** Id of the `<script type="application/json">` element that holds the page's data. */
 export const REPORT_DATA_ELEMENT_ID = 'sheaf-data';
+
+/** Id prefix of the `<script type="application/json">` blocks holding the documents' texts (`sheaf-text-0`, …). */
+export const REPORT_TEXT_ELEMENT_PREFIX = 'sheaf-text-';
 
 /** `'sha256-…'` CSP source for an inline script or style element's exact text. */
 export function cspHash(text: string): string {
@@ -65,13 +69,16 @@ export function renderReport(data: ReportData): string {
   const bySize = groups.slice().sort((a, b) => b.size - a.size || a.id - b.id);
   const grouped = groups.reduce((s, g) => s + (Number.isFinite(g.size) ? g.size : 0), 0);
 
+  if (data.kind === 'duplicates') return renderDuplicatesReport(data);
   const nav: [string, string][] = [
     ['overview', 'Overview'],
-    ['map', 'Map'],
+    ['relations', 'Relations'],
     ['tree', 'Tree'],
     ['documents', 'All documents'],
   ];
   if (ungrouped > 0) nav.push(['ungrouped', 'Not grouped']);
+  if (data.trends) nav.push(['trends', 'Over time']);
+  if (data.evaluation) nav.push(['scores', 'Scores']);
   nav.push(['duplicates', 'Near-duplicates']);
 
   const parts: string[] = [];
@@ -96,11 +103,11 @@ export function renderReport(data: ReportData): string {
     '<p id="route-notice" class="notice" role="status" hidden></p>\n',
   );
   parts.push(overviewView(data, bySize, grouped, colourIndex));
-  parts.push(mapView(groups, colourIndex));
+  parts.push(relationsView(data));
   parts.push(treeView(data));
   parts.push(
     view('documents', 'All documents', [
-      `<p>${e(formatCount(data.documents.length))} documents in input order. Search by id or title; sort by a column heading.</p>`,
+      `<p>${e(formatCount(data.documents.length))} documents in input order. Search by id, title or text; filter by group, fit, near-copies or a column of the export (values longer than ${COLUMN_VALUE_CHARS} characters are cut here; the reader shows the whole text); sort by a column heading; open a document by its id.</p>`,
       mountPoint('all', ''),
     ]),
   );
@@ -114,26 +121,19 @@ export function renderReport(data: ReportData): string {
       ]),
     );
   }
+  if (data.trends) parts.push(view('trends', 'Over time', trendsBody(data)));
+  if (data.evaluation) parts.push(view('scores', 'Scores against known labels', evaluationBody(data)));
   groups.forEach((g, i) => parts.push(groupView(g, i, groups, grouped, titleById)));
   parts.push(duplicatesView(data));
-  parts.push(
-    `<section class="view" id="duplicate-set" data-nav="duplicates" aria-labelledby="duplicate-set-h">` +
-      `<h2 id="duplicate-set-h" tabindex="-1">Near-duplicate set</h2><div id="duplicate-set-body">` +
-      `<p class="muted">Choose a set in the <a href="#duplicates">list of near-duplicate sets</a>.</p></div></section>\n`,
-  );
-  parts.push(
-    '</main>\n',
-    `<script type="application/json" id="${REPORT_DATA_ELEMENT_ID}">${jsonForScript(reportPayload(data))}</script>\n`,
-    `<script>${REPORT_SCRIPT}</script>\n</body>\n</html>\n`,
-  );
+  parts.push(...pageTail(data));
   return parts.join('');
 }
 
 /** A view section with its focusable heading. */
-function view(id: string, heading: string, body: string[], extra = ''): string {
+function view(id: string, heading: string, body: string[], extra = '', badge = ''): string {
   return (
     `<section class="view" id="${e(id)}" aria-labelledby="${e(id)}-h"${extra}>\n` +
-    `<h2 id="${e(id)}-h" tabindex="-1">${e(heading)}</h2>\n${body.join('\n')}\n</section>\n`
+    `<h2 id="${e(id)}-h" tabindex="-1">${badge}${badge ? ' ' : ''}${e(heading)}</h2>\n${body.join('\n')}\n</section>\n`
   );
 }
 
@@ -155,7 +155,7 @@ function fallbackTable(summary: string, caption: string, head: string[], rows: s
 }
 
 function groupLinkHtml(g: Pick<Group, 'id' | 'label'>): string {
-  return `<a href="${groupHref(g.id)}">${e(groupName(g))}</a>`;
+  return groupLink(g);
 }
 
 function overviewView(
@@ -191,15 +191,16 @@ function overviewView(
         '</p>',
       `<div class="chart-wrap">${sizesChart(bySize, colourIndex)}</div>`,
       fallbackTable(
-        'Table: documents and cohesion per group',
+        'Table: documents and cohesion per group' + (data.trends ? ', with their trend' : ''),
         'Documents, share and cohesion per group, largest first',
-        ['Group', 'Documents', 'Share', 'Cohesion', ...(hasSeparation ? ['Separation'] : [])],
+        ['Group', 'Documents', 'Share', 'Cohesion', ...(hasSeparation ? ['Separation'] : []), ...(data.trends ? ['Over time'] : [])],
         bySize.map((g) => [
           groupLinkHtml(g) + (g.mixed ? ' (mixed)' : ''),
           e(formatCount(g.size)),
           e(formatShare(g.size, grouped)),
           e(formatFixed(g.cohesion, 3)),
           ...(hasSeparation ? [e(formatFixed(g.separation, 3))] : []),
+          ...(data.trends ? [sparkline(data.trends.counts[data.groups.indexOf(g)] ?? [], `Group ${g.id} per period`)] : []),
         ]),
         new Set(hasSeparation ? [1, 2, 3, 4] : [1, 2, 3]),
       ),
@@ -219,25 +220,22 @@ function overviewView(
   return view('overview', 'Overview', body);
 }
 
-function mapView(groups: readonly Group[], colourIndex: ReadonlyMap<number, number>): string {
+function relationsView(data: ReportData): string {
   const body: string[] = [];
-  if (groups.length < 2) {
-    body.push('<p>A map needs at least two groups.</p>');
+  if (data.groups.length < 2 || !data.similarity) {
+    body.push('<p>Relations need at least two groups.</p>');
   } else {
+    const graph = similarityGraph(data);
     body.push(
-      '<p>One circle per group, area proportional to its number of documents. Groups whose centres are alike are close together ' +
-        '(distances follow the cosine distance between group centres, flattened onto the page). Select a circle to open the group.</p>',
-      `<div class="chart-wrap">${mapChart(groups, colourIndex)}</div>`,
-      fallbackTable(
-        'Table: positions on the map',
-        'Position of each group on the map',
-        ['Group', 'Documents', 'x', 'y'],
-        groups.map((g) => [groupLinkHtml(g), e(formatCount(g.size)), e(formatFixed(g.x, 3)), e(formatFixed(g.y, 3))]),
-        new Set([1, 2, 3]),
-      ),
+      '<p>How alike the groups are: the cosine similarity of their centres. The grid puts the groups in the order of the tree’s leaves, so a dark block along the diagonal is a family of related groups.</p>',
+      `<div class="chart-wrap">${similarityMatrix(data)}</div>`,
+      '<h3>Groups joined above a similarity</h3>',
+      `<div class="tools"><label for="sim-threshold">Join groups at similarity ≥ <output id="sim-value" for="sim-threshold">${e(formatFixed(graph.start, 2))}</output></label>` +
+        `<input type="range" id="sim-threshold" min="0" max="1" step="0.01" value="${e(formatFixed(graph.start, 2))}"><span id="sim-count" class="status" role="status"></span></div>`,
+      `<div class="chart-wrap">${graph.svg}</div>`,
     );
   }
-  return view('map', 'Map of the groups', body);
+  return view('relations', 'How the groups relate', body);
 }
 
 function treeView(data: ReportData): string {
@@ -264,6 +262,9 @@ function treeView(data: ReportData): string {
     '<p>Groups are joined step by step, the most alike first (average-link on cosine similarity). ' +
       'The height of a join is the mean similarity between the documents on its two sides: the lower it is drawn, the more alike.</p>',
     `<div class="chart-wrap">${treeChart(groups, merges)}</div>`,
+    '<h3>Coarser or finer</h3>',
+    '<p>Cut the tree at any level: fewer groups merge the most alike first. Merged groups are named from the summed term weights of the groups they hold.</p>',
+    `<div class="cut" data-cut=""><p class="muted">This control is built by the page's script, which is not running.</p></div>`,
     fallbackTable(
       'Table: the joins, most alike first',
       'Joins of the tree in order',
@@ -289,7 +290,7 @@ function groupView(
   titleById: ReadonlyMap<string, string>,
 ): string {
   const id = `group-${g.id}`;
-  const heading = `Group ${g.id} · ${g.label}`;
+  const heading = g.label;
   const stats = [
     `<li><strong>${e(formatCount(g.size))}</strong> documents (${e(formatShare(g.size, grouped))} of those grouped)</li>`,
     `<li>cohesion <strong>${e(formatFixed(g.cohesion, 3))}</strong></li>`,
@@ -300,14 +301,8 @@ function groupView(
   if (g.terms.length === 0) body.push('<p>No terms.</p>');
   else {
     body.push(
-      `<div class="chart-wrap">${termsChart(`terms-${g.id}`, heading, g.terms)}</div>`,
-      fallbackTable(
-        'Table: terms and weights',
-        `Terms of group ${g.id}`,
-        ['Term', 'Weight'],
-        g.terms.map((t) => [e(t.term), e(formatFixed(t.weight, 4))]),
-        new Set([1]),
-      ),
+      '<p>Each term’s weight combines how central it is to the group and how much it sets the group apart; the shares say how many of the group’s documents contain it against the other documents.</p>',
+      termTable(g),
     );
   }
   body.push('<h3>Exemplars</h3>');
@@ -328,11 +323,11 @@ function groupView(
     mountPoint('group', ` data-group="${e(g.id)}"`),
   );
   const links: string[] = [];
-  if (position > 0) links.push(`<a href="${groupHref(groups[position - 1].id)}">← ${e(groupName(groups[position - 1], 40))}</a>`);
+  if (position > 0) links.push(`<a href="${groupHref(groups[position - 1].id)}">← ${groupNumber(groups[position - 1].id)} ${e(groupName(groups[position - 1], 40))}</a>`);
   links.push('<a href="#overview">All groups</a>');
-  if (position < groups.length - 1) links.push(`<a href="${groupHref(groups[position + 1].id)}">${e(groupName(groups[position + 1], 40))} →</a>`);
+  if (position < groups.length - 1) links.push(`<a href="${groupHref(groups[position + 1].id)}">${groupNumber(groups[position + 1].id)} ${e(groupName(groups[position + 1], 40))} →</a>`);
   body.push(`<nav class="step-nav" aria-label="Other groups">${links.join('')}</nav>`);
-  return view(id, heading, body, ' data-nav="overview"');
+  return view(id, heading, body, ' data-nav="overview"', groupNumber(g.id));
 }
 
 function duplicatesView(data: ReportData): string {
@@ -351,4 +346,63 @@ function duplicatesView(data: ReportData): string {
     else body.push(mountPoint('sets', ''));
   }
   return view('duplicates', 'Near-duplicates', body);
+}
+
+/** The page's head, top bar and navigation (shared by both kinds of report). */
+function pageHead(data: ReportData, nav: readonly [string, string][], meta: string): string[] {
+  return [
+    '<!DOCTYPE html>\n<html lang="en" class="no-js">\n<head>\n<meta charset="utf-8">\n',
+    `<meta http-equiv="Content-Security-Policy" content="${e(reportCsp())}">\n`,
+    '<meta name="viewport" content="width=device-width, initial-scale=1">\n',
+    '<meta name="referrer" content="no-referrer">\n',
+    '<meta name="color-scheme" content="light dark">\n',
+    `<meta name="generator" content="${e(`sheaf ${data.version}`)}">\n`,
+    `<title>${e(data.title)}</title>\n`,
+    `<style>${REPORT_CSS}</style>\n</head>\n<body>\n`,
+    '<a class="skip" href="#main">Skip to the content</a>\n',
+    '<header class="top"><div class="inner">',
+    `<h1>${e(data.title)}</h1>`,
+    `<p class="meta">${meta}</p>`,
+    '<nav class="views" aria-label="Views"><ul>',
+    ...nav.map(([id, text]) => `<li><a href="#${id}">${e(text)}</a></li>`),
+    '</ul></nav></div></header>\n<main id="main" tabindex="-1">\n',
+    '<p id="route-notice" class="notice" role="status" hidden></p>\n',
+  ];
+}
+
+/** The sections every report ends with: a near-duplicate set's page, the document reader, the data blocks and the script. */
+function pageTail(data: ReportData): string[] {
+  return [
+    `<section class="view" id="duplicate-set" data-nav="duplicates" aria-labelledby="duplicate-set-h">` +
+      `<h2 id="duplicate-set-h" tabindex="-1">Near-duplicate set</h2><div id="duplicate-set-body">` +
+      `<p class="muted">Choose a set in the <a href="#duplicates">list of near-duplicate sets</a>.</p></div></section>\n`,
+    `<section class="view" id="document" data-nav="documents" aria-labelledby="document-h">` +
+      `<h2 id="document-h" tabindex="-1">Document</h2><div id="document-body">` +
+      `<p class="muted">Open a document from <a href="#documents">the list of documents</a>.</p></div></section>\n`,
+    '</main>\n',
+    `<script type="application/json" id="${REPORT_DATA_ELEMENT_ID}">${jsonForScript(reportPayload(data))}</script>\n`,
+    ...textChunks(data).map((c, i) => `<script type="application/json" id="${REPORT_TEXT_ELEMENT_PREFIX}${i}">${jsonForScript(c)}</script>\n`),
+    `<script>${REPORT_SCRIPT}</script>\n</body>\n</html>\n`,
+  ];
+}
+
+/** The report of `sheaf duplicates`: the sets, each set's page, and the documents in sets. */
+function renderDuplicatesReport(data: ReportData): string {
+  const parts = pageHead(
+    data,
+    [
+      ['duplicates', 'Near-duplicate sets'],
+      ['documents', 'Documents in sets'],
+    ],
+    `sheaf ${e(data.version)} · ${e(data.createdAt)} · ${e(formatCount(data.counts.documents))} documents compared`,
+  );
+  parts.push(duplicatesView(data));
+  parts.push(
+    view('documents', 'Documents in sets', [
+      `<p>${e(formatCount(data.documents.length))} documents belong to a near-duplicate set. Search by id, title or text; open a document by its id.</p>`,
+      mountPoint('all', ''),
+    ]),
+  );
+  parts.push(...pageTail(data));
+  return parts.join('');
 }

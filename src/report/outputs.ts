@@ -14,6 +14,12 @@ import { round } from '../util/round.js';
 /** Columns sheaf puts first in `documents.csv`. */
 export const DOCUMENT_COLUMNS = ['id', 'group', 'label', 'fit', 'duplicate_set'] as const;
 
+/**
+ * Columns after {@link DOCUMENT_COLUMNS}: the closest group other than the document's own (`next_group`) and
+ * own cosine minus that group's cosine (`next_margin`), both in the space the groups were formed in.
+ */
+export const NEXT_COLUMNS = ['next_group', 'next_margin'] as const;
+
 /** The label column of an unsorted document in `documents.csv` (its group column is empty, its fit kept). */
 export const UNSORTED_LABEL = '(unsorted)';
 
@@ -35,7 +41,7 @@ export function documentsCsv(result: GroupResult, extras: DocumentExtras = {}): 
 
 /** {@link documentsCsv} in pieces, for writing inputs too large for one string. */
 export function documentsCsvChunks(result: GroupResult, extras: DocumentExtras = {}): Generator<string> {
-  const own = new Set<string>(DOCUMENT_COLUMNS);
+  const own = new Set<string>([...DOCUMENT_COLUMNS, ...NEXT_COLUMNS]);
   const userColumns: string[] = [];
   const seen = new Set<string>();
   for (const doc of result.docs) {
@@ -46,7 +52,7 @@ export function documentsCsvChunks(result: GroupResult, extras: DocumentExtras =
       }
     }
   }
-  const header = [...DOCUMENT_COLUMNS, ...userColumns.map((c) => (own.has(c) ? `input_${c}` : c))];
+  const header = [...DOCUMENT_COLUMNS, ...NEXT_COLUMNS, ...userColumns.map((c) => (own.has(c) ? `input_${c}` : c))];
   const { assignments, fit } = result.partition;
   const labels = result.groups.map((g) => g.label);
   const dup = extras.duplicateSet;
@@ -62,6 +68,7 @@ export function documentsCsvChunks(result: GroupResult, extras: DocumentExtras =
         g >= 0 ? labels[g] : unsorted.has(i) ? UNSORTED_LABEL : '',
         g >= 0 || unsorted.has(i) ? fixed(fit[i]) : '',
         dup && dup[i] >= 0 ? String(dup[i]) : '',
+        ...nextCells(result, i),
       ];
       for (const c of userColumns) row.push(doc.fields.get(c) ?? '');
       yield row;
@@ -69,6 +76,13 @@ export function documentsCsvChunks(result: GroupResult, extras: DocumentExtras =
   }
   // The formula guard on sheaf's own columns only: the user's columns are written as they were (see csv.ts).
   return csvChunks(header, rows(), { guarded: DOCUMENT_COLUMNS.length });
+}
+
+/** The `next_group` and `next_margin` cells of row `i` (empty for documents in no group). */
+function nextCells(result: GroupResult, i: number): [string, string] {
+  const g = result.next.group[i];
+  const m = result.next.margin[i];
+  return [g >= 0 ? String(g) : '', g >= 0 && Number.isFinite(m) ? fixed(m) : ''];
 }
 
 /** The shape of `groups.json`. */

@@ -7,9 +7,10 @@
 import type { GroupChoice, GroupResult } from '../pipeline.js';
 import type { DuplicateRun } from '../near-copies.js';
 import type { ReportData } from './report-data.js';
-import { groupMap } from './map.js';
 import { methodOf } from '../methods/index.js';
 import { round } from '../util/round.js';
+import type { Evaluation } from './outputs.js';
+import { centreSimilarity, exportColumns, mergeNames, reportEvaluation, reportTrends, type TrendsInput } from './report-extras.js';
 
 /** What the report shows besides the run itself. */
 export interface ReportContext {
@@ -20,6 +21,14 @@ export interface ReportContext {
   readonly skipped: number;
   /** Extra settings to list (name, value), after the grouping's own. */
   readonly settings?: readonly { name: string; value: string }[];
+  /** Each document's text as written (before cleaning), in input order: the reader shows it beside the cleaned text. */
+  readonly originals?: readonly string[];
+  /** Per document in input order, a link to its file (relative to the report's folder, or a file:// URL), null for export rows. */
+  readonly links?: readonly (string | null)[];
+  /** Scores against known labels. */
+  readonly evaluation?: Evaluation | null;
+  /** Counts per group over time. */
+  readonly trends?: TrendsInput | null;
 }
 
 /** The report's data for a grouping run; `near` adds the near-duplicate view. */
@@ -32,10 +41,10 @@ export function reportFromRun(
   const p = result.partition;
   const k = p.groups;
   const rows = result.docs;
-  const map = groupMap(p.centroids, result.matrix.cols, k);
   const tree = result.tree;
   const o = result.options;
   const unsortedSet = new Set(result.unsorted.rows);
+  const columns = exportColumns(result);
   const settings = [
     { name: 'method', value: methodOf(result).title },
     {
@@ -72,11 +81,9 @@ export function reportFromRun(
       size: g.size,
       cohesion: g.cohesion,
       ...(Number.isFinite(result.quality.separation[g.id]) ? { separation: result.quality.separation[g.id] } : {}),
-      terms: g.terms.map((t) => ({ term: t.term, weight: t.weight })),
+      terms: g.terms.map((t) => ({ term: t.term, weight: t.weight, inGroup: t.inGroup, outside: t.outside })),
       exemplars: g.exemplars.map((r) => rows[r].id),
       ...(result.mixed[g.id] === 1 ? { mixed: true } : {}),
-      x: map.x[g.id],
-      y: map.y[g.id],
     })),
     tree: {
       merges: Array.from({ length: tree.left.length }, (_, i) => ({
@@ -89,13 +96,30 @@ export function reportFromRun(
     ...(result.choice && result.choice.by === 'knee'
       ? { choice: { chosen: result.choice.chosen, treeLeaves: result.choice.treeLeaves, warnings: result.choice.warnings, tried: choiceTable(result.choice) } }
       : {}),
-    documents: Array.from(result.inputOrder, (r) => ({
-      id: rows[r].id,
-      title: rows[r].title,
-      group: p.assignments[r],
-      fit: p.assignments[r] >= 0 || unsortedSet.has(r) ? p.fit[r] : Number.NaN,
-      duplicateSet: near ? near.setOf[r] : -1,
-    })),
+    documents: Array.from(result.inputOrder, (r, i) => {
+      const original = context.originals?.[i];
+      const link = context.links?.[i];
+      const period = context.trends ? context.trends.trends.periodOf[r] : -1;
+      return {
+        id: rows[r].id,
+        title: rows[r].title,
+        group: p.assignments[r],
+        fit: p.assignments[r] >= 0 || unsortedSet.has(r) ? p.fit[r] : Number.NaN,
+        duplicateSet: near ? near.setOf[r] : -1,
+        next: result.next.group[r],
+        margin: result.next.margin[r],
+        fields: columns.map((c) => rows[r].fields.get(c) ?? ''),
+        text: original ?? rows[r].text,
+        ...(original !== undefined && original !== rows[r].text ? { cleaned: rows[r].text } : {}),
+        ...(link ? { link } : {}),
+        ...(period >= 0 ? { period: context.trends!.trends.periods[period] } : {}),
+      };
+    }),
+    columns,
+    similarity: centreSimilarity(p.centroids, result.matrix.cols, k),
+    mergeNames: mergeNames(result.groups, Array.from(tree.left, (left, i) => ({ left, right: tree.right[i] }))),
+    ...(context.evaluation ? { evaluation: reportEvaluation(context.evaluation) } : {}),
+    ...(context.trends ? { trends: reportTrends(result, context.trends) } : {}),
     ...(near && nearSettings
       ? {
           duplicates: {

@@ -11,13 +11,14 @@ import { pathToFileURL } from 'node:url';
 import { chromium, type Browser } from 'playwright-core';
 import { diffWords } from 'diff';
 import type { ReportData, ReportDiffPiece } from '../../src/report/report-data.js';
-import { groupMap } from '../../src/report/map.js';
 import { ingest } from '../../src/ingest/index.js';
 import { groupDocuments } from '../../src/pipeline.js';
 import { groupAverageLink } from '../../src/cluster/tree.js';
 import { groupSeparation } from '../../src/cluster/quality.js';
 import { nearCopiesOfVectors, resolveFindDuplicatesOptions } from '../../src/near-copies.js';
 import { reportFromRun } from '../../src/report/report-from-run.js';
+import { mergeNames } from '../../src/report/report-extras.js';
+import { groupTrends } from '../../src/trends/index.js';
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 
@@ -133,7 +134,7 @@ export function wordDiff(representative: string, text: string): ReportDiffPiece[
  * from {@link groupMap}, the average-link tree between the three groups, and two
  * near-duplicate sets with word diffs.
  */
-export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplicates?: boolean } = {}): ReportData {
+export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplicates?: boolean; dated?: boolean } = {}): ReportData {
   const docs = tinyCorpus(options.hostile);
   const vocab = new Map<string, number>();
   for (const d of docs) for (const w of d.text.split(/\s+/).filter(Boolean)) if (!vocab.has(w)) vocab.set(w, vocab.size);
@@ -154,7 +155,6 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
   const fit = docs.map((d, i) => (d.group < 0 ? Number.NaN : dot(vectors[i], centroids[d.group])));
   const termMajor = new Float32Array(vocab.size * k);
   for (let t = 0; t < vocab.size; t++) for (let g = 0; g < k; g++) termMajor[t * k + g] = centroids[g][t];
-  const map = groupMap(termMajor, vocab.size, k);
   const labels = options.hostile
     ? [HOSTILE.close, HOSTILE.img, 'parcel / courier']
     : ['password / reset', 'refund / invoice', 'parcel / courier'];
@@ -173,10 +173,14 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
       size: sizes[g],
       cohesion: members.reduce((s, i) => s + fit[i], 0) / members.length,
       separation,
-      terms: top.map((t) => ({ term: options.hostile && g === 0 && t === top[0] ? HOSTILE.svg : terms[t], weight: centroids[g][t] })),
+      terms: top.map((t) => ({
+        term: options.hostile && g === 0 && t === top[0] ? HOSTILE.svg : terms[t],
+        weight: centroids[g][t],
+        // Shares of documents containing the term, in the group and elsewhere (counted here from the texts).
+        inGroup: members.filter((i) => docs[i].text.split(' ').includes(terms[t])).length / members.length,
+        outside: docs.filter((d, i) => d.group !== g && d.text.split(' ').includes(terms[t]) && i >= 0).length / (docs.length - members.length),
+      })),
       exemplars: byFit.slice(0, 2).map((i) => docs[i].id),
-      x: map.x[g],
-      y: map.y[g],
     };
   });
   // Average-link between groups: mean pairwise cosine = (ΣA·ΣB)/(|A||B|).
@@ -229,6 +233,42 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
       },
     ],
   };
+  // Export columns: a channel and a creation time (ISO 8601 UTC) per ticket, spread over three weeks of 2029.
+  const columns = options.hostile ? [HOSTILE.img, 'created'] : ['channel', 'created'];
+  const created = docs.map((_, i) => new Date(Date.UTC(2029, 0, 1 + ((i * 13) % 80), i % 10, 30)).toISOString());
+  if (options.hostile) created[3] = HOSTILE.script;
+  const channel = docs.map((_, i) => (options.hostile && i === 0 ? HOSTILE.comment : ['mail', 'chat', 'phone'][i % 3]));
+  // Runner-up group of each grouped document and the margin, by the same cosines as the fits.
+  const next = docs.map((d, i) => {
+    if (d.group < 0) return { next: -1, margin: Number.NaN };
+    let best = -1;
+    let cos = -Infinity;
+    for (let g = 0; g < k; g++) {
+      if (g === d.group) continue;
+      const c = dot(vectors[i], centroids[g]);
+      if (c > cos) [best, cos] = [g, c];
+    }
+    return { next: best, margin: fit[i] - cos };
+  });
+  const similarity: number[] = [];
+  for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) similarity.push(dot(centroids[a], centroids[b]));
+  const trends = options.dated
+    ? (() => {
+        const t = groupTrends(created, Int32Array.from(docs, (d) => d.group), k);
+        const p = t.periods.length;
+        return {
+          column: 'created',
+          granularity: t.granularity,
+          zone: 'UTC',
+          periods: t.periods,
+          counts: Array.from({ length: k }, (_, g) => Array.from(t.counts.subarray(g * p, g * p + p))),
+          rising: Array.from(t.rising),
+          unparsed: t.unparsed.length,
+          unparsedIds: Array.from(t.unparsed, (i) => docs[i].id),
+          periodOf: t.periodOf,
+        };
+      })()
+    : null;
   return {
     title: options.hostile ? `sheaf — ${HOSTILE.close}` : 'sheaf — tiny tickets',
     createdAt: '2026-01-02T03:04:05.000Z',
@@ -247,7 +287,30 @@ export function tinyReport(options: { hostile?: boolean; tree?: boolean; duplica
       group: d.group,
       fit: fit[i],
       duplicateSet: setOf.get(d.id) ?? -1,
+      next: next[i].next,
+      margin: next[i].margin,
+      fields: [channel[i], created[i]],
+      text: options.hostile && i === 2 ? `${HOSTILE.img} ${d.text}` : d.text,
+      ...(i === 0 ? { cleaned: d.text.split(' ').slice(0, 4).join(' ') } : {}),
+      ...(trends && trends.periodOf[i] >= 0 ? { period: trends.periods[trends.periodOf[i]] } : {}),
     })),
+    columns,
+    similarity,
+    ...(options.tree === false ? {} : { mergeNames: mergeNames(groups, merges) }),
+    ...(trends
+      ? {
+          trends: {
+            column: trends.column,
+            granularity: trends.granularity,
+            zone: trends.zone,
+            periods: trends.periods,
+            counts: trends.counts,
+            rising: trends.rising,
+            unparsed: trends.unparsed,
+            unparsedIds: trends.unparsedIds,
+          },
+        }
+      : {}),
     ...(options.duplicates === false ? {} : { duplicates }),
   };
 }
@@ -278,8 +341,6 @@ export function largeReport(n: number, k: number): ReportData {
       cohesion: 0.3,
       terms: [{ term: words[g % words.length], weight: 0.5 }],
       exemplars: [`D${g}`],
-      x: Math.cos((2 * Math.PI * g) / k),
-      y: Math.sin((2 * Math.PI * g) / k),
     })),
     documents,
   };
