@@ -35,7 +35,7 @@ describe('group --date', () => {
       { cwd: dir },
     );
     expect(run.code).toBe(0);
-    const docs = parse(readFileSync(path.join(dir, 'o', 'documents.csv')), { columns: true }) as Record<string, string>[];
+    const docs = parse(readFileSync(path.join(dir, 'o', 'documents.csv')), { columns: true, bom: true }) as Record<string, string>[];
     // Independent count: group from documents.csv, week from Date.parse of created.
     const want = new Map<string, number>();
     for (const d of docs) {
@@ -43,7 +43,7 @@ describe('group --date', () => {
       const key = `${d.group}|${mondayKey(Date.parse(d.created))}`;
       want.set(key, (want.get(key) ?? 0) + 1);
     }
-    const rows = parse(readFileSync(path.join(dir, 'o', 'trends.csv')), { columns: true }) as { group: string; period: string; count: string }[];
+    const rows = parse(readFileSync(path.join(dir, 'o', 'trends.csv')), { columns: true, bom: true }) as { group: string; period: string; count: string }[];
     const record = JSON.parse(readFileSync(path.join(dir, 'o', 'run.json'), 'utf8'));
     expect(record.trends.granularity).toBe('week');
     expect(record.trends.unparsed).toBe(0);
@@ -132,7 +132,7 @@ describe('hostile text in columns, dates and names', () => {
     // The unparsed document is listed, escaped, in the "Over time" view.
     expect(html).toContain('&lt;/script&gt;&lt;script&gt;window.__pwned = &quot;close&quot;&lt;/script&gt;');
     const trends = readFileSync(path.join(dir, 'o', 'trends.csv'), 'utf8').split('\r\n');
-    expect(trends[0]).toBe('group,period,count');
+    expect(trends[0]).toBe('\uFEFFgroup,period,count');
     for (const line of trends.slice(1, -1)) expect(line).toMatch(/^\d+,2029-06-\d\d,\d+$/);
   }, 60_000);
 });

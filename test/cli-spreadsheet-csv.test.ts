@@ -67,12 +67,12 @@ describe('sheaf group writes documents.csv for a spreadsheet', () => {
     expect(bytes.subarray(0, 3).equals(BOM)).toBe(true);
     const lines = bytes.subarray(3).toString('utf8').split('\r\n');
     // The --id column becomes sheaf's id column (not repeated among the user's).
-    expect(lines[0]).toBe('id,group,label,fit,duplicate_set,amount,note,body');
+    expect(lines[0]).toBe('id,group,label,fit,duplicate_set,next_group,next_margin,amount,note,body');
     // Sheaf's id cell is guarded; the user's own amount and note cells are not.
-    expect(lines[1]).toMatch(/^T1,[01],[^,]+,0\.\d{4},\d*,-5,-5 refund,printer jams paper tray printer jams again$/);
-    expect(lines[2]).toMatch(/^T2,[01],[^,]+,0\.\d{4},\d*,\+3,=SUM\(A1:A2\),printer paper tray jams every morning printer$/);
-    expect(lines[3]).toMatch(/^'=1\+1,[01],[^,]+,0\.\d{4},\d*,12,@owner,printer jams the paper tray and stops$/);
-    expect(lines[5]).toMatch(/^T5,[01],[^,]+,0\.\d{4},\d*,-0\.5,-x,invoice charged twice refund the invoice total$/);
+    expect(lines[1]).toMatch(/^T1,[01],[^,]+,0\.\d{4},\d*,[01],-?\d\.\d{4},-5,-5 refund,printer jams paper tray printer jams again$/);
+    expect(lines[2]).toMatch(/^T2,[01],[^,]+,0\.\d{4},\d*,[01],-?\d\.\d{4},\+3,=SUM\(A1:A2\),printer paper tray jams every morning printer$/);
+    expect(lines[3]).toMatch(/^'=1\+1,[01],[^,]+,0\.\d{4},\d*,[01],-?\d\.\d{4},12,@owner,printer jams the paper tray and stops$/);
+    expect(lines[5]).toMatch(/^T5,[01],[^,]+,0\.\d{4},\d*,[01],-?\d\.\d{4},-0\.5,-x,invoice charged twice refund the invoice total$/);
     expect(lines[7]).toBe('');
     // The other CSV files of the run carry the mark too.
     for (const f of ['duplicates.csv', 'near-copy-pairs.csv']) expect(readFileSync(path.join(dir, 'o', f)).subarray(0, 3).equals(BOM)).toBe(true);
