@@ -157,6 +157,12 @@ describe('sheaf group --previous on generated weekly piles', () => {
     expect(c.gone[0].closest).toBeLessThan(0.5);
     expect(run2.stdout).toContain(`Since the previous run (${path.join('w1', 'model.json')}): 4 continued (1 grown, 1 shrunk), 1 new, 1 gone.`);
     expect(run2.stdout).toContain(`  gone    4 ${noise.label} (20)`);
+    // The report has the same view: a nav entry, and one table row per group plus the gone one.
+    const html = readFileSync(path.join(dir, 'w2', 'report.html'), 'utf8');
+    expect(html).toContain('<li><a href="#since">Since last run</a></li>');
+    const section = html.slice(html.indexOf('<section class="view" id="since"'), html.indexOf('</section>', html.indexOf('id="since"')));
+    expect((section.match(/<tr><td>/g) ?? []).length).toBe(c.groups.length + 1);
+    expect(section).toContain(`<td></td><td>${noise.label}</td><td>gone</td><td>4 ${noise.label}</td><td>20</td><td>0</td>`);
   });
 
   it('refuses bad --previous and --match-similarity with one line (exit 2)', async () => {

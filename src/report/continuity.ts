@@ -1,7 +1,7 @@
 /**
  * The "since last run" view of a grouping run continued from a previous model:
- * its run.json record, its terminal lines and a small HTML section the report
- * can place (it is not wired into report.html here). Pure.
+ * its run.json record, its terminal lines and the body of the report's
+ * "Since the previous run" view. Pure.
  *
  * @module
  */
@@ -38,7 +38,7 @@ export function continuityLines(c: Continuity, labelOf: (id: number) => string):
   return lines;
 }
 
-/** A self-contained `<section>` listing every group's change and the gone groups (all text escaped). */
+/** The report view's body: a line on the previous model and the rule, then a table of every group's change and the gone groups (all text escaped). */
 export function continuityHtml(c: Continuity, labelOf: (id: number) => string): string {
   const row = (cells: readonly (string | number)[]) => `<tr>${cells.map((x) => `<td>${escapeHtml(x)}</td>`).join('')}</tr>`;
   const rows = [
@@ -46,7 +46,7 @@ export function continuityHtml(c: Continuity, labelOf: (id: number) => string): 
     ...c.gone.map((g) => row(['', g.label, 'gone', `${g.id} ${g.label}`, g.size, 0, g.closest])),
   ];
   return (
-    `<section class="since-last-run"><h2>Since the previous run</h2><p>${escapeHtml(c.source)}; groups continue an old one at centre cosine ≥ ${escapeHtml(c.options.minSimilarity)}.</p>` +
-    `<table><thead><tr><th>group</th><th>name</th><th>change</th><th>previous group</th><th>previous size</th><th>size</th><th>similarity</th></tr></thead><tbody>${rows.join('')}</tbody></table></section>`
+    `<p>Compared with ${escapeHtml(c.source)}: a group continues an earlier one when their centres' cosine is at least ${escapeHtml(c.options.minSimilarity)} (an optimal one-to-one matching); it keeps that group's number and name.</p>` +
+    `<div class="table-wrap"><table><thead><tr><th>group</th><th>name</th><th>change</th><th>previous group</th><th>previous size</th><th>size</th><th>similarity</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`
   );
 }

@@ -22,6 +22,7 @@ import type { ReportData } from './report-data.js';
 import { escapeHtml as e, formatCount, formatFixed, formatShare, jsonForScript } from './html-escape.js';
 import { groupHref, groupName, sizesChart, treeChart, treeLayout } from './html-charts.js';
 import { COLUMN_VALUE_CHARS, reportPayload, textChunks } from './html-payload.js';
+import { continuityHtml } from './continuity.js';
 import { evaluationBody, groupLink, groupNumber, similarityGraph, similarityMatrix, sparkline, termTable, trendsBody } from './html-views.js';
 import { REPORT_CSS } from './html-styles.js';
 import { REPORT_SCRIPT } from './html-client.js';
@@ -79,6 +80,7 @@ export function renderReport(data: ReportData): string {
   if (ungrouped > 0) nav.push(['ungrouped', 'Not grouped']);
   if (data.trends) nav.push(['trends', 'Over time']);
   if (data.evaluation) nav.push(['scores', 'Scores']);
+  if (data.continuity) nav.push(['since', 'Since last run']);
   nav.push(['duplicates', 'Near-duplicates']);
 
   const parts: string[] = [];
@@ -123,6 +125,10 @@ export function renderReport(data: ReportData): string {
   }
   if (data.trends) parts.push(view('trends', 'Over time', trendsBody(data)));
   if (data.evaluation) parts.push(view('scores', 'Scores against known labels', evaluationBody(data)));
+  if (data.continuity) {
+    const labels = new Map(groups.map((g) => [g.id, g.label]));
+    parts.push(view('since', 'Since the previous run', [continuityHtml(data.continuity, (id) => labels.get(id) ?? '')]));
+  }
   groups.forEach((g, i) => parts.push(groupView(g, i, groups, grouped, titleById)));
   parts.push(duplicatesView(data));
   parts.push(...pageTail(data));

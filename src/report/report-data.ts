@@ -1,3 +1,5 @@
+import type { Continuity } from '../continuity/match.js';
+
 /**
  * The data the HTML report is drawn from: plain JSON-friendly values that the
  * command assembles from a run. Only what the views need is included.
@@ -76,6 +78,8 @@ export interface ReportData {
   readonly evaluation?: ReportEvaluation;
   /** Counts per group per period, when a date was given. */
   readonly trends?: ReportTrends;
+  /** How the groups continue those of a previous run (`--previous`). */
+  readonly continuity?: Continuity;
   /** Near-duplicate sets, strongest first, when searched for. */
   readonly duplicates?: {
     readonly threshold: number;

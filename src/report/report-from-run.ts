@@ -119,6 +119,7 @@ export function reportFromRun(
     similarity: centreSimilarity(p.centroids, result.matrix.cols, k),
     mergeNames: mergeNames(result.groups, Array.from(tree.left, (left, i) => ({ left, right: tree.right[i] }))),
     ...(context.evaluation ? { evaluation: reportEvaluation(context.evaluation) } : {}),
+    ...(result.continuity ? { continuity: result.continuity } : {}),
     ...(context.trends ? { trends: reportTrends(result, context.trends) } : {}),
     ...(near && nearSettings
       ? {
