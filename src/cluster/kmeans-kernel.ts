@@ -94,8 +94,13 @@ export interface KernelArrays {
   readonly moved: Float64Array;
   /** k-means++ seeding: per row, the best score against the seeds so far. */
   readonly closest: Float64Array;
-  /** k-means++ seeding: the newest seed row scattered into a dense vector of `cols` entries (zero elsewhere). */
+  /**
+   * k-means++ seeding: the candidate seed rows of one draw scattered into a dense, term-major array of
+   * `cols × seedTrials(k)` entries (`dense[t * trials + c]`, zero elsewhere).
+   */
   readonly dense: Float64Array;
+  /** k-means++ seeding: each listed row's score against each candidate, `trials[a * seedTrials(k) + c]` (a = position in the list). */
+  readonly trials: Float64Array;
   /** Rows that take part (non-empty), increasing. */
   readonly active: Int32Array;
   /** Rows of the current mini-batch step. */
@@ -299,19 +304,31 @@ export function assignRows(
 }
 
 /**
- * k-means++ seeding step over `rows[from .. to)`: scores each row against the
- * newest seed (scattered into `dense`) and keeps the larger of that and
- * `closest[i]` (start `closest` at −Infinity so the first seed sets it).
- * Sums in the row's own order, so the value has the bits of the row's dot
- * product with a centroid column holding the seed.
+ * Candidate seeds drawn per k-means++ step in greedy seeding: `2 + ⌊ln k⌋`, the
+ * number scikit-learn's `_kmeans_plusplus` uses (its comment credits Arthur &
+ * Vassilvitskii 2007 for local trials; from memory).
  */
-export function updateClosest(s: KernelArrays, rows: Int32Array, from: number, to: number): void {
-  const { indptr, indices, values, dense, closest } = s;
+export function seedTrials(k: number): number {
+  return 2 + Math.floor(Math.log(k));
+}
+
+/**
+ * Scores each row of `rows[from .. to)` against every candidate seed scattered
+ * in `dense`, into `trials[a * seedTrials(k) + c]`. Each score sums the row's
+ * non-zeros in order, so it has the same bits on any thread.
+ */
+export function scoreTrials(s: KernelArrays, rows: Int32Array, from: number, to: number): void {
+  const { indptr, indices, values, dense, trials } = s;
+  const t = seedTrials(s.k);
   for (let a = from; a < to; a++) {
     const i = rows[a]!;
-    let c = 0;
-    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) c += values[j]! * dense[indices[j]!]!;
-    if (c > closest[i]!) closest[i] = c;
+    const base = a * t;
+    for (let c = 0; c < t; c++) trials[base + c] = 0;
+    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) {
+      const v = values[j]!;
+      const d = indices[j]! * t;
+      for (let c = 0; c < t; c++) trials[base + c]! += v * dense[d + c]!;
+    }
   }
 }
 
@@ -328,7 +345,7 @@ export function refreshFit(s: KernelArrays, rows: Int32Array, from: number, to: 
 export const WORK_ASSIGN_PRUNED = 0;
 /** Assignment pass scoring every row against every centroid. */
 export const WORK_ASSIGN_PLAIN = 1;
-/** k-means++ seeding update ({@link updateClosest}). */
+/** k-means++ seeding: scores against the candidate seeds ({@link scoreTrials}). */
 export const WORK_SEED = 2;
 /** Exact `fit` of every row ({@link refreshFit}). */
 export const WORK_FIT = 3;
@@ -361,7 +378,7 @@ export function runBlock(
   at: number,
 ): void {
   const rows = rowList(s, list);
-  if (work === WORK_SEED) updateClosest(s, rows, from, to);
+  if (work === WORK_SEED) scoreTrials(s, rows, from, to);
   else if (work === WORK_FIT) refreshFit(s, rows, from, to);
   else assignRows(s, rows, from, to, work === WORK_ASSIGN_PRUNED, stats, at);
 }
