@@ -148,12 +148,13 @@ function scoreOne(
 }
 
 /**
- * Scores row `[start, end)` against all k centroids into `scores`. Four
- * non-zeros per sweep over the contiguous term slices; each `scores[g]` still
+ * Scores row `[start, end)` against all k centroids into `scores`. Eight
+ * (then four) non-zeros per sweep over the contiguous term slices, so each
+ * score is loaded and stored once per eight products; each `scores[g]` still
  * adds the products one at a time in the row's order, so the sums are the
  * bits of the one-at-a-time loop.
  */
-function scoreAll(
+export function scoreAll(
   indices: Int32Array,
   values: Float32Array,
   centroids: Float32Array,
@@ -164,6 +165,36 @@ function scoreAll(
 ): void {
   scores.fill(0);
   let j = start;
+  for (; j + 7 < end; j += 8) {
+    const v0 = values[j]!;
+    const v1 = values[j + 1]!;
+    const v2 = values[j + 2]!;
+    const v3 = values[j + 3]!;
+    const v4 = values[j + 4]!;
+    const v5 = values[j + 5]!;
+    const v6 = values[j + 6]!;
+    const v7 = values[j + 7]!;
+    const b0 = indices[j]! * k;
+    const b1 = indices[j + 1]! * k;
+    const b2 = indices[j + 2]! * k;
+    const b3 = indices[j + 3]! * k;
+    const b4 = indices[j + 4]! * k;
+    const b5 = indices[j + 5]! * k;
+    const b6 = indices[j + 6]! * k;
+    const b7 = indices[j + 7]! * k;
+    for (let g = 0; g < k; g++) {
+      let s = scores[g]!;
+      s += v0 * centroids[b0 + g]!;
+      s += v1 * centroids[b1 + g]!;
+      s += v2 * centroids[b2 + g]!;
+      s += v3 * centroids[b3 + g]!;
+      s += v4 * centroids[b4 + g]!;
+      s += v5 * centroids[b5 + g]!;
+      s += v6 * centroids[b6 + g]!;
+      s += v7 * centroids[b7 + g]!;
+      scores[g] = s;
+    }
+  }
   for (; j + 3 < end; j += 4) {
     const v0 = values[j]!;
     const v1 = values[j + 1]!;

@@ -42,7 +42,7 @@ import type { Csr } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { stripUndefined } from '../util/options.js';
 import { checkKeys } from '../util/constraints.js';
-import { runBlock } from './kmeans-kernel.js';
+import { runBlock, scoreAll } from './kmeans-kernel.js';
 import { rowIsNonEmpty } from '../util/csr.js';
 import type { KMeansOptions, KMeansResult } from './kmeans-types.js';
 import {
@@ -284,12 +284,8 @@ export function assignToCentroids(
       fit[i] = 0;
       continue;
     }
-    scores.fill(0);
-    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) {
-      const v = values[j]!;
-      const base = indices[j]! * k;
-      for (let g = 0; g < k; g++) scores[g]! += v * centroids[base + g]!;
-    }
+    // The k-means pass's own sweep (four non-zeros per pass over k): each score adds its products in the row's order.
+    scoreAll(indices, values, centroids, k, indptr[i]!, indptr[i + 1]!, scores);
     let bestG = 0;
     let bestS = scores[0]!;
     for (let g = 1; g < k; g++) {
