@@ -373,8 +373,8 @@ function placeRow(matrix: Csr, i: number, centroids: Float32Array, k: number, g:
 /** Scatters row `i` into slot `slot` of the dense candidate array (or clears it again). */
 function scatterRow(ws: Workspace, i: number, slot: number, keep: boolean): void {
   const { indptr, indices, values } = ws.matrix;
-  const t = seedTrials(ws.k);
-  for (let j = indptr[i]!; j < indptr[i + 1]!; j++) ws.dense[indices[j]! * t + slot] = keep ? values[j]! : 0;
+  const base = slot * ws.matrix.cols;
+  for (let j = indptr[i]!; j < indptr[i + 1]!; j++) ws.dense[base + indices[j]!] = keep ? values[j]! : 0;
 }
 
 /**

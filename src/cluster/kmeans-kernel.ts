@@ -95,8 +95,8 @@ export interface KernelArrays {
   /** k-means++ seeding: per row, the best score against the seeds so far. */
   readonly closest: Float64Array;
   /**
-   * k-means++ seeding: the candidate seed rows of one draw scattered into a dense, term-major array of
-   * `cols × seedTrials(k)` entries (`dense[t * trials + c]`, zero elsewhere).
+   * k-means++ seeding: the candidate seed rows of one draw scattered into a dense, candidate-major array
+   * of `seedTrials(k) × cols` entries (`dense[c * cols + t]`, zero elsewhere).
    */
   readonly dense: Float64Array;
   /** k-means++ seeding: each listed row's score against each candidate, `trials[a * seedTrials(k) + c]` (a = position in the list). */
@@ -351,14 +351,17 @@ export function seedTrials(k: number): number {
 export function scoreTrials(s: KernelArrays, rows: Int32Array, from: number, to: number): void {
   const { indptr, indices, values, dense, trials } = s;
   const t = seedTrials(s.k);
+  const cols = dense.length / t;
   for (let a = from; a < to; a++) {
     const i = rows[a]!;
-    const base = a * t;
-    for (let c = 0; c < t; c++) trials[base + c] = 0;
-    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) {
-      const v = values[j]!;
-      const d = indices[j]! * t;
-      for (let c = 0; c < t; c++) trials[base + c]! += v * dense[d + c]!;
+    const start = indptr[i]!;
+    const end = indptr[i + 1]!;
+    // One tight sparse dot product per candidate (candidate-major `dense`): the same sums, term by term.
+    for (let c = 0; c < t; c++) {
+      const base = c * cols;
+      let sum = 0;
+      for (let j = start; j < end; j++) sum += values[j]! * dense[base + indices[j]!]!;
+      trials[a * t + c] = sum;
     }
   }
 }
