@@ -813,7 +813,12 @@ if (reused.length) {
   say();
 }
 
-const text = lines.join('\n') + '\n';
+let text = lines.join('\n') + '\n';
+// Keep the sections other benchmarks own (quality, CSV reading, kernel ratio) when rewriting the file.
+if (existsSync(resultsFile)) {
+  const old = readFileSync(resultsFile, 'utf8');
+  for (const m of old.matchAll(/<!-- ([a-z-]+):start -->[\s\S]*?<!-- \1:end -->/g)) text += '\n' + m[0] + '\n';
+}
 writeFileSync(resultsFile, text);
 process.stdout.write(text);
 log(`bench: wrote ${path.relative(process.cwd(), resultsFile)}`);
