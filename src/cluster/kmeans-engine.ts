@@ -205,10 +205,10 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     moved: alloc.float64(k),
     closest: alloc.float64(n),
     dense: alloc.float64(d * seedTrials(k)),
-    trials: alloc.float64(seedTrials(k) * (plan.miniBatch ? Math.min(plan.nonEmpty, Math.max(k, 3 * options.batchSize)) : plan.nonEmpty)),
+    trials: alloc.float64(seedTrials(k) * seedSampleSize(plan.nonEmpty, k, options.batchSize)),
     active,
     batch: alloc.int32(plan.miniBatch ? options.batchSize : 0),
-    sample: alloc.int32(plan.miniBatch ? plan.nonEmpty : 0),
+    sample: alloc.int32(plan.miniBatch || plan.nonEmpty > seedSampleSize(plan.nonEmpty, k, options.batchSize) ? plan.nonEmpty : 0),
     scores: new Float64Array(k),
     bestAssign: new Int32Array(n),
     bestFit: new Float64Array(n),
@@ -300,6 +300,35 @@ export function* kmeansSteps(ws: Workspace, plan: KMeansPlan): Generator<void, R
 }
 
 /**
+ * Rows k-means++ seeding draws from: all `m` rows up to `max(k, 3 · batchSize)`
+ * (12,288 by default), else a seeded uniform sample of that many. Mini-batch
+ * runs always seeded on such a sample (as scikit-learn's MiniBatchKMeans does
+ * with `init_size = 3 · batch_size`, from memory); full passes do so too since
+ * greedy seeding scores `2 + ln k` candidates per seed: on all 60k rows of a
+ * generated export it cost more than all the Lloyd passes after it (profile in
+ * bench/results.md). The seeds are rows of the pile drawn by the same D²
+ * rule, only from fewer candidates; the passes then run over every row. Piles
+ * up to the sample size (every labelled corpus of bench/quality) seed exactly
+ * as before.
+ */
+function seedSampleSize(m: number, k: number, batchSize: number): number {
+  return Math.min(m, Math.max(k, 3 * batchSize));
+}
+
+/** Puts a seeded uniform sample of `size` active rows in `ws.sample[0 .. size)` (partial Fisher–Yates). */
+function drawSample(ws: Workspace, size: number, rng: Rng): void {
+  const { active, sample } = ws;
+  const m = active.length;
+  sample.set(active);
+  for (let s = 0; s < size; s++) {
+    const j = s + rng.int(m - s);
+    const t = sample[s]!;
+    sample[s] = sample[j]!;
+    sample[j] = t;
+  }
+}
+
+/**
  * One Lloyd restart: k-means++ seeding (or the means of `initial`), then
  * passes until stable or `maxIterations`. With pruning, rows the bounds
  * settle keep a stale `fit`, so a {@link WORK_FIT} pass refreshes it before
@@ -322,7 +351,11 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
     countMembers(ws);
     updateCentroids(ws); // every group has a member (validated): no re-seeding
   } else {
-    yield* seedCentroids(ws, LIST_ACTIVE, m, rng);
+    const size = seedSampleSize(m, ws.k, options.batchSize);
+    if (size < m) {
+      drawSample(ws, size, rng);
+      yield* seedCentroids(ws, LIST_SAMPLE, size, rng);
+    } else yield* seedCentroids(ws, LIST_ACTIVE, m, rng);
   }
   let iterations = 0;
   let converged = false;
@@ -655,14 +688,8 @@ function sortMoves(ws: Workspace): void {
 function* miniBatchRestart(ws: Workspace, rng: Rng): Generator<void, RestartOutcome, void> {
   const { active, sample, batch, assign, fit, upper, options, k } = ws;
   const m = active.length;
-  const sampleSize = Math.min(m, Math.max(k, 3 * options.batchSize));
-  sample.set(active);
-  for (let s = 0; s < sampleSize; s++) {
-    const j = s + rng.int(m - s);
-    const t = sample[s]!;
-    sample[s] = sample[j]!;
-    sample[j] = t;
-  }
+  const sampleSize = seedSampleSize(m, k, options.batchSize);
+  drawSample(ws, sampleSize, rng);
   assign.fill(-1);
   fit.fill(0);
   ws.skippedByPass.fill(0);

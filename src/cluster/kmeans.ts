@@ -5,11 +5,14 @@
  * each row and its group's mean direction (the normalised sum of its members)
  * is as large as possible.
  *
- * - Seeding: k-means++ (Arthur & Vassilvitskii, "k-means++: the advantages of
- *   careful seeding", SODA 2007). After the first seed (uniform), each next
- *   seed is drawn with probability proportional to `1 − cos(x, nearest seed)`.
- *   For unit vectors `‖x − c‖² = 2 (1 − cos)`, so this is the paper's D²
- *   weighting measured on the sphere (D² weighting, not D).
+ * - Seeding: greedy k-means++ (Arthur & Vassilvitskii, "k-means++: the
+ *   advantages of careful seeding", SODA 2007). After the first seed
+ *   (uniform), each step draws `2 + ⌊ln k⌋` candidates with probability
+ *   proportional to `1 − cos(x, nearest seed)` and keeps the one leaving the
+ *   least total weight. For unit vectors `‖x − c‖² = 2 (1 − cos)`, so this is
+ *   the paper's D² weighting measured on the sphere. Piles above
+ *   `max(k, 3 · batchSize)` rows are seeded from a seeded uniform sample of
+ *   that many rows (see `seedSampleSize` in `kmeans-engine.ts`).
  * - Batch (Lloyd-style) iterations: assign every row to its most similar
  *   centroid (ties to the lowest group index), then recompute the mean
  *   directions. Stops when no assignment changes, or after `maxIterations`.
