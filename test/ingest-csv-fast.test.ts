@@ -3,10 +3,12 @@ import fc from 'fast-check';
 import { csvItems, LONGEST_SCANNED_RECORD, type CsvEngine, type CsvItem } from '../src/ingest/csv-records.js';
 import { readCsvWith, swallowedRows, type CsvReadOptions } from '../src/ingest/csv.js';
 
+/** `text` cut at `cuts`, never inside a surrogate pair (a decoder's chunks never split one). */
 async function* chunked(text: string, cuts: readonly number[]): AsyncGenerator<string> {
   let at = 0;
   for (const c of [...cuts].sort((a, b) => a - b)) {
-    const p = Math.min(text.length, c);
+    let p = Math.min(text.length, c);
+    if (p > 0 && p < text.length && /[\uD800-\uDBFF]/.test(text[p - 1]!)) p++;
     if (p > at) {
       yield text.slice(at, p);
       at = p;
