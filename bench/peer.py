@@ -6,7 +6,7 @@ Stages (names matched to ours where they do the same job):
   analyze+vectorize  TfidfVectorizer(sublinear_tf=True, stop_words='english',
                      min_df=MIN_DF).fit_transform  (L2 rows, smoothed idf: the
                      library defaults, same formulas as ours)
-  k-means            KMeans(n_clusters=K, n_init=4, max_iter=100,
+  k-means            KMeans(n_clusters=K, n_init=N_INIT (3), max_iter=100,
                      random_state=0, algorithm='lloyd') on the L2 rows
   near-duplicates    pairs with cosine >= T from blocked X[i:j] @ X[i:].T
                      (BLOCK rows at a time, fewer above 100k documents so a
@@ -29,7 +29,7 @@ tol=1e-4 (ours: no assignment changes), and OpenMP threads for k-means (ours:
 one thread).
 
 Usage: /usr/bin/python3 bench/peer.py --input FILE [--k 100] [--threshold 0.9]
-       [--min-df 2] [--block 2000] [--pairs FILE] [--threads N] [--out-json FILE]
+       [--min-df 2] [--n-init 3] [--block 2000] [--pairs FILE] [--threads N] [--out-json FILE]
 Prints one JSON object (also written to --out-json).
 """
 
@@ -70,6 +70,7 @@ def main():
     ap.add_argument('--k', type=int, default=100)
     ap.add_argument('--threshold', type=float, default=0.9)
     ap.add_argument('--min-df', type=float, default=2)
+    ap.add_argument('--n-init', type=int, default=3)
     ap.add_argument('--block', type=int, default=2000)
     ap.add_argument('--pairs')
     ap.add_argument('--threads', type=int, default=0)
@@ -137,7 +138,7 @@ def main():
     X = stage('analyze+vectorize', lambda: vec.fit_transform(texts))
     X = sp.csr_matrix(X)
 
-    km = KMeans(n_clusters=a.k, n_init=4, max_iter=100, random_state=0, algorithm='lloyd')
+    km = KMeans(n_clusters=a.k, n_init=a.n_init, max_iter=100, random_state=0, algorithm='lloyd')
     labels = stage('k-means', lambda: km.fit_predict(X))
 
     # One block's product has up to block x n entries: above 100k documents the
@@ -214,7 +215,7 @@ def main():
         'block': block,
         'terms': int(X.shape[1]),
         'nnz': int(X.nnz),
-        'kmeans': {'iterations': int(km.n_iter_), 'inertia': float(km.inertia_), 'nInit': 4},
+        'kmeans': {'iterations': int(km.n_iter_), 'inertia': float(km.inertia_), 'nInit': a.n_init},
         'duplicates': {'pairs': int(len(pr)), 'sets': int(len(set(comp[in_set].tolist()))), 'rowsInSets': int(in_set.sum())},
         'planted': planted,
         'nmi': float(normalized_mutual_info_score(topics, labels)),

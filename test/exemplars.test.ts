@@ -122,10 +122,10 @@ describe('diverseExemplars', () => {
 
 describe('exemplars on the demo', () => {
   it('no group’s exemplars are near-copies (cosine ≥ 0.9), where the closest-first rule picked some', () => {
-    // At 12 groups on the TF-IDF rows the closest-first rule took two 'Cancellation fee question' tickets at cosine
-    // 0.903 (pinned to the TF-IDF rows of the texts as written: on the default reduced vectors, or after cleaning, the case does
-    // not arise at this seed).
-    const r = groupDocuments(demoDocs(), { groups: 12, reduce: false, clean: { mode: 'none' } });
+    // At 12 groups, seed 2, on the TF-IDF rows the closest-first rule takes near-copies as exemplars (pinned to the
+    // TF-IDF rows of the texts as written: on the default reduced vectors, or after cleaning, the case does not arise
+    // at this seed; since greedy k-means++ seeding it no longer arises at seed 1, the default).
+    const r = groupDocuments(demoDocs(), { groups: 12, seed: 2, reduce: false, clean: { mode: 'none' } });
     const m = r.matrix;
     const cos = (a: number, b: number) => {
       const x = rowOf(m, a);

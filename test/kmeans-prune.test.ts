@@ -309,6 +309,7 @@ describe('the assignment kernel on arbitrary valid bounds', () => {
       moved,
       closest: new Float64Array(n),
       dense: new Float64Array(d),
+      trials: new Float64Array(0),
       active,
       batch: new Int32Array(0),
       sample: new Int32Array(0),
@@ -390,6 +391,7 @@ describe('the assignment kernel on arbitrary valid bounds', () => {
         moved: Float64Array.from([shift, shift, 0]),
         closest: new Float64Array(1),
         dense: new Float64Array(2),
+        trials: new Float64Array(0),
         active: Int32Array.from([0]),
         batch: new Int32Array(0),
         sample: new Int32Array(0),
@@ -676,7 +678,7 @@ describe('no allocation in the passes', () => {
   };
   const fresh = /\bnew\s|Array\.from|\.slice\(|\[\.\.\.|\.map\(|\.filter\(|Promise\.(race|all)/;
   const cases: [string, string[]][] = [
-    ['cluster/kmeans-kernel.ts', ['scoreOne', 'scoreAll', 'assignRows', 'updateClosest', 'refreshFit', 'rowList', 'runBlock']],
+    ['cluster/kmeans-kernel.ts', ['scoreOne', 'scoreAll', 'assignRows', 'scoreTrials', 'refreshFit', 'rowList', 'runBlock']],
     [
       'cluster/kmeans-engine.ts',
       ['ask', 'tally', 'lloydRestart', 'objectiveOf', 'placeRow', 'scatterRow', 'seedCentroids', 'drawSeed', 'addRow',

@@ -3,6 +3,7 @@ import fc from 'fast-check';
 import type { Csr } from '../src/types.js';
 import { UsageError } from '../src/util/errors.js';
 import { createRng, deriveSeed, type Rng } from '../src/util/random.js';
+import { naiveGreedySeeds } from './helpers/greedy-seeds.js';
 import {
   DEFAULT_KMEANS_OPTIONS,
   assignToCentroids,
@@ -51,7 +52,8 @@ function dot(a: Float32Array, b: Float32Array): number {
 
 /**
  * Naive reference: dense rows and centroids, obvious loops, the same rules
- * (k-means++ with weights 1 − cos, batch passes, farthest-row re-seeding,
+ * (greedy k-means++ with weights 1 − cos, batch passes, a stop once at most
+ * `stableShare` of the rows move (the means of that assignment kept), farthest-row re-seeding,
  * best restart, canonical numbering) and the same random draws.
  */
 function naiveKMeans(
@@ -60,6 +62,7 @@ function naiveKMeans(
   restarts: number,
   maxIterations: number,
   seed: number,
+  stableShare = 0.001,
 ): { assignments: number[]; objective: number; iterations: number; converged: boolean } {
   const X = toDense(m);
   const n = m.rows;
@@ -69,40 +72,8 @@ function naiveKMeans(
   let best: { assign: number[]; objective: number; iterations: number; converged: boolean } | undefined;
   for (let r = 0; r < restarts; r++) {
     const rng: Rng = createRng(deriveSeed(seed, r));
-    // seeding
-    const C: Float32Array[] = [];
-    const chosen = new Set<number>();
-    const first = active[rng.int(active.length)]!;
-    chosen.add(first);
-    C.push(Float32Array.from(X[first]!));
-    const closest = new Map<number, number>();
-    for (const i of active) closest.set(i, dot(X[i]!, C[0]!));
-    for (let g = 1; g < k; g++) {
-      let total = 0;
-      for (const i of active) if (!chosen.has(i) && 1 - closest.get(i)! > 0) total += 1 - closest.get(i)!;
-      let pick = -1;
-      if (total > 0) {
-        const target = rng.next() * total;
-        let acc = 0;
-        let last = -1;
-        for (const i of active) {
-          if (chosen.has(i) || 1 - closest.get(i)! <= 0) continue;
-          last = i;
-          acc += 1 - closest.get(i)!;
-          if (acc > target) {
-            pick = i;
-            break;
-          }
-        }
-        if (pick < 0) pick = last;
-      } else {
-        const free = active.filter((i) => !chosen.has(i));
-        pick = free[rng.int(active.length - g)]!;
-      }
-      chosen.add(pick);
-      C.push(Float32Array.from(X[pick]!));
-      for (const i of active) closest.set(i, Math.max(closest.get(i)!, dot(X[i]!, C[g]!)));
-    }
+    // seeding: greedy k-means++ (test/helpers/greedy-seeds.ts)
+    const C: Float32Array[] = naiveGreedySeeds(active, k, rng, (i, j) => dot(X[i]!, Float32Array.from(X[j]!))).map((i) => Float32Array.from(X[i]!));
     // iterations
     const assign = new Array<number>(n).fill(-1);
     const fit = new Array<number>(n).fill(0);
@@ -152,8 +123,12 @@ function naiveKMeans(
         const inv = 1 / Math.sqrt(norm2);
         for (let t = 0; t < d; t++) C[g]![t] = sums[g]![t]! * inv;
       }
+      if (changed <= stableShare * active.length) {
+        converged = true;
+        break;
+      }
     }
-    if (!converged) for (const i of active) fit[i] = dot(X[i]!, C[assign[i]!]!);
+    for (const i of active) fit[i] = dot(X[i]!, C[assign[i]!]!);
     let objective = 0;
     for (const i of active) objective += fit[i]!;
     if (best === undefined || objective > best.objective) best = { assign, objective, iterations, converged };
@@ -250,17 +225,18 @@ function checkInvariants(matrix: Csr, res: KMeansResult, k: number): void {
 describe('resolveKMeansOptions', () => {
   it('merges the documented defaults', () => {
     const speed = { prune: true, miniBatch: 'auto', batchSize: 4096, batchIterations: 200, batchTolerance: 0.001 };
-    expect(DEFAULT_KMEANS_OPTIONS).toEqual({ restarts: 10, maxIterations: 100, seed: 1, ...speed });
-    expect(resolveKMeansOptions({ groups: 3 }, 10)).toEqual({ groups: 3, restarts: 10, maxIterations: 100, seed: 1, ...speed });
+    expect(DEFAULT_KMEANS_OPTIONS).toEqual({ restarts: 10, maxIterations: 100, stableShare: 0.001, seed: 1, ...speed });
+    expect(resolveKMeansOptions({ groups: 3 }, 10)).toEqual({ groups: 3, restarts: 10, maxIterations: 100, stableShare: 0.001, seed: 1, ...speed });
     expect(
       resolveKMeansOptions(
-        { groups: 10, restarts: 1, maxIterations: 5, seed: 4294967295, prune: false, miniBatch: true, batchSize: 1, batchIterations: 1, batchTolerance: 0 },
+        { groups: 10, restarts: 1, maxIterations: 5, stableShare: 0.5, seed: 4294967295, prune: false, miniBatch: true, batchSize: 1, batchIterations: 1, batchTolerance: 0 },
         10,
       ),
     ).toEqual({
       groups: 10,
       restarts: 1,
       maxIterations: 5,
+      stableShare: 0.5,
       seed: 4294967295,
       prune: false,
       miniBatch: true,
@@ -287,6 +263,8 @@ describe('resolveKMeansOptions', () => {
     ['fractional restarts', { groups: 2, restarts: 2.5 }, 9, 'restarts must be a whole number >= 1; got 2.5', 'restarts'],
     ['zero iterations', { groups: 2, maxIterations: 0 }, 9, 'maxIterations must be a whole number >= 1; got 0', 'maxIterations'],
     ['NaN iterations', { groups: 2, maxIterations: NaN }, 9, 'maxIterations must be a whole number >= 1; got NaN', 'maxIterations'],
+    ['negative stableShare', { groups: 2, stableShare: -0.01 }, 9, 'stableShare must be a number from 0 to 1; got -0.01', 'stableShare'],
+    ['stableShare above 1', { groups: 2, stableShare: 2 }, 9, 'stableShare must be a number from 0 to 1; got 2', 'stableShare'],
     ['negative seed', { groups: 2, seed: -1 }, 9, 'seed must be a whole number from 0 to 4294967295; got -1', 'seed'],
     ['seed too large', { groups: 2, seed: 2 ** 32 }, 9, 'seed must be a whole number from 0 to 4294967295; got 4294967296', 'seed'],
     ['string prune', { groups: 2, prune: 'yes' }, 9, 'prune must be true or false; got "yes"', 'prune'],
@@ -432,6 +410,28 @@ describe('sphericalKMeans properties on random sparse unit rows', () => {
     );
     // the re-seeding path was exercised
     expect(reseededRuns).toBeGreaterThan(0);
+  });
+
+  it('stops once at most stableShare of the rows move, as the naive reference does, with fewer passes', () => {
+    let earlier = 0;
+    fc.assert(
+      fc.property(sparseInput(realValues), ({ matrix, k, seed, restarts }) => {
+        const res = sphericalKMeans(matrix, { groups: k, seed, restarts, maxIterations: 20, stableShare: 0.2 });
+        const ref = naiveKMeans(matrix, k, restarts, 20, seed, 0.2);
+        expect([...res.assignments]).toEqual(ref.assignments);
+        expect(res.objective).toBe(ref.objective);
+        expect(res.iterations).toBe(ref.iterations);
+        const exact = sphericalKMeans(matrix, { groups: k, seed, restarts: 1, maxIterations: 20, stableShare: 0 });
+        const loose = sphericalKMeans(matrix, { groups: k, seed, restarts: 1, maxIterations: 20, stableShare: 0.2 });
+        expect(loose.iterations).toBeLessThanOrEqual(exact.iterations);
+        if (loose.iterations < exact.iterations) earlier++;
+        // (checkInvariants does not apply: after an early stop, as at the pass limit, the centroids are the
+        // means of the last assignment, which need not be every row's nearest.)
+      }),
+      { seed: 5, numRuns: 150 },
+    );
+    // the rule did cut runs short
+    expect(earlier).toBeGreaterThan(0);
   });
 
   it('assignToCentroids reproduces the assignments and fit of a converged run', () => {

@@ -149,11 +149,12 @@ describe('on the demo', () => {
 
   // Pinned to the TF-IDF rows of the texts as written (reduce: false, no cleaning), where these cases were found. There, no seed from 0 to 11 leaves a mixed group at the planted 8 groups; asked for 6 (two
   // themes must share a group), seed 2 flags one, and splitting it recovers part of the planted structure.
-  it('seed 2 at 6 groups flags one mixed group; splitting it raises NMI against the planted themes', () => {
-    const off = groupDocuments(docs, { groups: 6, seed: 2, reduce: false, clean: { mode: 'none' } });
+  it('seed 0 at 4 groups flags one mixed group; splitting it raises NMI against the planted themes', () => {
+    // Since greedy k-means++ seeding, seeds 0-15 at 6 groups leave no mixed group; at 4, seed 0 does (NMI .658 -> .749).
+    const off = groupDocuments(docs, { groups: 4, seed: 0, reduce: false, clean: { mode: 'none' } });
     expect(Array.from(off.mixed).filter((x) => x === 1)).toHaveLength(1);
-    const split = groupDocuments(docs, { groups: 6, seed: 2, reduce: false, clean: { mode: 'none' }, refine: { splitMixed: true } });
-    expect(split.partition.groups).toBe(7);
+    const split = groupDocuments(docs, { groups: 4, seed: 0, reduce: false, clean: { mode: 'none' }, refine: { splitMixed: true } });
+    expect(split.partition.groups).toBe(5);
     expect(nmi(split)).toBeGreaterThan(nmi(off) + 0.03);
   });
 });

@@ -39,6 +39,7 @@ import {
   WORK_FIT,
   WORK_SEED,
   rowList,
+  seedTrials,
   type KernelArrays,
 } from './kmeans-kernel.js';
 import type { KMeansOptions, KMeansResult } from './kmeans-types.js';
@@ -139,6 +140,8 @@ export interface Workspace extends KernelArrays {
   readonly movedTo: Int32Array;
   /** Seeding: 1 where a row is already a seed. */
   readonly chosen: Uint8Array;
+  /** Seeding: the candidate rows of one step. */
+  readonly candidates: Int32Array;
   /** Mini-batch: rows each centroid has absorbed so far (the 1/count learning rate). */
   readonly absorbed: Float64Array;
   /** Mini-batch: members of each group in the current step. */
@@ -201,10 +204,11 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     order: alloc.int32(k),
     moved: alloc.float64(k),
     closest: alloc.float64(n),
-    dense: alloc.float64(d),
+    dense: alloc.float64(d * seedTrials(k)),
+    trials: alloc.float64(seedTrials(k) * seedSampleSize(plan.nonEmpty, k, options.batchSize)),
     active,
     batch: alloc.int32(plan.miniBatch ? options.batchSize : 0),
-    sample: alloc.int32(plan.miniBatch ? plan.nonEmpty : 0),
+    sample: alloc.int32(plan.miniBatch || plan.nonEmpty > seedSampleSize(plan.nonEmpty, k, options.batchSize) ? plan.nonEmpty : 0),
     scores: new Float64Array(k),
     bestAssign: new Int32Array(n),
     bestFit: new Float64Array(n),
@@ -219,6 +223,7 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     movedFrom: new Int32Array(k),
     movedTo: new Int32Array(k),
     chosen: new Uint8Array(n),
+    candidates: new Int32Array(seedTrials(k)),
     absorbed: new Float64Array(k),
     stepSizes: new Int32Array(k),
     skippedByPass: new Int32Array(slots),
@@ -307,6 +312,35 @@ export function* kmeansSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMean
 }
 
 /**
+ * Rows k-means++ seeding draws from: all `m` rows up to `max(k, 3 · batchSize)`
+ * (12,288 by default), else a seeded uniform sample of that many. Mini-batch
+ * runs always seeded on such a sample (as scikit-learn's MiniBatchKMeans does
+ * with `init_size = 3 · batch_size`, from memory); full passes do so too since
+ * greedy seeding scores `2 + ln k` candidates per seed: on all 60k rows of a
+ * generated export it cost more than all the Lloyd passes after it (profile in
+ * bench/results.md). The seeds are rows of the pile drawn by the same D²
+ * rule, only from fewer candidates; the passes then run over every row. Piles
+ * up to the sample size (every labelled corpus of bench/quality) seed exactly
+ * as before.
+ */
+function seedSampleSize(m: number, k: number, batchSize: number): number {
+  return Math.min(m, Math.max(k, 3 * batchSize));
+}
+
+/** Puts a seeded uniform sample of `size` active rows in `ws.sample[0 .. size)` (partial Fisher–Yates). */
+function drawSample(ws: Workspace, size: number, rng: Rng): void {
+  const { active, sample } = ws;
+  const m = active.length;
+  sample.set(active);
+  for (let s = 0; s < size; s++) {
+    const j = s + rng.int(m - s);
+    const t = sample[s]!;
+    sample[s] = sample[j]!;
+    sample[j] = t;
+  }
+}
+
+/**
  * One Lloyd restart: k-means++ seeding (or the means of `initial`), then
  * passes until stable or `maxIterations`. With pruning, rows the bounds
  * settle keep a stale `fit`, so a {@link WORK_FIT} pass refreshes it before
@@ -329,7 +363,11 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
     countMembers(ws);
     updateCentroids(ws); // every group has a member (validated): no re-seeding
   } else {
-    yield* seedCentroids(ws, LIST_ACTIVE, m, rng);
+    const size = seedSampleSize(m, ws.k, options.batchSize);
+    if (size < m) {
+      drawSample(ws, size, rng);
+      yield* seedCentroids(ws, LIST_SAMPLE, size, rng);
+    } else yield* seedCentroids(ws, LIST_ACTIVE, m, rng);
   }
   let iterations = 0;
   let converged = false;
@@ -340,7 +378,8 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
     tally(ws, iterations);
     iterations++;
     onStep?.(iterations);
-    if (ws.passStats[STAT_CHANGED] === 0) {
+    const changed = ws.passStats[STAT_CHANGED]!;
+    if (changed === 0) {
       converged = true;
       break;
     }
@@ -350,6 +389,11 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
       yield;
     }
     reseeded += updateCentroids(ws);
+    // Few enough moved: stable for our purpose (the centroids are the means of this assignment).
+    if (changed <= options.stableShare * m) {
+      converged = true;
+      break;
+    }
   }
   // Exact fit of every row against the final centroids: those of the last
   // pass when it converged, the means of the current assignment otherwise.
@@ -372,39 +416,73 @@ function placeRow(matrix: Csr, i: number, centroids: Float32Array, k: number, g:
   for (let j = indptr[i]!; j < indptr[i + 1]!; j++) centroids[indices[j]! * k + g] = values[j]!;
 }
 
-/** Scatters row `i` into the dense seed vector (sign +1) or clears it again (sign 0). */
-function scatterRow(ws: Workspace, i: number, keep: boolean): void {
+/** Scatters row `i` into slot `slot` of the dense candidate array (or clears it again). */
+function scatterRow(ws: Workspace, i: number, slot: number, keep: boolean): void {
   const { indptr, indices, values } = ws.matrix;
-  for (let j = indptr[i]!; j < indptr[i + 1]!; j++) ws.dense[indices[j]!] = keep ? values[j]! : 0;
+  const base = slot * ws.matrix.cols;
+  for (let j = indptr[i]!; j < indptr[i + 1]!; j++) ws.dense[base + indices[j]!] = keep ? values[j]! : 0;
 }
 
 /**
- * k-means++ seeding over the first `count` rows of `list`, with weights
- * `max(0, 1 − cos(x, nearest seed))` (0 for rows already chosen). Draws
- * `rng.int(count)` for the first seed and one `rng.next()` per further seed;
- * if every remaining weight is 0 (all rows coincide with a seed) it draws
- * `rng.int` among the rows not yet chosen instead. The scores against each
- * new seed are a pass ({@link WORK_SEED}); the draws run here, in row order.
+ * Greedy k-means++ seeding over the first `count` rows of `list`: k-means++
+ * (Arthur & Vassilvitskii, SODA 2007) with weights `max(0, 1 − cos(x, nearest
+ * seed))` (0 for rows already chosen; for unit rows `‖x − c‖² = 2 (1 − cos)`,
+ * so this is D² weighting on the sphere), where each step draws
+ * {@link seedTrials}`(k)` candidates and keeps the one that leaves the least
+ * total weight — the local trials of the paper's §6, as scikit-learn seeds
+ * (from memory: its `_kmeans_plusplus` with `n_local_trials = 2 + ⌊ln k⌋`).
+ * Draws `rng.int(count)` for the first seed and one `rng.next()` per
+ * candidate; if every remaining weight is 0 (all rows coincide with a seed) a
+ * candidate is drawn with `rng.int` among the rows not yet chosen instead. The
+ * scores against the candidates are one pass ({@link WORK_SEED}) per step;
+ * the totals and the choice run here, in row order (ties to the earliest
+ * candidate), so the seeds do not depend on the thread count.
  */
 function* seedCentroids(ws: Workspace, list: number, count: number, rng: Rng): Generator<void, void, void> {
-  const { matrix, k, centroids, closest, chosen } = ws;
+  const { matrix, k, centroids, closest, chosen, trials, candidates } = ws;
   const rows = rowList(ws, list);
+  const t = seedTrials(k);
   centroids.fill(0);
   chosen.fill(0);
   closest.fill(-Infinity);
-  let row = rows[rng.int(count)]!;
   for (let g = 0; g < k; g++) {
-    if (g > 0) row = drawSeed(ws, rows, count, g, rng);
-    chosen[row] = 1;
-    placeRow(matrix, row, centroids, k, g);
-    scatterRow(ws, row, true);
+    // The first seed is one uniform draw; later ones the best of t weighted draws.
+    const drawn = g === 0 ? 1 : t;
+    if (g === 0) candidates[0] = rows[rng.int(count)]!;
+    else for (let c = 0; c < t; c++) candidates[c] = drawSeed(ws, rows, count, g, rng);
+    for (let c = 0; c < drawn; c++) scatterRow(ws, candidates[c]!, c, true);
     ask(ws, WORK_SEED, list, count);
     yield;
-    scatterRow(ws, row, false);
+    for (let c = 0; c < drawn; c++) scatterRow(ws, candidates[c]!, c, false);
+    let best = 0;
+    if (drawn > 1) {
+      let bestLeft = Infinity;
+      for (let c = 0; c < drawn; c++) {
+        let left = 0;
+        for (let a = 0; a < count; a++) {
+          const i = rows[a]!;
+          if (chosen[i] || i === candidates[c]) continue;
+          const w = 1 - Math.max(closest[i]!, trials[a * t + c]!);
+          if (w > 0) left += w;
+        }
+        if (left < bestLeft) {
+          bestLeft = left;
+          best = c;
+        }
+      }
+    }
+    const row = candidates[best]!;
+    chosen[row] = 1;
+    placeRow(matrix, row, centroids, k, g);
+    for (let a = 0; a < count; a++) {
+      const i = rows[a]!;
+      const v = trials[a * t + best]!;
+      if (v > closest[i]!) closest[i] = v;
+    }
   }
 }
 
-/** Draws seed number `g` (see {@link seedCentroids}). */
+/** Draws one candidate for seed number `g` (see {@link seedCentroids}). */
 function drawSeed(ws: Workspace, rows: Int32Array, count: number, g: number, rng: Rng): number {
   const { closest, chosen } = ws;
   let total = 0;
@@ -623,14 +701,8 @@ function sortMoves(ws: Workspace): void {
 function* miniBatchRestart(ws: Workspace, rng: Rng, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
   const { active, sample, batch, assign, fit, upper, options, k } = ws;
   const m = active.length;
-  const sampleSize = Math.min(m, Math.max(k, 3 * options.batchSize));
-  sample.set(active);
-  for (let s = 0; s < sampleSize; s++) {
-    const j = s + rng.int(m - s);
-    const t = sample[s]!;
-    sample[s] = sample[j]!;
-    sample[j] = t;
-  }
+  const sampleSize = seedSampleSize(m, k, options.batchSize);
+  drawSample(ws, sampleSize, rng);
   assign.fill(-1);
   fit.fill(0);
   ws.skippedByPass.fill(0);

@@ -94,8 +94,13 @@ export interface KernelArrays {
   readonly moved: Float64Array;
   /** k-means++ seeding: per row, the best score against the seeds so far. */
   readonly closest: Float64Array;
-  /** k-means++ seeding: the newest seed row scattered into a dense vector of `cols` entries (zero elsewhere). */
+  /**
+   * k-means++ seeding: the candidate seed rows of one draw scattered into a dense, candidate-major array
+   * of `seedTrials(k) × cols` entries (`dense[c * cols + t]`, zero elsewhere).
+   */
   readonly dense: Float64Array;
+  /** k-means++ seeding: each listed row's score against each candidate, `trials[a * seedTrials(k) + c]` (a = position in the list). */
+  readonly trials: Float64Array;
   /** Rows that take part (non-empty), increasing. */
   readonly active: Int32Array;
   /** Rows of the current mini-batch step. */
@@ -143,12 +148,13 @@ function scoreOne(
 }
 
 /**
- * Scores row `[start, end)` against all k centroids into `scores`. Four
- * non-zeros per sweep over the contiguous term slices; each `scores[g]` still
+ * Scores row `[start, end)` against all k centroids into `scores`. Eight
+ * (then four) non-zeros per sweep over the contiguous term slices, so each
+ * score is loaded and stored once per eight products; each `scores[g]` still
  * adds the products one at a time in the row's order, so the sums are the
  * bits of the one-at-a-time loop.
  */
-function scoreAll(
+export function scoreAll(
   indices: Int32Array,
   values: Float32Array,
   centroids: Float32Array,
@@ -159,6 +165,36 @@ function scoreAll(
 ): void {
   scores.fill(0);
   let j = start;
+  for (; j + 7 < end; j += 8) {
+    const v0 = values[j]!;
+    const v1 = values[j + 1]!;
+    const v2 = values[j + 2]!;
+    const v3 = values[j + 3]!;
+    const v4 = values[j + 4]!;
+    const v5 = values[j + 5]!;
+    const v6 = values[j + 6]!;
+    const v7 = values[j + 7]!;
+    const b0 = indices[j]! * k;
+    const b1 = indices[j + 1]! * k;
+    const b2 = indices[j + 2]! * k;
+    const b3 = indices[j + 3]! * k;
+    const b4 = indices[j + 4]! * k;
+    const b5 = indices[j + 5]! * k;
+    const b6 = indices[j + 6]! * k;
+    const b7 = indices[j + 7]! * k;
+    for (let g = 0; g < k; g++) {
+      let s = scores[g]!;
+      s += v0 * centroids[b0 + g]!;
+      s += v1 * centroids[b1 + g]!;
+      s += v2 * centroids[b2 + g]!;
+      s += v3 * centroids[b3 + g]!;
+      s += v4 * centroids[b4 + g]!;
+      s += v5 * centroids[b5 + g]!;
+      s += v6 * centroids[b6 + g]!;
+      s += v7 * centroids[b7 + g]!;
+      scores[g] = s;
+    }
+  }
   for (; j + 3 < end; j += 4) {
     const v0 = values[j]!;
     const v1 = values[j + 1]!;
@@ -299,19 +335,34 @@ export function assignRows(
 }
 
 /**
- * k-means++ seeding step over `rows[from .. to)`: scores each row against the
- * newest seed (scattered into `dense`) and keeps the larger of that and
- * `closest[i]` (start `closest` at −Infinity so the first seed sets it).
- * Sums in the row's own order, so the value has the bits of the row's dot
- * product with a centroid column holding the seed.
+ * Candidate seeds drawn per k-means++ step in greedy seeding: `2 + ⌊ln k⌋`, the
+ * number scikit-learn's `_kmeans_plusplus` uses (its comment credits Arthur &
+ * Vassilvitskii 2007 for local trials; from memory).
  */
-export function updateClosest(s: KernelArrays, rows: Int32Array, from: number, to: number): void {
-  const { indptr, indices, values, dense, closest } = s;
+export function seedTrials(k: number): number {
+  return 2 + Math.floor(Math.log(k));
+}
+
+/**
+ * Scores each row of `rows[from .. to)` against every candidate seed scattered
+ * in `dense`, into `trials[a * seedTrials(k) + c]`. Each score sums the row's
+ * non-zeros in order, so it has the same bits on any thread.
+ */
+export function scoreTrials(s: KernelArrays, rows: Int32Array, from: number, to: number): void {
+  const { indptr, indices, values, dense, trials } = s;
+  const t = seedTrials(s.k);
+  const cols = dense.length / t;
   for (let a = from; a < to; a++) {
     const i = rows[a]!;
-    let c = 0;
-    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) c += values[j]! * dense[indices[j]!]!;
-    if (c > closest[i]!) closest[i] = c;
+    const start = indptr[i]!;
+    const end = indptr[i + 1]!;
+    // One tight sparse dot product per candidate (candidate-major `dense`): the same sums, term by term.
+    for (let c = 0; c < t; c++) {
+      const base = c * cols;
+      let sum = 0;
+      for (let j = start; j < end; j++) sum += values[j]! * dense[base + indices[j]!]!;
+      trials[a * t + c] = sum;
+    }
   }
 }
 
@@ -328,7 +379,7 @@ export function refreshFit(s: KernelArrays, rows: Int32Array, from: number, to: 
 export const WORK_ASSIGN_PRUNED = 0;
 /** Assignment pass scoring every row against every centroid. */
 export const WORK_ASSIGN_PLAIN = 1;
-/** k-means++ seeding update ({@link updateClosest}). */
+/** k-means++ seeding: scores against the candidate seeds ({@link scoreTrials}). */
 export const WORK_SEED = 2;
 /** Exact `fit` of every row ({@link refreshFit}). */
 export const WORK_FIT = 3;
@@ -361,7 +412,7 @@ export function runBlock(
   at: number,
 ): void {
   const rows = rowList(s, list);
-  if (work === WORK_SEED) updateClosest(s, rows, from, to);
+  if (work === WORK_SEED) scoreTrials(s, rows, from, to);
   else if (work === WORK_FIT) refreshFit(s, rows, from, to);
   else assignRows(s, rows, from, to, work === WORK_ASSIGN_PRUNED, stats, at);
 }

@@ -14,6 +14,12 @@ export interface KMeansOptions {
   restarts: number;
   /** Upper bound on assignment passes per restart. Whole number >= 1. */
   maxIterations: number;
+  /**
+   * Full passes: a restart also stops once a pass moves at most this share of
+   * the documents to another group (0 .. 1; 0 waits until none moves). The
+   * centroids are then the means of that last assignment, as at the pass limit.
+   */
+  stableShare: number;
   /** Base seed (whole number 0 .. 2^32 − 1); restart r uses `deriveSeed(seed, r)`. */
   seed: number;
   /**
@@ -61,8 +67,8 @@ export interface KMeansResult {
   /** Full assignment passes in the kept restart (including the pass that found nothing to change). */
   readonly iterations: number;
   /**
-   * Whether the kept restart stopped because no assignment changed (rather
-   * than at `maxIterations`); mini-batch: whether the steps stopped on
+   * Whether the kept restart stopped because no assignment changed, or at most
+   * `stableShare` of the documents did (rather than at `maxIterations`); mini-batch: whether the steps stopped on
    * `batchTolerance` (rather than at `batchIterations`).
    */
   readonly converged: boolean;

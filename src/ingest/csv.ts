@@ -1,5 +1,6 @@
 /**
- * CSV and TSV exports, streamed through csv-parse.
+ * CSV and TSV exports, streamed: well-formed records through our own scanner,
+ * anything odd through csv-parse (see `csv-records.ts`).
  *
  * RFC 4180 (§2): records end with CRLF (LF and lone CR are accepted too, also
  * mixed); fields may be enclosed in double quotes; a quoted field may hold
@@ -14,12 +15,10 @@
  *
  * @module
  */
-import { Readable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
-import { parse, type Options } from 'csv-parse';
 import { show } from '../util/errors.js';
 import { InputSkip } from './decode.js';
 import { hasFirstLine, peekText } from './peek.js';
+import { csvItems, type CsvEngine, type CsvProgress } from './csv-records.js';
 import { chooseColumns, listNumbers, RowCollector, type DraftDoc } from './table.js';
 
 /** The options the CSV reader uses. */
@@ -116,14 +115,6 @@ function delimiterName(d: string): string {
   return d === '\t' ? 'tab' : show(d);
 }
 
-function countCrlf(values: readonly string[]): number {
-  let n = 0;
-  for (const v of values) {
-    for (let i = v.indexOf('\r\n'); i !== -1; i = v.indexOf('\r\n', i + 2)) n++;
-  }
-  return n;
-}
-
 /** Header names made usable: an empty name becomes `column_N` (1-based), a repeated one `name~2`, `name~3`… */
 function headerNames(raw: readonly string[]): { names: string[]; renamed: string[] } {
   const names: string[] = [];
@@ -144,18 +135,6 @@ function headerNames(raw: readonly string[]): { names: string[]; renamed: string
   return { names, renamed };
 }
 
-interface ParsedItem {
-  readonly record: string[];
-  /** The line on which the record starts (1-based; CRLF, LF and CR each end a line). */
-  readonly startLine: number;
-  /** An empty line, not a record. */
-  readonly blank: boolean;
-  /** The line on which the record ends. */
-  readonly endLine: number;
-  /** The record's text as in the file. */
-  readonly raw: string;
-}
-
 /**
  * Reads a CSV (or, with `kind` `tsv`, a TSV) export from decoded text
  * chunks. `name` is how messages and sources name the input. The delimiter
@@ -165,6 +144,16 @@ interface ParsedItem {
  * a `UsageError` for a named column the header lacks.
  */
 export async function readCsv(chunks: AsyncIterable<string>, name: string, kind: 'csv' | 'tsv', options: CsvReadOptions): Promise<ExportRead> {
+  return readCsvWith(chunks, name, kind, options, 'fast');
+}
+
+/**
+ * {@link readCsv} with the record parser chosen: `fast` (the default: a
+ * scanner for well-formed records, csv-parse from the first record it does not
+ * read plainly; see `csv-records.ts`) or `csv-parse` throughout. Both give the
+ * same result; the choice is there for tests and benchmarks.
+ */
+export async function readCsvWith(chunks: AsyncIterable<string>, name: string, kind: 'csv' | 'tsv', options: CsvReadOptions, engine: CsvEngine): Promise<ExportRead> {
   const warnings: string[] = [];
   const peeked = await peekText(chunks, hasFirstLine);
   let delimiter = options.delimiter ?? (kind === 'tsv' ? '\t' : null);
@@ -172,33 +161,7 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
     delimiter = sniffDelimiter(peeked.head.replace(/^\s+/, ''));
     if (delimiter !== ',') warnings.push(`${name}: read with ${delimiterName(delimiter)} as the delimiter (the header has no commas)`);
   }
-  let crlf = 0;
-  let lastEnd = 0; // the line on which the last record parsed ends
-  const csvOptions: Options<ParsedItem, unknown> = {
-    delimiter,
-    quote: '"',
-    escape: '"',
-    record_delimiter: ['\r\n', '\n', '\r'],
-    relax_column_count: true,
-    relax_quotes: true,
-    skip_empty_lines: false,
-    bom: true,
-    raw: true,
-    max_record_size: 0,
-    // Runs as each record is parsed, so the line count is current when a later record fails.
-    // csv-parse counts the CR and the LF of a quoted CRLF as two lines; those CRLFs are in the values.
-    // With `raw`, each record arrives as { record, raw }.
-    on_record: (ext: unknown, context): ParsedItem => {
-      const { record, raw } = ext as { record: string[]; raw: string };
-      crlf += countCrlf(record);
-      const startLine = lastEnd + 1;
-      lastEnd = context.lines - crlf;
-      return { record, startLine, endLine: lastEnd, raw, blank: record.length === 1 && raw.trim() === '' };
-    },
-  };
-  const parser = parse(csvOptions as unknown as Options);
-  const feeding = pipeline(Readable.from(peeked.all), parser);
-  feeding.catch(() => undefined); // its errors reach the loop below through the parser
+  const progress: CsvProgress = { lastEnd: 0 }; // the line on which the last record read ends
 
   let header: string[] | null = null;
   let width = 0;
@@ -214,7 +177,7 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
   let rowsSeen = 0;
 
   try {
-    for await (const item of parser as AsyncIterable<ParsedItem>) {
+    for await (const batch of csvItems(peeked.all, delimiter, progress, engine)) for (const item of batch) {
       const { record, startLine, endLine, raw, blank } = item;
       if (blank) continue;
       if (header === null) {
@@ -255,14 +218,13 @@ export async function readCsv(chunks: AsyncIterable<string>, name: string, kind:
   } catch (err) {
     const code = (err as { code?: unknown }).code;
     if (code === 'CSV_QUOTE_NOT_CLOSED') {
-      throw new InputSkip(`the record starting on line ${lastEnd + 1} has a quote that is never closed`);
+      throw new InputSkip(`the record starting on line ${progress.lastEnd + 1} has a quote that is never closed`);
     }
     if (typeof code === 'string' && /^(CSV_|INVALID_)/.test(code)) {
-      throw new InputSkip(`cannot be read as CSV near line ${lastEnd + 1}: ${(err as Error).message.split('\n')[0]}`);
+      throw new InputSkip(`cannot be read as CSV near line ${progress.lastEnd + 1}: ${(err as Error).message.split('\n')[0]}`);
     }
     throw err;
   }
-  await feeding;
 
   if (header === null) {
     warnings.push(`${name} has no header and no rows`);

@@ -198,6 +198,7 @@ class Crew {
       moved: ws.moved,
       closest: ws.closest,
       dense: ws.dense,
+      trials: ws.trials,
       active: ws.active,
       batch: ws.batch,
       sample: ws.sample,

@@ -54,6 +54,7 @@ export interface WorkerInit {
     readonly moved: Float64Array;
     readonly closest: Float64Array;
     readonly dense: Float64Array;
+    readonly trials: Float64Array;
     readonly active: Int32Array;
     readonly batch: Int32Array;
     readonly sample: Int32Array;
