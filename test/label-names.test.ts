@@ -38,8 +38,9 @@ describe('guardNames', () => {
     expect(g.terms.map((t) => t.term)).toEqual(['06t18', 'pump', 'xnumx', 'tank', 'water', 'shower']);
   });
 
-  it('says (no terms) when nothing is nameable', () => {
-    expect(guardNames([group(['2029', 'the'])], stop, { nameTerms: 3 })[0].label).toBe('(no terms)');
+  it('names a group of codes alone (codes: …), leaving out placeholders and stop words; (no terms) when not even those exist', () => {
+    expect(guardNames([group(['3e', 'the', 'xnumx', '3c', '2ffont', '20'])], stop, { nameTerms: 3 })[0].label).toBe('(codes: 3e · 3c · 2ffont)');
+    expect(guardNames([group(['the', 'xnumx'])], stop, { nameTerms: 3 })[0].label).toBe('(no terms)');
   });
 });
 

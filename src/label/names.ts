@@ -4,7 +4,10 @@
  * (`xurlx`, `xnumx`, …, also when stemmed) or a stop word of the run's
  * language (built-in list plus the user's extra words). Earlier stages try to
  * keep such terms out of the vocabulary; this filter makes the promise hold
- * whatever reached the label stage. The rule is ours.
+ * whatever reached the label stage. A group whose terms are all codes (a pile
+ * of encoded mail, say) is named `(codes: 3e · 3c · 2ffont)` from its first
+ * terms that are neither placeholders nor stop words, so it can still be told
+ * apart; `(no terms)` when not even those exist. The rule is ours.
  *
  * @module
  */
@@ -35,6 +38,17 @@ export function isNameable(term: string, stop: ReadonlySet<string>): boolean {
   for (const piece of term.split(/\s+/)) {
     if (piece === '') continue;
     if (DIGIT.test(piece)) return false;
+  }
+  return isCode(term, stop);
+}
+
+/** Extra terms asked of the label stage so that a guarded name and terms list still have enough to take from. */
+export const GUARD_SPARE_TERMS = 20;
+
+/** True when `term` may stand in a `(codes: …)` name: no piece is a placeholder or a stop word (digits allowed). */
+function isCode(term: string, stop: ReadonlySet<string>): boolean {
+  for (const piece of term.split(/\s+/)) {
+    if (piece === '') continue;
     const lower = piece.toLowerCase();
     if (PLACEHOLDER_STEM.test(lower) || PLACEHOLDER_WORDS.some((p) => lower.includes(p))) return false;
     if (stop.has(lower) || stop.has(normalizeTerm(piece))) return false;
@@ -42,12 +56,10 @@ export function isNameable(term: string, stop: ReadonlySet<string>): boolean {
   return true;
 }
 
-/** Extra terms asked of the label stage so that a guarded name and terms list still have enough to take from. */
-export const GUARD_SPARE_TERMS = 20;
-
 /**
  * Rebuilds each group's name from its first `nameTerms` nameable terms (in the
- * terms' order); `(no terms)` when none is left. The terms list drops the
+ * terms' order); when none is nameable, `(codes: …)` from its first terms that
+ * are neither placeholders nor stop words; `(no terms)` when none is left. The terms list drops the
  * group's stop words (those of a group in another language than the run's:
  * see {@link groupNameStopwords}) and is cut to `terms`; terms with digits stay
  * listed there, with their weights, as found.
@@ -61,7 +73,12 @@ export function guardNames(
     const groupStop = stop instanceof Set ? stop : (stop as readonly ReadonlySet<string>[])[i]!;
     const named = g.terms.filter((t) => isNameable(t.term, groupStop)).slice(0, options.nameTerms);
     const listed = g.terms.filter((t) => !t.term.split(/\s+/).some((p) => groupStop.has(p.toLowerCase()))).slice(0, options.terms ?? g.terms.length);
-    return { ...g, terms: listed, label: named.map((t) => t.term).join(' · ') || '(no terms)' };
+    let label = named.map((t) => t.term).join(' · ');
+    if (label === '') {
+      const codes = g.terms.filter((t) => isCode(t.term, groupStop)).slice(0, options.nameTerms);
+      label = codes.length ? `(codes: ${codes.map((t) => t.term).join(' · ')})` : '(no terms)';
+    }
+    return { ...g, terms: listed, label };
   });
 }
 
