@@ -12,7 +12,7 @@ import type { CliIo } from './io.js';
 import { wholeNumber } from './parse.js';
 import { progressReporter } from './progress.js';
 import { versions } from './versions.js';
-import { checkMemory, fileInputBytes, memoryLimit } from './memory.js';
+import { checkMemory, fileInputBytes, formatSize, memoryLimit } from './memory.js';
 import { addAnalysisFlags, addInputFlags, cleaningNotes, readInputs, type GroupFlags } from './inputs.js';
 import { addGroupingFlags, groupDuplicateOptions, groupOptionsFromFlags } from './group-flags.js';
 import { resolveTruth } from './truth.js';
@@ -201,7 +201,9 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
     return 0;
   }
   const width = Math.max(60, io.stdout.columns ?? 110);
-  const lines = groupSummaryLines(result, { command, width, evaluation, near, read: { documents: n, skipped: read.skipped.length }, written });
+  // The page's size beside its name: one offline file, loaded whole by the browser.
+  const listed = written.map((p) => (pageBytes !== null && path.basename(p) === 'report.html' ? `${p} (${formatSize(pageBytes)}, one offline page)` : p));
+  const lines = groupSummaryLines(result, { command, width, evaluation, near, read: { documents: n, skipped: read.skipped.length }, written: listed });
   if (result.continuity) lines.push('', ...continuityLines(result.continuity, (id) => result.groups[id]?.label ?? '').map((l) => visibleLines(l)));
   io.stdout.write(lines.join('\n') + '\n');
   return 0;

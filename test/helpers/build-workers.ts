@@ -5,7 +5,7 @@
  * package.json marking ESM and a link to node_modules, and returns the folder.
  */
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, symlinkSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -28,11 +28,18 @@ export function buildForWorkers(prefix: string, files: readonly string[]): strin
         sourceMap: false,
       },
       include: [],
-      files: files.map((f) => join(root, f)),
+      // The ambient declarations (every .d.ts under src/: modules without types of their own) go along, whatever the files import.
+      files: [...files.map((f) => join(root, f)), ...ambientDeclarations()],
     }),
   );
   execFileSync(process.execPath, [join(root, 'node_modules/typescript/bin/tsc'), '-p', config], { stdio: 'pipe' });
   writeFileSync(join(outDir, 'package.json'), '{"type":"module"}\n');
   symlinkSync(join(root, 'node_modules'), join(outDir, 'node_modules'), 'dir');
   return outDir;
+}
+
+/** The project's ambient declaration files (every `.d.ts` under src/), absolute. */
+function ambientDeclarations(): string[] {
+  const src = join(root, 'src');
+  return (readdirSync(src, { recursive: true }) as string[]).filter((f) => f.endsWith('.d.ts')).map((f) => join(src, f));
 }
