@@ -113,8 +113,8 @@ describe('workbooks (.xlsx)', () => {
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const csv = readFileSync(path.join(out, 'documents.csv'), 'utf8').replace(/^\uFEFF/, '').split(/\r?\n/);
-    expect(csv[0]).toBe('id,group,label,fit,duplicate_set,topic,body');
-    expect(csv[1]).toMatch(/^K-1,\d,[^,]*,[0-9.]+,[^,]*,topic 0,printer jams paper tray case 1$/);
+    expect(csv[0]).toBe('id,group,label,fit,duplicate_set,next_group,next_margin,topic,body');
+    expect(csv[1]).toMatch(/^K-1,\d,[^,]*,[0-9.]+,[^,]*,\d,-?[0-9.]+,topic 0,printer jams paper tray case 1$/);
     expect(csv.filter((l) => l !== '').length).toBe(13);
   });
 

@@ -43,15 +43,16 @@ function measure(heldOut: string) {
 // Measured (8 groups, seed 1, defaults: reduced vectors, cleaning auto). Before calibration (the 5% quantile, no
 // margin; model version 2): training re-filed into its own group and not flagged 94.79% (held out spam-2) and
 // 94.99% (held out hard-ham-1); held-out flagged new 4.9% (spam-2) and 1.2% (hard-ham-1). With the 1% quantile
-// minus 0.01: re-filed 99.68% and 99.60%; held-out flagged 0.2% and 0.4%. The fits in the reduced space do not
+// minus 0.01: re-filed 99.68% and 99.60%; held-out flagged 0.2% and 0.4%. Since greedy k-means++ seeding (same
+// calibration): re-filed 99.52% and 99.70%; held-out flagged 0.9% and 0.4%. The fits in the reduced space do not
 // tell this held-out mail from the training mail well: the thresholds keep the training documents, and the
 // held-out flagged rates are what this fit allows (a limit stated in the issue note, not a target met).
 describe('novelty thresholds calibrated from the training fits (SpamAssassin)', () => {
   it('train on both ham folders, hold out spam-2: >= 99% of training re-filed, held-out flagged rate as measured', () => {
     const m = measure('spam-2');
     expect(m.refileRate).toBeGreaterThanOrEqual(0.99);
-    expect(m.refileRate).toBeCloseTo(0.9968, 3);
-    expect(m.flaggedRate).toBeCloseTo(0.002, 3);
+    expect(m.refileRate).toBeCloseTo(0.9952, 3);
+    expect(m.flaggedRate).toBeCloseTo(0.009, 3);
     expect(m.model.novelty).toEqual({ method: 'quantile', quantile: 0.01, margin: 0.01 });
     // Every row with terms has a second group, different from the best, fitting no better.
     for (let i = 0; i < m.fresh.docs.length; i++) {
@@ -65,7 +66,7 @@ describe('novelty thresholds calibrated from the training fits (SpamAssassin)', 
   it('train on easy ham and spam, hold out hard-ham-1: >= 99% of training re-filed, held-out flagged rate as measured', () => {
     const m = measure('hard-ham-1');
     expect(m.refileRate).toBeGreaterThanOrEqual(0.99);
-    expect(m.refileRate).toBeCloseTo(0.996, 3);
+    expect(m.refileRate).toBeCloseTo(0.997, 3);
     expect(m.flaggedRate).toBeCloseTo(0.004, 3);
   });
 });
