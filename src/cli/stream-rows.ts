@@ -15,6 +15,8 @@ import { parse, type Options } from 'csv-parse';
 import type { Doc } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { chooseColumns } from '../ingest/table.js';
+import { tableHeader } from '../ingest/rows.js';
+import { sniffDelimiter } from '../ingest/csv.js';
 import { firstLine, normalizeNewlines } from '../ingest/text.js';
 import { hasFirstLine, peekText } from '../ingest/peek.js';
 
@@ -47,49 +49,7 @@ function rowDoc(name: string, row: number, idValue: string | undefined, parts: r
   };
 }
 
-/** Header names as the CSV reader makes them usable: blank → `column_N`, repeated → `name~2`. */
-function headerNames(raw: readonly string[]): string[] {
-  const names: string[] = [];
-  const seen = new Set<string>();
-  raw.forEach((r, i) => {
-    let n = r.trim() === '' ? `column_${i + 1}` : r;
-    if (seen.has(n)) {
-      let k = 2;
-      while (seen.has(`${n}~${k}`) || raw.includes(`${n}~${k}`)) k++;
-      n = `${n}~${k}`;
-    }
-    seen.add(n);
-    names.push(n);
-  });
-  return names;
-}
 
-/**
- * The delimiter of a CSV whose delimiter is not given, as the whole-export
- * reader picks it: a comma when the header line has one (outside double
- * quotes), else the one of `;`, tab, `|` it has most of, else a comma.
- */
-export function sniffDelimiter(head: string): string {
-  const nl = head.search(/[\r\n]/);
-  const line = nl === -1 ? head : head.slice(0, nl);
-  const counts = new Map<string, number>();
-  let quoted = false;
-  for (const ch of line) {
-    if (ch === '"') quoted = !quoted;
-    else if (!quoted) counts.set(ch, (counts.get(ch) ?? 0) + 1);
-  }
-  if ((counts.get(',') ?? 0) > 0) return ',';
-  let best = ',';
-  let bestCount = 0;
-  for (const d of [';', '\t', '|']) {
-    const c = counts.get(d) ?? 0;
-    if (c > bestCount) {
-      best = d;
-      bestCount = c;
-    }
-  }
-  return best;
-}
 
 /**
  * Documents of a CSV or TSV export, one row at a time (csv-parse's streaming
@@ -124,7 +84,7 @@ export async function* csvRows(chunks: AsyncIterable<string>, name: string, kind
   try {
     for await (const record of parser as AsyncIterable<string[]>) {
       if (textIdx === null) {
-        const names = headerNames(record);
+        const names = tableHeader(record).names;
         const chosen = chooseColumns(name, { accepted: names, listed: names, top: names }, options);
         textIdx = chosen.text.map((c) => names.indexOf(c));
         idIdx = chosen.id === null ? -1 : names.indexOf(chosen.id);

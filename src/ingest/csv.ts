@@ -20,6 +20,7 @@ import { InputSkip } from './decode.js';
 import { hasFirstLine, peekText } from './peek.js';
 import { csvItems, type CsvEngine, type CsvProgress } from './csv-records.js';
 import { chooseColumns, listNumbers, RowCollector, type DraftDoc } from './table.js';
+import { tableHeader } from './rows.js';
 
 /** The options the CSV reader uses. */
 export interface CsvReadOptions {
@@ -88,8 +89,12 @@ export function swallowedRows(raw: string, delimiter: string, width: number): nu
 
 const SNIFFED = [';', '\t', '|'];
 
-/** Counts each candidate delimiter in the first line, outside double quotes. */
-function sniffDelimiter(head: string): string {
+/**
+ * The delimiter of a CSV whose delimiter is not given: a comma when the header
+ * line has one (outside double quotes), else the one of `;`, tab, `|` it has
+ * most of, else a comma.
+ */
+export function sniffDelimiter(head: string): string {
   const nl = head.search(/[\r\n]/);
   const line = nl === -1 ? head : head.slice(0, nl);
   const counts = new Map<string, number>();
@@ -115,25 +120,6 @@ function delimiterName(d: string): string {
   return d === '\t' ? 'tab' : show(d);
 }
 
-/** Header names made usable: an empty name becomes `column_N` (1-based), a repeated one `name~2`, `name~3`… */
-function headerNames(raw: readonly string[]): { names: string[]; renamed: string[] } {
-  const names: string[] = [];
-  const renamed: string[] = [];
-  const seen = new Set<string>();
-  raw.forEach((r, i) => {
-    let n = r.trim() === '' ? `column_${i + 1}` : r;
-    if (n !== r) renamed.push(`column ${i + 1} has no name; called ${show(n)}`);
-    if (seen.has(n)) {
-      let k = 2;
-      while (seen.has(`${n}~${k}`) || raw.includes(`${n}~${k}`)) k++;
-      renamed.push(`column ${i + 1} repeats the name ${show(n)}; called ${show(`${n}~${k}`)}`);
-      n = `${n}~${k}`;
-    }
-    seen.add(n);
-    names.push(n);
-  });
-  return { names, renamed };
-}
 
 /**
  * Reads a CSV (or, with `kind` `tsv`, a TSV) export from decoded text
@@ -181,7 +167,7 @@ export async function readCsvWith(chunks: AsyncIterable<string>, name: string, k
       const { record, startLine, endLine, raw, blank } = item;
       if (blank) continue;
       if (header === null) {
-        const { names, renamed } = headerNames(record);
+        const { names, renamed } = tableHeader(record);
         header = names;
         width = names.length;
         for (const r of renamed) warnings.push(`${name}: ${r}`);

@@ -85,24 +85,11 @@ export function renderReport(data: ReportData): string {
 
   const parts: string[] = [];
   parts.push(
-    '<!DOCTYPE html>\n<html lang="en" class="no-js">\n<head>\n<meta charset="utf-8">\n',
-    `<meta http-equiv="Content-Security-Policy" content="${e(reportCsp())}">\n`,
-    '<meta name="viewport" content="width=device-width, initial-scale=1">\n',
-    '<meta name="referrer" content="no-referrer">\n',
-    '<meta name="color-scheme" content="light dark">\n',
-    `<meta name="generator" content="${e(`sheaf ${data.version}`)}">\n`,
-    `<title>${e(data.title)}</title>\n`,
-    `<style>${REPORT_CSS}</style>\n</head>\n<body>\n`,
-    '<a class="skip" href="#main">Skip to the content</a>\n',
-    '<header class="top"><div class="inner">',
-    `<h1>${e(data.title)}</h1>`,
-    `<p class="meta">sheaf ${e(data.version)} · ${e(data.createdAt)} · ${e(formatCount(data.counts.documents))} documents in ${e(
-      formatCount(groups.length),
-    )} groups</p>`,
-    '<nav class="views" aria-label="Views"><ul>',
-    ...nav.map(([id, text]) => `<li><a href="#${id}">${e(text)}</a></li>`),
-    '</ul></nav></div></header>\n<main id="main" tabindex="-1">\n',
-    '<p id="route-notice" class="notice" role="status" hidden></p>\n',
+    ...pageHead(
+      data,
+      nav,
+      `sheaf ${e(data.version)} · ${e(data.createdAt)} · ${e(formatCount(data.counts.documents))} documents in ${e(formatCount(groups.length))} groups`,
+    ),
   );
   parts.push(overviewView(data, bySize, grouped, colourIndex));
   parts.push(relationsView(data));
