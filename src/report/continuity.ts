@@ -42,8 +42,8 @@ export function continuityLines(c: Continuity, labelOf: (id: number) => string):
 export function continuityHtml(c: Continuity, labelOf: (id: number) => string): string {
   const row = (cells: readonly (string | number)[]) => `<tr>${cells.map((x) => `<td>${escapeHtml(x)}</td>`).join('')}</tr>`;
   const rows = [
-    ...c.groups.map((g) => row([g.id, labelOf(g.id), g.change, g.previous ? `${g.previous.id} ${g.previous.label}` : '', g.previous ? g.previous.size : '', g.size, g.similarity ?? ''])),
-    ...c.gone.map((g) => row(['', g.label, 'gone', `${g.id} ${g.label}`, g.size, 0, g.closest])),
+    ...c.groups.map((g) => row([g.id, labelOf(g.id), g.change, g.previous ? `${g.previous.id} ${g.previous.label}` : '', g.previous ? g.previous.size : '', g.size, g.similarity === null || g.similarity === undefined ? '' : g.similarity.toFixed(3)])),
+    ...c.gone.map((g) => row(['', g.label, 'gone', `${g.id} ${g.label}`, g.size, 0, g.closest.toFixed(3)])),
   ];
   return (
     `<p>Compared with ${escapeHtml(c.source)}: a group continues an earlier one when their centres' cosine is at least ${escapeHtml(c.options.minSimilarity)} (an optimal one-to-one matching); it keeps that group's number and name.</p>` +
