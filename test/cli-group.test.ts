@@ -32,8 +32,11 @@ describe('sheaf group on the demo tickets', () => {
     expect(lines[0]).toMatch(/^group\s+size\s+name\s+cohesion\s+for example$/);
     const rows = lines.slice(2).filter((l) => /^\s+\d+\s+\d+\s/.test(l));
     expect(rows).toHaveLength(8);
+    // report.html is listed with its size (the bytes written, as run.json's reportBytes says).
+    const pageKb = Math.round(JSON.parse(readFileSync(path.join(out, 'run.json'), 'utf8')).reportBytes / 1024);
+    const listed = (f: string) => (f === 'report.html' ? `  ${path.join(out, f)} (${pageKb} KB, one offline page)\n` : `  ${path.join(out, f)}\n`);
     expect(run.stdout).toContain(
-      `Wrote:\n${['documents.csv', 'groups.json', 'duplicates.csv', 'duplicates.json', 'near-copy-pairs.csv', 'model.json', 'report.html', 'tree.nwk', 'run.json'].map((f) => `  ${path.join(out, f)}\n`).join('')}`,
+      `Wrote:\n${['documents.csv', 'groups.json', 'duplicates.csv', 'duplicates.json', 'near-copy-pairs.csv', 'model.json', 'report.html', 'tree.nwk', 'run.json'].map(listed).join('')}`,
     );
     // The tree outline reaches every group when there are few.
     const outline = run.stdout.slice(run.stdout.indexOf('Tree of themes'));
