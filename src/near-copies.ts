@@ -23,7 +23,8 @@ import {
   type DuplicatesOptions,
   type SimilarPairs,
 } from './duplicates/index.js';
-import type { PipelineHooks, StageTiming } from './types.js';
+import type { StageTiming } from './types.js';
+import type { PipelineHooks } from './hooks.js';
 import { canonicalOrder } from './util/id-order.js';
 import { selectRows } from './util/csr.js';
 import { UsageError, show } from './util/errors.js';

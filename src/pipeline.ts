@@ -6,7 +6,8 @@
  *
  * @module
  */
-import type { Csr, Doc, PipelineHooks, StageTiming } from './types.js';
+import type { Csr, Doc, StageTiming } from './types.js';
+import type { PipelineHooks } from './hooks.js';
 import { createAnalyzer } from './analyze/index.js';
 import type { TfidfFit, Vocabulary } from './vectorize/index.js';
 import { fitHere, kmeansHere, type PipelineRunners, type PipelineStep, type StepReply } from './runners.js';
@@ -32,7 +33,8 @@ import { reduceForGrouping, reductionFor, termSpacePartition, type ReducedGroupi
 import { nextGroupsOf, type NextGroups } from './cluster/second.js';
 
 export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
-export type { PipelineHooks, StageTiming } from './types.js';
+export type { StageTiming } from './types.js';
+export type { PipelineHooks } from './hooks.js';
 export { canonicalOrder, compareIds } from './util/id-order.js';
 export { selectRows } from './util/csr.js';
 export { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';

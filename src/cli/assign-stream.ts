@@ -15,7 +15,7 @@ import type { Readable } from 'node:stream';
 import type { CliIo, TextSink } from './io.js';
 import { cleanModeFromFlags, ingestOptionsFromFlags, type GroupFlags } from './inputs.js';
 import { decimal, wholeNumber } from './parse.js';
-import { loadModel } from './assign.js';
+import { loadModel } from './model-path.js';
 import { csvRows, jsonlRows, type StreamKind, type StreamRowOptions } from './stream-rows.js';
 import { decodeStream } from '../ingest/decode.js';
 import { peekText, firstSignificant } from '../ingest/peek.js';

@@ -4,7 +4,6 @@
  *
  * @module
  */
-import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import type { Command } from 'commander';
 import type { CliIo } from './io.js';
@@ -15,14 +14,13 @@ import { addInputFlags, cleanModeFromFlags, cleaningNotes, ingestOptionsFromFlag
 import { assignedCsv } from '../report/assigned.js';
 import { assignCounts, assignRunJson } from '../report/run-record.js';
 import { resolveCleanStage } from '../clean/stage.js';
-import { modelFromJson, type Model } from '../model/index.js';
 import { applyModel, type ModelApplication } from '../model/apply.js';
 import { fixed, withCsvBom } from '../report/csv.js';
 import { jsonText } from '../report/outputs.js';
 import { visibleJson, visibleLines } from './visible.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
-import { modelFileOf } from './model-path.js';
+import { loadModel, modelFileOf } from './model-path.js';
 import { progressReporter } from './progress.js';
 import { UsageError } from '../util/errors.js';
 import { runAssignStream, DEFAULT_STREAM_BATCH, type AssignStreamFlags } from './assign-stream.js';
@@ -54,18 +52,6 @@ export function registerAssign(program: Command, io: CliIo, setExit: (code: numb
     });
 }
 
-/** Reads and checks a model file (one clear line when it is missing, foreign or damaged). */
-export async function loadModel(given: string, cwd: string): Promise<Model> {
-  const file = await modelFileOf(given, cwd); // a run folder: its model.json
-  let text: string;
-  try {
-    text = await readFile(path.resolve(cwd, file), 'utf8');
-  } catch (err) {
-    const code = (err as { code?: string }).code;
-    throw new UsageError(code === 'ENOENT' ? `no such model file: ${file}` : `cannot read model file ${file} (${code ?? 'error'})`, 'model');
-  }
-  return modelFromJson(text, file);
-}
 
 async function runAssign(inputs: string[], flags: AssignFlags, io: CliIo): Promise<number> {
   const startedAt = new Date();

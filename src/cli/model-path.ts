@@ -1,12 +1,14 @@
 /**
  * `--model` may name the model file or the output folder of the run that
- * wrote it: a folder is looked into for `model.json`.
+ * wrote it: a folder is looked into for `model.json`; {@link loadModel} reads
+ * and checks the model it names.
  *
  * @module
  */
-import { stat } from 'node:fs/promises';
+import { readFile, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { UsageError } from '../util/errors.js';
+import { modelFromJson, type Model } from '../model/index.js';
 
 /** The file name `sheaf group` gives the saved model in its output folder. */
 export const MODEL_FILE = 'model.json';
@@ -32,4 +34,17 @@ export async function modelFileOf(given: string, cwd: string): Promise<string> {
     // refused below
   }
   throw new UsageError(`--model ${given} is a folder with no ${MODEL_FILE} in it; name a model.json written by sheaf group, or the output folder of that run`, 'model');
+}
+
+/** Reads and checks a model file (one clear line when it is missing, foreign or damaged). */
+export async function loadModel(given: string, cwd: string): Promise<Model> {
+  const file = await modelFileOf(given, cwd); // a run folder: its model.json
+  let text: string;
+  try {
+    text = await readFile(path.resolve(cwd, file), 'utf8');
+  } catch (err) {
+    const code = (err as { code?: string }).code;
+    throw new UsageError(code === 'ENOENT' ? `no such model file: ${file}` : `cannot read model file ${file} (${code ?? 'error'})`, 'model');
+  }
+  return modelFromJson(text, file);
 }

@@ -7,7 +7,7 @@
 import { readFile, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { decimal } from './parse.js';
-import { loadModel } from './assign.js';
+import { loadModel } from './model-path.js';
 import { UsageError } from '../util/errors.js';
 import { previousGroupsOf } from '../continuity/carry.js';
 import { parseEdits, type GroupEdits } from '../edits/index.js';

@@ -19,8 +19,7 @@ import { show } from '../util/errors.js';
 import { InputSkip } from './decode.js';
 import { hasFirstLine, peekText } from './peek.js';
 import { csvItems, type CsvEngine, type CsvProgress } from './csv-records.js';
-import { chooseColumns, listNumbers, RowCollector, type DraftDoc } from './table.js';
-import { tableHeader } from './rows.js';
+import { chooseColumns, listNumbers, RowCollector, tableHeader, type DraftDoc } from './table.js';
 
 /** The options the CSV reader uses. */
 export interface CsvReadOptions {

@@ -9,7 +9,7 @@
  */
 import { show } from '../util/errors.js';
 import type { ExportRead } from './csv.js';
-import { chooseColumns, listNumbers, RowCollector } from './table.js';
+import { chooseColumns, listNumbers, RowCollector, tableHeader } from './table.js';
 
 /** The column options a table of rows is read with. */
 export interface RowTableOptions {
@@ -18,28 +18,6 @@ export interface RowTableOptions {
   readonly title: string | null;
 }
 
-/**
- * Header names made usable, as for CSV: an empty name becomes `column_N`
- * (1-based), a repeated one `name~2`, `name~3`…; each renaming is described.
- */
-export function tableHeader(raw: readonly string[]): { names: string[]; renamed: string[] } {
-  const names: string[] = [];
-  const renamed: string[] = [];
-  const seen = new Set<string>();
-  raw.forEach((r, i) => {
-    let n = r.trim() === '' ? `column_${i + 1}` : r;
-    if (n !== r) renamed.push(`column ${i + 1} has no name; called ${show(n)}`);
-    if (seen.has(n)) {
-      let k = 2;
-      while (seen.has(`${n}~${k}`) || raw.includes(`${n}~${k}`)) k++;
-      renamed.push(`column ${i + 1} repeats the name ${show(n)}; called ${show(`${n}~${k}`)}`);
-      n = `${n}~${k}`;
-    }
-    seen.add(n);
-    names.push(n);
-  });
-  return { names, renamed };
-}
 
 /**
  * Reads a header and rows of cells as documents. `rows[i]` is row `i + 1`

@@ -193,3 +193,26 @@ export class RowCollector {
     return out;
   }
 }
+
+/**
+ * Header names made usable, as for CSV: an empty name becomes `column_N`
+ * (1-based), a repeated one `name~2`, `name~3`…; each renaming is described.
+ */
+export function tableHeader(raw: readonly string[]): { names: string[]; renamed: string[] } {
+  const names: string[] = [];
+  const renamed: string[] = [];
+  const seen = new Set<string>();
+  raw.forEach((r, i) => {
+    let n = r.trim() === '' ? `column_${i + 1}` : r;
+    if (n !== r) renamed.push(`column ${i + 1} has no name; called ${show(n)}`);
+    if (seen.has(n)) {
+      let k = 2;
+      while (seen.has(`${n}~${k}`) || raw.includes(`${n}~${k}`)) k++;
+      renamed.push(`column ${i + 1} repeats the name ${show(n)}; called ${show(`${n}~${k}`)}`);
+      n = `${n}~${k}`;
+    }
+    seen.add(n);
+    names.push(n);
+  });
+  return { names, renamed };
+}

@@ -9,7 +9,7 @@ import type { Csr } from '../types.js';
 import type { KMeansResult } from '../cluster/kmeans.js';
 import { groupAverageLink } from '../cluster/tree.js';
 import type { Partition } from '../cluster/partition.js';
-import type { PipelineHooks } from '../types.js';
+import type { PipelineHooks } from '../hooks.js';
 import type { PipelineStep, StepReply } from '../runners.js';
 import { round } from '../util/round.js';
 import { checkGroupsFit, cutTree, type GroupChoice, type MethodSettings } from './choose.js';

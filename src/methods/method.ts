@@ -6,7 +6,8 @@
  *
  * @module
  */
-import type { Csr, Doc, PipelineHooks } from '../types.js';
+import type { Csr, Doc } from '../types.js';
+import type { PipelineHooks } from '../hooks.js';
 import type { Partition } from '../cluster/partition.js';
 import type { PipelineStep, StepReply } from '../runners.js';
 import type { GroupChoice, MethodSettings } from './choose.js';
