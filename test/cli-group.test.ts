@@ -40,7 +40,7 @@ describe('sheaf group on the demo tickets', () => {
     );
     // The tree outline reaches every group when there are few.
     const outline = run.stdout.slice(run.stdout.indexOf('Tree of themes'));
-    expect(outline.match(/group \d+ · \d+ · /g)).toHaveLength(8);
+    expect(outline.match(/group \d+: [^\n]+ \(\d+\)\n/g)).toHaveLength(8);
   });
 
   it('writes documents.csv that joins back to every input row', () => {

@@ -56,7 +56,7 @@ export function treeOutline(result: GroupResult, width: number, depth = 4): stri
     let text: string;
     if (node < n) {
       const g = result.groups[node];
-      text = `group ${g.id} · ${g.size} · ${visible(g.label)}`;
+      text = `group ${g.id}: ${visible(g.label)} (${g.size})`;
     } else if (level >= depth) {
       text = `${docs[node]} documents in ${leavesUnder(node)} groups (joined at ${fixed(tree.similarity[node - n], 2)}) …`;
     } else {
