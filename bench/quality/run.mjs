@@ -39,6 +39,21 @@ const opt = (name, dflt) => {
 const all = (name) => argv.flatMap((a, i) => (a === name && i + 1 < argv.length ? [argv[i + 1]] : []));
 const log = (line) => process.stderr.write(line + '\n');
 
+// Flags this benchmark knows (a value follows those in VALUED); --help prints them, anything else is refused.
+const FLAGS = ['--no-build', '--no-reference'];
+const VALUED = ['--corpora', '--reduce', '--results', '--seeds', '--variant'];
+if (argv.includes('--help')) {
+  process.stdout.write(`npm run bench -- --quality [${FLAGS.join('] [')}] [${VALUED.map((f) => `${f} VALUE`).join('] [')}]\n`);
+  process.exit(0);
+}
+for (let i = 0; i < argv.length; i++) {
+  if (VALUED.includes(argv[i])) i++;
+  else if (!FLAGS.includes(argv[i])) {
+    process.stderr.write(`bench --quality: unknown flag ${argv[i]}; known: ${[...FLAGS, ...VALUED].join(', ')}\n`);
+    process.exit(2);
+  }
+}
+
 const SEEDS = opt('--seeds', '0,1,2,3,4').split(',').map(Number);
 const REFERENCE = !has('--no-reference');
 const REDUCE = opt('--reduce', null);
