@@ -146,8 +146,6 @@ export interface Workspace extends KernelArrays {
   readonly absorbed: Float64Array;
   /** Mini-batch: members of each group in the current step. */
   readonly stepSizes: Int32Array;
-  /** Mini-batch: 1 for the terms the current step's batch rows hold (length d for mini-batch runs, else 0); all 0 between steps. */
-  readonly touched: Uint8Array;
   /** Skipped rows and dot products per full assignment pass of the current restart, and of the best. */
   readonly skippedByPass: Int32Array;
   readonly bestSkippedByPass: Int32Array;
@@ -216,7 +214,6 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     bestFit: new Float64Array(n),
     bestCentroids: new Float32Array(d * k),
     sums: new Float64Array(d * k),
-    touched: new Uint8Array(plan.miniBatch ? d : 0),
     counts: new Int32Array(k),
     norms: new Float64Array(k),
     previous: new Int32Array(n),
@@ -713,8 +710,6 @@ function* miniBatchRestart(ws: Workspace, rng: Rng, onStep?: (done: number) => v
   yield* seedCentroids(ws, LIST_SAMPLE, sampleSize, rng);
 
   ws.absorbed.fill(0);
-  ws.sums.fill(0); // each step leaves the sums as it found them: all zero
-  ws.touched.fill(0);
   let batches = 0;
   let converged = false;
   while (batches < options.batchIterations) {
@@ -789,62 +784,36 @@ function ownScore(ws: Workspace, i: number): number {
  * Returns the largest movement of a centroid.
  */
 function miniBatchStep(ws: Workspace): number {
-  const { matrix, batch, assign, k, sums, norms, centroids, absorbed, stepSizes, move, touched } = ws;
-  const { indptr, indices } = matrix;
-  // `sums` is all zero here (cleared when the restart starts; each step clears what it used), so a term
-  // that no batch row holds has sum +0 in every group: its new value is `absorbed · c + 0`, computed
-  // without reading or writing `sums` — the same arithmetic, in the same term order, as summing densely.
+  const { matrix, batch, assign, k, sums, norms, centroids, absorbed, stepSizes, move } = ws;
+  sums.fill(0);
   stepSizes.fill(0);
   for (let b = 0; b < batch.length; b++) {
     const i = batch[b]!;
     const g = assign[i]!;
     stepSizes[g]!++;
     addRow(matrix, i, sums, k, g, 1);
-    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) touched[indices[j]!] = 1;
   }
   const d = matrix.cols;
   norms.fill(0);
   for (let t = 0; t < d; t++) {
     const base = t * k;
-    if (touched[t] === 1) {
-      for (let g = 0; g < k; g++) {
-        if (stepSizes[g] === 0) continue;
-        const v = absorbed[g]! * centroids[base + g]! + sums[base + g]!;
-        sums[base + g] = v;
-        norms[g]! += v * v;
-      }
-    } else {
-      for (let g = 0; g < k; g++) {
-        if (stepSizes[g] === 0) continue;
-        const v = absorbed[g]! * centroids[base + g]! + 0;
-        norms[g]! += v * v;
-      }
+    for (let g = 0; g < k; g++) {
+      if (stepSizes[g] === 0) continue;
+      const v = absorbed[g]! * centroids[base + g]! + sums[base + g]!;
+      sums[base + g] = v;
+      norms[g]! += v * v;
     }
   }
   for (let g = 0; g < k; g++) norms[g] = norms[g]! > 0 ? 1 / Math.sqrt(norms[g]!) : 0;
   move.fill(0);
   for (let t = 0; t < d; t++) {
     const base = t * k;
-    if (touched[t] === 1) {
-      for (let g = 0; g < k; g++) {
-        if (norms[g] !== 0) {
-          const c = Math.fround(sums[base + g]! * norms[g]!);
-          const step = c - centroids[base + g]!;
-          move[g]! += step * step;
-          centroids[base + g] = c;
-        }
-        sums[base + g] = 0;
-      }
-      touched[t] = 0;
-    } else {
-      for (let g = 0; g < k; g++) {
-        if (norms[g] === 0) continue; // no members this step (or members cancel): centroid stays
-        const old = centroids[base + g]!;
-        const c = Math.fround((absorbed[g]! * old + 0) * norms[g]!);
-        const step = c - old;
-        move[g]! += step * step;
-        centroids[base + g] = c;
-      }
+    for (let g = 0; g < k; g++) {
+      if (norms[g] === 0) continue; // no members this step (or members cancel): centroid stays
+      const c = Math.fround(sums[base + g]! * norms[g]!);
+      const step = c - centroids[base + g]!;
+      move[g]! += step * step;
+      centroids[base + g] = c;
     }
   }
   let largest = 0;
