@@ -444,7 +444,7 @@ describe('--memory', () => {
   it('refuses, before reading, an input that would need more than the limit', async () => {
     const out = path.join(tempDir(), 'o');
     const run = await sheaf(['group', demoCsv, '--text', 'body', '--groups', '3', '--memory', '100M', '--out', out]);
-    // 182,450 bytes of CSV: 256 MiB + 8 × 182,450 bytes = 269,895,056 bytes ≈ 257 MB (MiB shown as MB).
+    // 182,450 bytes of CSV: 256 MiB + 7 × 182,450 bytes = 269,712,606 bytes ≈ 257 MB (MiB shown as MB).
     expect(run.stderr).toBe('sheaf: this input (178 KB) would need about 257 MB of memory, more than the limit of 100 MB; raise --memory if the machine has it, or split the input\n');
     expect(run.code).toBe(2);
     expect(existsSync(out)).toBe(false);

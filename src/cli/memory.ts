@@ -11,7 +11,7 @@
  *   /usr/bin/time -v node dist/cli/main.js group DIR/synth-63k.csv  --text text --id id --groups 50 --no-report --out o
  *   /usr/bin/time -v node dist/cli/main.js group DIR/synth-318k.csv --text text --id id --groups 50 --no-report --out o
  *
- * | rows | input bytes | report | peak RSS | estimate here | old estimate (200 MiB + 10.5 × bytes) |
+ * | rows | input bytes | report | peak RSS | estimate (256 MiB + 8 × bytes, until the refit below) | old estimate (200 MiB + 10.5 × bytes) |
  * |---|---|---|---|---|---|
  * | 63k  |  24,999,783 | off | 432,224 KiB = 443 MB  | 468 MB (+6%)   | 472 MB (+7%)   |
  * | 63k  |  24,999,783 | on  | 524,536 KiB = 537 MB  | 468 MB (−13%)  | 472 MB (−12%)  |
@@ -22,9 +22,24 @@
  * `/usr/bin/time -v node dist/cli/main.js group synth-63k.csv --text text --id id --groups 50 --no-report`). Earlier bench peaks (k = 100,
  * near-copies on) stay within 25% as well: 764 MB for 40 MB of CSV (100k rows;
  * estimate 588 MB, −23%) and 4.05 GB for 398 MB (1M rows; 3.45 GB, −15%). The fit
- * is the line through the two runs without the report, rounded (256 MiB + 8 ×
+ * was the line through the two runs without the report, rounded (256 MiB + 8 ×
  * bytes); the report adds about 4 bytes per input byte at 63k, so a default run
- * stays within 25% of the estimate. Per-row overhead (a document's fields and
+ * stays within 25% of the estimate.
+ *
+ * Refit on 2026-12-03 after UTF-8 input became one-byte strings when it is ASCII
+ * (src/ingest/decode.ts: texts held at half the size), k = 100, near-copies on, no report:
+ *
+ *   node bench/generate.mjs --sizes 60k,1m --out DIR
+ *   /usr/bin/time -v node dist/cli/main.js group DIR/synth-60k.csv --text text --id id --groups 100 --no-report --out o
+ *   /usr/bin/time -v node --cpu-prof dist/cli/main.js group DIR/synth-1m.csv --text text --id id --groups 100 --no-report --out o
+ *
+ * | rows | input bytes | peak RSS | 256 MiB + 8 × bytes | 256 MiB + 7 × bytes (now) |
+ * |---|---|---|---|---|
+ * | 60k | 23,810,967 | 541,604 KiB = 555 MB | 459 MB (−17%) | 435 MB (−22%) |
+ * | 1M | 398,337,588 | 2,635,888 KiB = 2.70 GB | 3.46 GB (+28%) | 3.06 GB (+13%) |
+ *
+ * (the same 1M run before that change peaked at 4,048,956 KiB = 4.15 GB). 7 bytes per input byte keeps
+ * every row of both tables within 25%: 63k −0% / −17% (report), 318k −3%, 60k −22%, 1M +13%. Per-row overhead (a document's fields and
  * id) is not modelled apart from bytes: an export with many columns per short
  * text will peak higher. A guard against starting what cannot finish, not an
  * exact figure.
@@ -36,8 +51,8 @@ import { stat } from 'node:fs/promises';
 import path from 'node:path';
 import { UsageError } from '../util/errors.js';
 
-/** Bytes held at the peak per byte of input text (measured at 63k and 318k rows, see the module note). */
-export const PEAK_PER_INPUT_BYTE = 8;
+/** Bytes held at the peak per byte of input text (measured at 60k, 63k, 318k and 1M rows, see the module note). */
+export const PEAK_PER_INPUT_BYTE = 7;
 /** Bytes held at the peak whatever the input (the runtime, the code, small buffers; fitted, see the module note). */
 export const PEAK_BASE = 256 * 1024 ** 2;
 /** Share of the machine's memory used when `--memory` is not given. */

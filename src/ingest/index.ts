@@ -734,7 +734,12 @@ function capFiles(planned: Planned[], maxFiles: number | null): { planned: Plann
  */
 function uniqueIds(reads: readonly InputRead[]): string[] {
   const taken = new Set<string>();
-  for (const r of reads) for (const d of r.docs) taken.add(d.id);
+  let count = 0;
+  for (const r of reads) {
+    for (const d of r.docs) taken.add(d.id);
+    count += r.docs.length;
+  }
+  if (taken.size === count) return []; // every id differs already: nothing to rename
   const used = new Set<string>();
   const nextSuffix = new Map<string, number>();
   const warnings: string[] = [];

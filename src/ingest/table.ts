@@ -172,11 +172,16 @@ export class RowCollector {
       if (v === '') this.emptyIds.push(row);
       else id = v;
     }
-    const text = normalizeNewlines(textParts.filter((p) => p.trim() !== '').join('\n\n'));
+    // One text column (the usual case): the part itself, or '' when blank — what filter + join give, without the arrays.
+    const only = textParts.length === 1 ? (textParts[0] as string) : null;
+    const joined = only !== null ? (only.trim() !== '' ? only : '') : textParts.filter((p) => p.trim() !== '').join('\n\n');
+    const text = normalizeNewlines(joined);
     if (text.trim() === '') this.emptyTexts.push(row);
     const fromText = !(title !== undefined && title.trim() !== '');
     const t = fromText ? firstLine(text) || id : capTitle(title);
-    this.docs.push({ id, source: `${this.name}#${row}`, title: t, text, fields, ...(fromText ? { titleFromText: true } : {}) });
+    const source = `${this.name}#${row}`;
+    // Two literals instead of a spread: the same keys in the same order, without a temporary object per row.
+    this.docs.push(fromText ? { id, source, title: t, text, fields, titleFromText: true } : { id, source, title: t, text, fields });
   }
 
   /** One warning per kind of problem seen, naming the rows. */

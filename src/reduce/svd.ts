@@ -72,13 +72,31 @@ export function fillGaussian(out: Float64Array, rng: Rng): void {
   }
 }
 
-/** out (n × l) = A (n × m, CSR) · X (m × l), row-major. */
+/**
+ * out (n × l) = A (n × m, CSR) · X (m × l), row-major. Four stored values of a
+ * row are taken per sweep over the output row (fewer loads and stores of it);
+ * each output entry still adds its terms one by one in storage order, so the
+ * result is bit-identical to the plain loop.
+ */
 export function multiplyCsrDense(a: Csr, x: Float64Array, l: number, out: Float64Array): void {
   const { rows, indptr, indices, values } = a;
   out.fill(0, 0, rows * l);
   for (let r = 0; r < rows; r++) {
     const o = r * l;
-    for (let p = indptr[r]!; p < indptr[r + 1]!; p++) {
+    const end = indptr[r + 1]!;
+    let p = indptr[r]!;
+    for (; p + 3 < end; p += 4) {
+      const v0 = values[p]!;
+      const v1 = values[p + 1]!;
+      const v2 = values[p + 2]!;
+      const v3 = values[p + 3]!;
+      const b0 = indices[p]! * l;
+      const b1 = indices[p + 1]! * l;
+      const b2 = indices[p + 2]! * l;
+      const b3 = indices[p + 3]! * l;
+      for (let c = 0; c < l; c++) out[o + c] = out[o + c]! + v0 * x[b0 + c]! + v1 * x[b1 + c]! + v2 * x[b2 + c]! + v3 * x[b3 + c]!;
+    }
+    for (; p < end; p++) {
       const v = values[p]!;
       const base = indices[p]! * l;
       for (let c = 0; c < l; c++) out[o + c]! += v * x[base + c]!;
@@ -86,7 +104,12 @@ export function multiplyCsrDense(a: Csr, x: Float64Array, l: number, out: Float6
   }
 }
 
-/** out (m × l) = Aᵀ (m × n) · Y (n × l), row-major, A in CSR. */
+/**
+ * out (m × l) = Aᵀ (m × n) · Y (n × l), row-major, A in CSR. Scatters into
+ * the output rows of the terms; {@link transposeCsr} once and
+ * {@link multiplyCsrDense} on the transpose gives the same bits with
+ * contiguous writes.
+ */
 export function multiplyCsrTransposeDense(a: Csr, y: Float64Array, l: number, out: Float64Array): void {
   const { rows, cols, indptr, indices, values } = a;
   out.fill(0, 0, cols * l);
@@ -98,6 +121,30 @@ export function multiplyCsrTransposeDense(a: Csr, y: Float64Array, l: number, ou
       for (let c = 0; c < l; c++) out[base + c]! += v * y[o + c]!;
     }
   }
+}
+
+/**
+ * The transpose of a CSR matrix (m × n, term-major), each of its rows holding
+ * the documents in increasing order: a product with it adds each output
+ * entry's terms in the very order {@link multiplyCsrTransposeDense} does.
+ */
+export function transposeCsr(a: Csr): Csr {
+  const { rows, cols, indptr, indices, values } = a;
+  const nnz = indptr[rows]!;
+  const tIndptr = new Int32Array(cols + 1);
+  for (let p = 0; p < nnz; p++) tIndptr[indices[p]! + 1]!++;
+  for (let t = 0; t < cols; t++) tIndptr[t + 1]! += tIndptr[t]!;
+  const next = tIndptr.slice(0, cols);
+  const tIndices = new Int32Array(nnz);
+  const tValues = new Float32Array(nnz);
+  for (let r = 0; r < rows; r++) {
+    for (let p = indptr[r]!; p < indptr[r + 1]!; p++) {
+      const q = next[indices[p]!]!++;
+      tIndices[q] = r;
+      tValues[q] = values[p]!;
+    }
+  }
+  return { rows: cols, cols: rows, indptr: tIndptr, indices: tIndices, values: tValues };
 }
 
 /** Work space of {@link orthonormalize} for blocks l columns wide, allocated once per decomposition. */
@@ -156,16 +203,7 @@ function multiplyUpper(a: Float64Array, b: Float64Array, l: number, out: Float64
  * untouched) when a pivot says the block is too ill-conditioned.
  */
 function choleskyQrStep(q: Float64Array, rows: number, l: number, r: Float64Array, g: Float64Array): boolean {
-  g.fill(0, 0, l * l);
-  for (let i = 0; i < rows; i++) {
-    const o = i * l;
-    for (let a = 0; a < l; a++) {
-      const x = q[o + a]!;
-      if (x === 0) continue;
-      const ga = a * l;
-      for (let b = a; b < l; b++) g[ga + b]! += x * q[o + b]!;
-    }
-  }
+  gramUpper(q, rows, l, g);
   // Cholesky G = RᵀR, R upper, into r.
   r.fill(0, 0, l * l);
   let maxPivot = 0;
@@ -184,16 +222,80 @@ function choleskyQrStep(q: Float64Array, rows: number, l: number, r: Float64Arra
     }
   }
   for (let j = 0; j < l; j++) if (r[j * l + j]! * CHOLESKY_QR_CONDITION < maxPivot) return false;
-  // Q ← QR⁻¹ row by row: solve xR = q (forward substitution over the columns).
-  for (let i = 0; i < rows; i++) {
-    const o = i * l;
-    for (let c = 0; c < l; c++) {
-      let t = q[o + c]!;
-      for (let k = 0; k < c; k++) t -= q[o + k]! * r[k * l + c]!;
-      q[o + c] = t / r[c * l + c]!;
+  solveUpperRows(q, rows, l, r, g);
+  return true;
+}
+
+/**
+ * The upper triangle of G = QᵀQ (l × l, row-major) of a row-major `rows × l`
+ * block, into `g`. Four rows per sweep over G (a quarter of its loads and
+ * stores); every entry still adds its row products one by one in row order
+ * (a zero entry adds nothing: its products are ±0), so the bits are those of
+ * the plain row-by-row loop.
+ */
+export function gramUpper(q: Float64Array, rows: number, l: number, g: Float64Array): void {
+  g.fill(0, 0, l * l);
+  let i = 0;
+  for (; i + 3 < rows; i += 4) {
+    const o0 = i * l;
+    const o1 = o0 + l;
+    const o2 = o1 + l;
+    const o3 = o2 + l;
+    for (let a = 0; a < l; a++) {
+      const x0 = q[o0 + a]!;
+      const x1 = q[o1 + a]!;
+      const x2 = q[o2 + a]!;
+      const x3 = q[o3 + a]!;
+      const ga = a * l;
+      for (let b = a; b < l; b++) g[ga + b] = g[ga + b]! + x0 * q[o0 + b]! + x1 * q[o1 + b]! + x2 * q[o2 + b]! + x3 * q[o3 + b]!;
     }
   }
-  return true;
+  for (; i < rows; i++) {
+    const o = i * l;
+    for (let a = 0; a < l; a++) {
+      const x = q[o + a]!;
+      if (x === 0) continue;
+      const ga = a * l;
+      for (let b = a; b < l; b++) g[ga + b]! += x * q[o + b]!;
+    }
+  }
+}
+
+/**
+ * Q ← QR⁻¹ for an upper triangular R (l × l, row-major) with a non-zero
+ * diagonal: each row x solves xR = q by forward substitution over the
+ * columns. `rt` (l × l) receives Rᵀ so the inner loop reads contiguously;
+ * the arithmetic per row is that of the plain loop, bit for bit.
+ */
+export function solveUpperRows(q: Float64Array, rows: number, l: number, r: Float64Array, rt: Float64Array): void {
+  for (let k = 0; k < l; k++) for (let c = 0; c < l; c++) rt[c * l + k] = r[k * l + c]!;
+  let i = 0;
+  for (; i + 1 < rows; i += 2) {
+    const o0 = i * l;
+    const o1 = o0 + l;
+    for (let c = 0; c < l; c++) {
+      const rc = c * l;
+      let t0 = q[o0 + c]!;
+      let t1 = q[o1 + c]!;
+      for (let k = 0; k < c; k++) {
+        const w = rt[rc + k]!;
+        t0 -= q[o0 + k]! * w;
+        t1 -= q[o1 + k]! * w;
+      }
+      const d = rt[rc + c]!;
+      q[o0 + c] = t0 / d;
+      q[o1 + c] = t1 / d;
+    }
+  }
+  for (; i < rows; i++) {
+    const o = i * l;
+    for (let c = 0; c < l; c++) {
+      const rc = c * l;
+      let t = q[o + c]!;
+      for (let k = 0; k < c; k++) t -= q[o + k]! * rt[rc + k]!;
+      q[o + c] = t / rt[rc + c]!;
+    }
+  }
 }
 
 /**
@@ -285,6 +387,7 @@ export function truncatedSvd(matrix: Csr, options: Partial<ReduceOptions>, rng: 
   const omega = new Float64Array(m * l); // Ω, then Q̃ⱼ, then Bᵀ and Q̂ (m × l)
   const y = new Float64Array(n * l); // Yⱼ, then Qⱼ (n × l)
   const ws = createOrthWorkspace(l);
+  const at = transposeCsr(matrix); // term-major, built once: Aᵀ products write contiguous rows
 
   // Stage A: Algorithm 4.4, orthonormalising once per power step, on the side with fewer rows.
   fillGaussian(omega, rng);
@@ -292,14 +395,14 @@ export function truncatedSvd(matrix: Csr, options: Partial<ReduceOptions>, rng: 
     multiplyCsrDense(matrix, omega, l, y);
     orthonormalize(y, n, ws, rng);
     for (let it = 0; it < o.powerIterations; it++) {
-      multiplyCsrTransposeDense(matrix, y, l, omega);
+      multiplyCsrDense(at, y, l, omega);
       multiplyCsrDense(matrix, omega, l, y);
       orthonormalize(y, n, ws, rng);
     }
   } else {
     for (let it = 0; it < o.powerIterations; it++) {
       multiplyCsrDense(matrix, omega, l, y);
-      multiplyCsrTransposeDense(matrix, y, l, omega);
+      multiplyCsrDense(at, y, l, omega);
       orthonormalize(omega, m, ws, rng);
     }
     multiplyCsrDense(matrix, omega, l, y);
@@ -307,7 +410,7 @@ export function truncatedSvd(matrix: Csr, options: Partial<ReduceOptions>, rng: 
   }
 
   // Stage B: Algorithm 5.1 on Bᵀ = AᵀQ = Q̂R̂, so B = R̂ᵀQ̂ᵀ.
-  multiplyCsrTransposeDense(matrix, y, l, omega);
+  multiplyCsrDense(at, y, l, omega);
   orthonormalize(omega, m, ws, rng);
   const rt = new Matrix(l, l);
   for (let i = 0; i < l; i++) for (let j = 0; j < l; j++) rt.set(j, i, ws.r[i * l + j]!);
@@ -321,14 +424,17 @@ export function truncatedSvd(matrix: Csr, options: Partial<ReduceOptions>, rng: 
   const wd = new Float64Array(l * d);
   for (let i = 0; i < l; i++) for (let j = 0; j < d; j++) wd[i * d + j] = w.get(i, order[j]!);
   const comp = new Float64Array(d * m);
+  const acc = new Float64Array(d); // one term's d entries, summed in a contiguous buffer, then stored
   for (let t = 0; t < m; t++) {
     const qo = t * l;
+    acc.fill(0);
     for (let i = 0; i < l; i++) {
       const x = omega[qo + i]!;
       if (x === 0) continue;
       const wo = i * d;
-      for (let j = 0; j < d; j++) comp[j * m + t]! += x * wd[wo + j]!;
+      for (let j = 0; j < d; j++) acc[j]! += x * wd[wo + j]!;
     }
+    for (let j = 0; j < d; j++) comp[j * m + t] = acc[j]!;
   }
   const components = new Float32Array(d * m);
   for (let j = 0; j < d; j++) {
