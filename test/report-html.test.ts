@@ -252,6 +252,9 @@ describe('renderReport: self-contained page', () => {
     expect([pw.inGroup, pw.outside]).toEqual([1, 0]);
     const ex = DomUtils.findAll((el) => el.name === 'li', [DomUtils.findOne((el) => el.name === 'ol', [page])!]).map((li) => DomUtils.textContent(li));
     expect(ex).toEqual(g.exemplars.map((id) => `${data.documents.find((d) => d.id === id)!.title} ${id}`));
+    // Each exemplar links to the document reader at its position in input order.
+    const hrefs = DomUtils.findAll((el) => el.name === 'a', [DomUtils.findOne((el) => el.name === 'ol', [page])!]).map((a) => a.attribs.href);
+    expect(hrefs).toEqual(g.exemplars.map((id) => `#doc-${data.documents.findIndex((d) => d.id === id)}`));
     const mount = DomUtils.findOne((el) => 'data-table' in el.attribs, [page])!;
     expect(mount.attribs).toMatchObject({ 'data-table': 'group', 'data-group': '0' });
   });

@@ -62,11 +62,12 @@ export function renderReport(data: ReportData): string {
   const colourIndex = new Map<number, number>();
   groups.forEach((g, i) => colourIndex.set(g.id, i));
   const titleById = new Map<string, string>();
+  const indexById = new Map<string, number>();
   let ungrouped = 0;
-  for (const d of data.documents) {
-    if (!titleById.has(d.id)) titleById.set(d.id, d.title);
+  data.documents.forEach((d, i) => {
+    if (!titleById.has(d.id)) (titleById.set(d.id, d.title), indexById.set(d.id, i));
     if (d.group < 0) ungrouped++;
-  }
+  });
   const bySize = groups.slice().sort((a, b) => b.size - a.size || a.id - b.id);
   const grouped = groups.reduce((s, g) => s + (Number.isFinite(g.size) ? g.size : 0), 0);
 
@@ -116,7 +117,7 @@ export function renderReport(data: ReportData): string {
     const labels = new Map(groups.map((g) => [g.id, g.label]));
     parts.push(view('since', 'Since the previous run', [continuityHtml(data.continuity, (id) => labels.get(id) ?? '')]));
   }
-  groups.forEach((g, i) => parts.push(groupView(g, i, groups, grouped, titleById)));
+  groups.forEach((g, i) => parts.push(groupView(g, i, groups, grouped, titleById, indexById)));
   parts.push(duplicatesView(data));
   parts.push(...pageTail(data));
   return parts.join('');
@@ -281,6 +282,7 @@ function groupView(
   groups: readonly Group[],
   grouped: number,
   titleById: ReadonlyMap<string, string>,
+  indexById: ReadonlyMap<string, number>,
 ): string {
   const id = `group-${g.id}`;
   const heading = g.label;
@@ -305,7 +307,10 @@ function groupView(
       '<p>Documents close to the group’s centre and unlike each other (maximal marginal relevance), the closest first; never two near-copies.</p><ol class="exemplars">',
       ...g.exemplars.map((x) => {
         const title = titleById.get(x);
-        return `<li>${title !== undefined && title !== '' ? `${e(title)} ` : ''}<code>${e(x)}</code></li>`;
+        const at = indexById.get(x);
+        const text = `${title !== undefined && title !== '' ? `${e(title)} ` : ''}<code>${e(x)}</code>`;
+        // Each exemplar opens in the document reader (#doc-N, N its position in input order).
+        return `<li>${at === undefined ? text : `<a href="#doc-${at}">${text}</a>`}</li>`;
       }),
       '</ol>',
     );
