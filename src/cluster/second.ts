@@ -12,7 +12,7 @@
  */
 import type { Csr } from '../types.js';
 
-/** Per row, the best and second-best group by cosine to the centres (-1 and NaN when a row has no entries or fewer groups exist). */
+/** Per row, the best and second-best group by cosine to the centres (-1 and NaN when a row has no non-zero entry or fewer groups exist). */
 export interface ClosestTwo {
   readonly best: Int32Array;
   readonly bestCosine: Float32Array;
@@ -23,7 +23,8 @@ export interface ClosestTwo {
 /**
  * Scores every row against every centre (`centroids[term * groups + g]`,
  * unit vectors, so the dot product is the cosine) and keeps the two highest.
- * Ties go to the lower group number. Rows without entries get -1 / NaN.
+ * Ties go to the lower group number. Rows without entries (or with only
+ * stored zeros) get -1 / NaN.
  * O(nnz · groups) time, O(groups) scratch allocated once.
  */
 export function closestTwo(matrix: Csr, centroids: Float32Array, groups: number): ClosestTwo {
@@ -39,7 +40,10 @@ export function closestTwo(matrix: Csr, centroids: Float32Array, groups: number)
   for (let r = 0; r < rows; r++) {
     const start = indptr[r]!;
     const end = indptr[r + 1]!;
-    if (end === start || groups === 0) continue;
+    if (groups === 0) continue;
+    let any = false;
+    for (let p = start; p < end && !any; p++) any = values[p] !== 0;
+    if (!any) continue; // no entry, or only stored zeros (a projected row with no known term)
     score.fill(0);
     for (let p = start; p < end; p++) {
       const base = indices[p]! * groups;

@@ -7,6 +7,7 @@
  * @module
  */
 import type { Csr } from '../types.js';
+import { closestTwo } from '../cluster/second.js';
 import { UsageError } from '../util/errors.js';
 
 /** Best and second group of each row, with their fits (cosines to the unit centres). */
@@ -24,57 +25,20 @@ export interface BestTwo {
 /**
  * Scores every row of `matrix` against every unit centre (term-major
  * `centroids[term * groups + g]`) and keeps the best two. Ties go to the lower
- * group number, as k-means' own scoring does. One score buffer for all rows.
+ * group number, as k-means' own scoring does ({@link closestTwo}, the same
+ * scoring the grouping uses for `next_group`).
  */
 export function bestTwoGroups(matrix: Csr, centroids: Float32Array, groups: number): BestTwo {
   const k = groups;
   if (!Number.isInteger(k) || k < 1) throw new RangeError(`groups must be a whole number >= 1; got ${k}`);
   if (centroids.length !== matrix.cols * k) throw new RangeError(`centroids hold ${centroids.length} values; ${matrix.cols} × ${k} needed`);
-  const n = matrix.rows;
-  const best = new Int32Array(n);
-  const bestFit = new Float32Array(n);
-  const second = new Int32Array(n);
-  const secondFit = new Float32Array(n);
-  const { indptr, indices, values } = matrix;
-  const scores = new Float64Array(k);
-  for (let i = 0; i < n; i++) {
-    const start = indptr[i]!;
-    const end = indptr[i + 1]!;
-    let any = false;
-    for (let j = start; j < end; j++) if (values[j] !== 0) any = true;
-    if (!any) {
-      best[i] = -1;
-      second[i] = -1;
-      continue;
-    }
-    scores.fill(0);
-    for (let j = start; j < end; j++) {
-      const v = values[j]!;
-      const base = indices[j]! * k;
-      for (let g = 0; g < k; g++) scores[g]! += v * centroids[base + g]!;
-    }
-    let b = -1;
-    let bs = -Infinity;
-    let s = -1;
-    let ss = -Infinity;
-    for (let g = 0; g < k; g++) {
-      const v = scores[g]!;
-      if (v > bs) {
-        s = b;
-        ss = bs;
-        b = g;
-        bs = v;
-      } else if (v > ss) {
-        s = g;
-        ss = v;
-      }
-    }
-    best[i] = b;
-    bestFit[i] = bs;
-    second[i] = s;
-    secondFit[i] = s >= 0 ? ss : 0;
+  // The scoring is the grouping's own (cluster/second.ts); filing reports 0, not NaN, where there is no group.
+  const two = closestTwo(matrix, centroids, k);
+  for (let i = 0; i < matrix.rows; i++) {
+    if (two.best[i]! < 0) two.bestCosine[i] = 0;
+    if (two.second[i]! < 0) two.secondCosine[i] = 0;
   }
-  return { best, bestFit, second, secondFit };
+  return { best: two.best, bestFit: two.bestCosine, second: two.second, secondFit: two.secondCosine };
 }
 
 /** How the per-group novelty thresholds are drawn from the training fits. */
