@@ -16,6 +16,7 @@ import type { Doc } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
 import { chooseColumns, tableHeader } from '../ingest/table.js';
 import { sniffDelimiter } from '../ingest/csv.js';
+import { CSV_DIALECT } from '../ingest/csv-records.js';
 import { firstLine, normalizeNewlines } from '../ingest/text.js';
 import { hasFirstLine, peekText } from '../ingest/peek.js';
 
@@ -64,17 +65,7 @@ export async function* csvRows(chunks: AsyncIterable<string>, name: string, kind
     chunks = peeked.all;
     delimiter = sniffDelimiter(peeked.head.replace(/^\s+/, ''));
   }
-  const csvOptions: Options = {
-    delimiter,
-    quote: '"',
-    escape: '"',
-    record_delimiter: ['\r\n', '\n', '\r'],
-    relax_column_count: true,
-    relax_quotes: true,
-    skip_empty_lines: true,
-    bom: true,
-    max_record_size: 0,
-  };
+  const csvOptions: Options = { ...CSV_DIALECT, delimiter, skip_empty_lines: true, bom: true };
   const parser = Readable.from(chunks).pipe(parse(csvOptions));
   let textIdx: number[] | null = null;
   let idIdx = -1;

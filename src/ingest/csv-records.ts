@@ -67,21 +67,31 @@ function countCrlf(values: readonly string[]): number {
   return n;
 }
 
+/**
+ * The CSV dialect sheaf reads (RFC 4180 quoting, any line ending, ragged rows
+ * and stray quotes tolerated), shared by the whole-export reader and the
+ * streamed rows of `assign --stream`; each adds its delimiter and its own
+ * handling of empty lines, byte order marks and raw records.
+ */
+export const CSV_DIALECT = Object.freeze({
+  quote: '"',
+  escape: '"',
+  record_delimiter: ['\r\n', '\n', '\r'],
+  relax_column_count: true,
+  relax_quotes: true,
+  max_record_size: 0,
+});
+
 /** csv-parse over `chunks`, lines counted on from `progress.lastEnd`. */
 async function* parserItems(chunks: AsyncIterable<string>, delimiter: string, progress: CsvProgress, bom: boolean): AsyncGenerator<CsvItem[]> {
   const base = progress.lastEnd;
   let crlf = 0;
   const csvOptions: Options<CsvItem, unknown> = {
+    ...CSV_DIALECT,
     delimiter,
-    quote: '"',
-    escape: '"',
-    record_delimiter: ['\r\n', '\n', '\r'],
-    relax_column_count: true,
-    relax_quotes: true,
     skip_empty_lines: false,
     bom,
     raw: true,
-    max_record_size: 0,
     // Runs as each record is parsed, so the line count is current when a later record fails.
     // csv-parse counts the CR and the LF of a quoted CRLF as two lines; those CRLFs are in the values.
     // With `raw`, each record arrives as { record, raw }.
