@@ -11,6 +11,8 @@
  * @module
  */
 import type { Csr } from '../types.js';
+import { rowIsNonEmpty } from '../util/csr.js';
+import { scoreAll } from './kmeans-kernel.js';
 
 /** Per row, the best and second-best group by cosine to the centres (-1 and NaN when a row has no non-zero entry or fewer groups exist). */
 export interface ClosestTwo {
@@ -40,16 +42,9 @@ export function closestTwo(matrix: Csr, centroids: Float32Array, groups: number)
   for (let r = 0; r < rows; r++) {
     const start = indptr[r]!;
     const end = indptr[r + 1]!;
-    if (groups === 0) continue;
-    let any = false;
-    for (let p = start; p < end && !any; p++) any = values[p] !== 0;
-    if (!any) continue; // no entry, or only stored zeros (a projected row with no known term)
-    score.fill(0);
-    for (let p = start; p < end; p++) {
-      const base = indices[p]! * groups;
-      const v = values[p]!;
-      for (let g = 0; g < groups; g++) score[g] += v * centroids[base + g]!;
-    }
+    // No entry, or only stored zeros (a projected row with no known term): no group.
+    if (groups === 0 || !rowIsNonEmpty(matrix, r)) continue;
+    scoreAll(indices, values, centroids, groups, start, end, score); // k-means' own scoring kernel
     let b = 0;
     let s = -1;
     for (let g = 1; g < groups; g++) {
