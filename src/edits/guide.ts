@@ -156,7 +156,9 @@ export function guidedStart(
       slot++;
     }
   }
-  const start = bestTwoGroups(input.grouping, all, k).best;
+  const scored = bestTwoGroups(input.grouping, all, k);
+  const start = scored.best;
+  const fits = scored.bestFit; // the fits of the start assignment (moving a row below does not change them)
   const sizes = new Int32Array(k);
   for (const s of start) if (s >= 0) sizes[s]!++;
   for (let h = 0; h < g; h++) {
@@ -167,7 +169,6 @@ export function guidedStart(
     if (sizes[f]! > 0) continue;
     let worst = -1;
     let worstFit = Infinity;
-    const fits = bestTwoGroups(input.grouping, all, k).bestFit;
     for (let r = 0; r < start.length; r++) if (start[r]! >= 0 && sizes[start[r]!]! > 1 && fits[r]! < worstFit) (worst = r, (worstFit = fits[r]!));
     if (worst >= 0) {
       sizes[start[worst]!]!--;
