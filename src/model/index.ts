@@ -105,14 +105,6 @@ export interface ModelNovelty {
   readonly margin: number;
 }
 
-/**
- * Per-group default fit thresholds from the training fits (see
- * {@link calibrateThresholds}: each group's `quantile` of its members' fits
- * minus `margin`; by default the 1% quantile minus 0.01).
- */
-export function trainingFitThresholds(assignments: Int32Array, fit: Float32Array, groups: number, novelty: NoveltyOptions = DEFAULT_NOVELTY_OPTIONS): Float32Array {
-  return calibrateThresholds(assignments, fit, groups, novelty);
-}
 
 function encodeFloat32(a: Float32Array): string {
   const bytes = new Uint8Array(a.length * 4);
@@ -227,7 +219,7 @@ export interface ModelSource {
 /** Serialises a model as JSON text (deterministic for the same run). */
 export function modelToJson(src: ModelSource): string {
   const novelty = src.novelty ?? DEFAULT_NOVELTY_OPTIONS;
-  const minFit = trainingFitThresholds(src.assignments, src.fit, src.groups, novelty);
+  const minFit = calibrateThresholds(src.assignments, src.fit, src.groups, novelty);
   const doc = {
     format: 'sheaf-model',
     version: MODEL_VERSION,
@@ -433,16 +425,3 @@ export function fileWithModel(model: Model, matrix: Csr, minFit?: number): Assig
   return { assignments: two.best, fit: two.bestFit, second: two.second, secondFit: two.secondFit, unmatched };
 }
 
-/**
- * Files vectors into the model's groups: {@link fileWithModel}. `nearest` is
- * no longer used (kept so older callers compile): the best and second group
- * are scored in `./filing.ts`, with the same tie rule as k-means.
- */
-export function assignWithModel(
-  model: Model,
-  matrix: Csr,
-  _nearest?: (m: Csr, centroids: Float32Array, groups: number) => { assignments: Int32Array; fit: Float32Array },
-  minFit?: number,
-): Assignment {
-  return fileWithModel(model, matrix, minFit);
-}
