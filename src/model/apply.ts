@@ -43,7 +43,7 @@ export function applyModel(
 ): ModelApplication {
   const cleaned = cleanStage(Array.isArray(input) ? { docs: input as readonly Doc[] } : (input as DocumentInput), cleaning);
   const docs = cleaned.docs;
-  const analyzer = createAnalyzer(model.analyzer);
+  const analyzer = analyzerOf(model);
   const matrix = transformTfidf(
     (function* () {
       const step = Math.max(1, Math.floor(docs.length / 100));
@@ -66,4 +66,12 @@ export function applyModel(
     else matched[g]++;
   }
   return { ...a, docs, clean: cleaned.report, matched, nearButNew, noKnownTerms };
+}
+
+/** One analyzer per model (its stop words and stem cache built once), however many batches a stream files with it. */
+const ANALYZERS = new WeakMap<Model, ReturnType<typeof createAnalyzer>>();
+function analyzerOf(model: Model): ReturnType<typeof createAnalyzer> {
+  let a = ANALYZERS.get(model);
+  if (a === undefined) ANALYZERS.set(model, (a = createAnalyzer(model.analyzer)));
+  return a;
 }
