@@ -8,6 +8,7 @@
  *
  * @module
  */
+import { UnionFind } from '../util/union-find.js';
 import { z } from 'zod';
 import type { Csr } from '../types.js';
 import { partitionFromAssignments, type Partition } from '../cluster/partition.js';
@@ -107,8 +108,8 @@ export function applyEdits(
     return g;
   };
   // Merges: union into the lowest number.
-  const root = Int32Array.from({ length: k }, (_, g) => g);
-  const find = (g: number): number => (root[g] === g ? g : (root[g] = find(root[g]!)));
+  const sets = new UnionFind(k);
+  const find = (g: number): number => sets.find(g);
   const merged = new Uint8Array(k);
   const splitInto = new Int32Array(k);
   edits.edits.forEach((e, i) => {
@@ -123,7 +124,7 @@ export function applyEdits(
         merged[g] = 1;
         const a = find(g);
         const b = find(e.merge[0]!);
-        if (a !== b) root[Math.max(a, b)] = Math.min(a, b);
+        if (a !== b) sets.attach(Math.max(a, b), Math.min(a, b));
       }
     } else if ('split' in e) {
       known(e.split, i);
