@@ -26,6 +26,7 @@
  *
  * @module
  */
+import { zodIssueLine } from '../util/zod-issue.js';
 import { z } from 'zod';
 import type { Csr } from '../types.js';
 import type { AnalyzerSettings } from '../analyze/index.js';
@@ -291,10 +292,7 @@ export function modelFromJson(text: string, shownPath = 'model'): Model {
   if (version !== 1 && !('cleaning' in (raw as object))) throw new UsageError(`${shownPath} is damaged: cleaning: missing`, 'model');
   const parsed = modelSchema.safeParse(raw);
   if (!parsed.success) {
-    const issue = parsed.error.issues[0];
-    const where = issue.path.length ? issue.path.join('.') : '(top level)';
-    const what = issue.code === 'unrecognized_keys' ? `unexpected field(s) ${issue.keys.map((k) => JSON.stringify(k)).join(', ')}` : issue.message;
-    throw new UsageError(`${shownPath} is damaged: ${where}: ${what}`, 'model');
+    throw new UsageError(`${shownPath} is damaged: ${zodIssueLine(parsed.error)}`, 'model');
   }
   const m = parsed.data;
   const cols = m.vocabulary.terms.length;

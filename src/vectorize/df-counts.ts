@@ -15,6 +15,7 @@
  *
  * @module
  */
+import { zodIssueLine } from '../util/zod-issue.js';
 import { z } from 'zod';
 import type { AnalyzerSettings } from '../analyze/index.js';
 import { UsageError } from '../util/errors.js';
@@ -209,10 +210,7 @@ export function termCountsFromJson(text: string, shownPath = 'counts'): TermCoun
   }
   const parsed = countsSchema.safeParse(raw);
   if (!parsed.success) {
-    const issue = parsed.error.issues[0];
-    const where = issue.path.length ? issue.path.join('.') : '(top level)';
-    const what = issue.code === 'unrecognized_keys' ? `unexpected field(s) ${issue.keys.map((k) => JSON.stringify(k)).join(', ')}` : issue.message;
-    throw new UsageError(`${shownPath} is damaged: ${where}: ${what}`, 'termCounts');
+    throw new UsageError(`${shownPath} is damaged: ${zodIssueLine(parsed.error)}`, 'termCounts');
   }
   const m = parsed.data;
   const fail = (why: string): never => {
