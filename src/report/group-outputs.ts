@@ -19,7 +19,7 @@ import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks
 import { renderReport } from './html.js';
 import { reportFromRun, type ReportContext } from './report-from-run.js';
 import type { TrendsInput } from './report-extras.js';
-import { csvChunks, withCsvBom } from './csv.js';
+import { csvText, withCsvBom } from './csv.js';
 import { trendRows } from '../trends/index.js';
 
 /** Near-copies found in the run's own vectors, and at which threshold. */
@@ -71,7 +71,7 @@ export function groupOutputs(result: GroupResult, options: GroupOutputOptions): 
         ),
       );
     }
-    if (options.trends) files.set('trends.csv', [...csvChunks(['group', 'period', 'count'], trendRows(options.trends.trends, result.partition.groups))].join(''));
+    if (options.trends) files.set('trends.csv', csvText(['group', 'period', 'count'], trendRows(options.trends.trends, result.partition.groups)));
   } else {
     files.set('tree.json', jsonText({ tree: groupsDoc.tree, groups: groupsDoc.groups.map((g) => ({ id: g.id, label: g.label, size: g.size })) }));
   }
