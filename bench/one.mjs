@@ -45,6 +45,9 @@ const minDf = Number(opt('--min-df', '2'));
 const pairsFile = opt('--pairs', null);
 const kernelDump = opt('--kernel-dump', null);
 const kernelPasses = Number(opt('--kernel-passes', '5'));
+// Threads for the pipeline's heavy steps, as the CLI runs them (its `--threads`; run.mjs passes its own): with 1 (default) the
+// synchronous groupDocuments runs on this thread; above 1 groupDocumentsAsync with the library's thread runners.
+const threads = Number(opt('--threads', '1'));
 if (!input || !outJson) {
   console.error('usage: node --expose-gc bench/one.mjs --input FILE --out-json FILE [--k 100] [--threshold 0.9] [--min-df 2]');
   process.exit(2);
@@ -52,6 +55,13 @@ if (!input || !outJson) {
 if (typeof globalThis.gc !== 'function') {
   console.error('bench/one.mjs needs node --expose-gc');
   process.exit(2);
+}
+
+/** The runners the CLI's group command hands the pipeline (every runner the library exports). */
+function pipelineRunners(n) {
+  const r = { kmeans: sheaf.kmeansRunner(n), vectorize: sheaf.vectorizeRunner(n) };
+  if (typeof sheaf.reduceRunner === 'function') r.reduce = sheaf.reduceRunner(n);
+  return r;
 }
 
 // ---------- memory probes (harness time is kept out of every timing) ----------
@@ -118,7 +128,7 @@ function harness(fn) {
 }
 
 const stages = [];
-const settings = { k, threshold, minDf, srcTree: process.env.SHEAF_SRC_TREE ?? 'worktree' };
+const settings = { k, threshold, minDf, threads, srcTree: process.env.SHEAF_SRC_TREE ?? 'worktree' };
 /** Progress so far, so a run that is stopped (time limit, out of memory) still tells what it reached. */
 function writePartial(running) {
   writeFileSync(outJson, JSON.stringify({ input: path.basename(input), settings, partial: true, running, stages, windows: typeof windows === 'undefined' ? [] : windows }, null, 2) + '\n');
@@ -195,7 +205,8 @@ const gStart = harness(() => {
 const gC0 = cpuMs();
 const gH0 = harnessCpu;
 const gT0 = clock();
-const result = sheaf.groupDocuments(docs, groupOptions, { now: hookNow });
+const runners = threads > 1 ? pipelineRunners(threads) : null;
+const result = runners ? await sheaf.groupDocumentsAsync(docs, groupOptions, runners, { now: hookNow }) : sheaf.groupDocuments(docs, groupOptions, { now: hookNow });
 const gMs = clock() - gT0;
 const gCpu = cpuMs() - gC0 - (harnessCpu - gH0);
 const gLastPeak = harness(() => peakBytes());

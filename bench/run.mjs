@@ -7,11 +7,17 @@
 //   --min-df 2           vocabulary minDf, for ours and the peer alike
 //   --seed 7             generator seed
 //   --peer               also run bench/peer.py (scikit-learn) on the same inputs
-//   --peer-max 100k      largest synthetic size the peer runs on (its pair join is quadratic)
+//   --peer-max 1m        largest synthetic size the peer runs on
+//   --peer-pair-share-from 200k, --peer-pair-share 0.02
+//                        above that size the peer's pair join (quadratic: ~2 h at 1M) computes every
+//                        round(1/share)-th block and its time is divided by the exact share of the
+//                        row-pair products those blocks hold (the table marks it as scaled)
 //   --peer-threads N     limit the peer's thread pools (default: its own default)
+//   --threads N          our threads (default: up to 2, as the CLI's group command)
 //   --n-init 3           the peer's KMeans n_init (issue #16 measured with 3)
 //   --no-dups            skip the `sheaf duplicates` side by side (CLI end to end vs
 //                        bench/peer-duplicates.py, pair sets compared)
+//   --dups-peer-max 100k largest size the duplicates side by side runs the peer on (whole quadratic product, twice)
 //   --no-spam            skip the SpamAssassin corpus
 //   --no-kernel          skip the C kernel baseline
 //   --no-build           do not run `npm run build` first
@@ -63,10 +69,17 @@ const T = Number(opt('--threshold', '0.9'));
 const MIN_DF = Number(opt('--min-df', '2'));
 const SEED = Number(opt('--seed', '7'));
 const PEER = has('--peer');
-const PEER_MAX = parseSize(opt('--peer-max', '100k'));
+const PEER_MAX = parseSize(opt('--peer-max', '1m'));
+// Above this size the peer's quadratic pair join runs on a share of its blocks and its time is scaled up (peer.py --pair-share).
+const PAIR_SHARE_FROM = parseSize(opt('--peer-pair-share-from', '200k'));
+const PAIR_SHARE = Number(opt('--peer-pair-share', '0.02'));
 const PEER_THREADS = Number(opt('--peer-threads', '0'));
+// Our threads, as the CLI's group command picks them by default: up to 2, the cores there are.
+const THREADS = Number(opt('--threads', String(Math.min(2, os.availableParallelism()))));
 const N_INIT = Number(opt('--n-init', '3'));
 const DUPS = !has('--no-dups');
+// The duplicates side by side runs the peer's whole quadratic product (and again on our vectors): only up to this size.
+const DUPS_PEER_MAX = parseSize(opt('--dups-peer-max', '100k'));
 const SPAM = !has('--no-spam');
 const KERNEL = !has('--no-kernel');
 const resultsFile = path.resolve(opt('--results', path.join(here, 'results.md')));
@@ -195,7 +208,7 @@ const peers = new Map();
 const kernels = new Map();
 const failures = [];
 
-const sameSettings = (j) => REUSE && srcTree && j?.settings && j.settings.srcTree === srcTree && j.settings.k === K && j.settings.threshold === T && j.settings.minDf === MIN_DF && !j.partial;
+const sameSettings = (j) => REUSE && srcTree && j?.settings && j.settings.srcTree === srcTree && j.settings.k === K && j.settings.threshold === T && j.settings.minDf === MIN_DF && (j.settings.threads ?? 1) === THREADS && !j.partial;
 const reused = [];
 /** Our run on one input (bench/one.mjs in a child). */
 async function runOurs(inp) {
@@ -212,7 +225,7 @@ async function runOurs(inp) {
     }
   }
   rmSync(json, { force: true });
-  const args = ['--expose-gc', path.join(here, 'one.mjs'), '--input', inp.file, '--out-json', json, '--k', String(K), '--threshold', String(T), '--min-df', String(MIN_DF)];
+  const args = ['--expose-gc', path.join(here, 'one.mjs'), '--input', inp.file, '--out-json', json, '--k', String(K), '--threshold', String(T), '--min-df', String(MIN_DF), '--threads', String(THREADS)];
   if (inp.pairs) args.push('--pairs', inp.pairs);
   if (KERNEL) args.push('--kernel-dump', dump);
   log(`bench: ours on ${inp.name}`);
@@ -266,6 +279,7 @@ async function runPeer(inp) {
     const args = [path.join(here, 'peer.py'), '--input', inp.file, '--k', String(K), '--threshold', String(T), '--min-df', String(MIN_DF), '--n-init', String(N_INIT), '--out-json', json];
     if (inp.pairs) args.push('--pairs', inp.pairs);
     if (PEER_THREADS > 0) args.push('--threads', String(PEER_THREADS));
+    if (inp.n > PAIR_SHARE_FROM) args.push('--pair-share', String(PAIR_SHARE));
     log(`bench: peer on ${inp.name}`);
     const r = await runChild(PYTHON, args, env, `peer ${inp.name}`);
     if (r.code !== 0 || !existsSync(json) || JSON.parse(readFileSync(json, 'utf8')).partial) {
@@ -346,7 +360,7 @@ async function runDuplicates(inp, peerFirst) {
   mkdirSync(dir, { recursive: true });
   const cli = childEnv.SHEAF_DIST ? path.join(path.dirname(childEnv.SHEAF_DIST), 'cli', 'main.js') : path.join(root, 'dist', 'cli', 'main.js');
   const oursArgs = [cli, 'duplicates', inp.file, '--text', 'text', '--id', 'id', '--threshold', String(T), '--min-df', String(MIN_DF), '--quiet'];
-  const withPeer = PEER && !(inp.synthetic && inp.n > PEER_MAX);
+  const withPeer = PEER && !(inp.synthetic && inp.n > Math.min(PEER_MAX, DUPS_PEER_MAX));
   const res = { ours: null, peer: null, exact: null, vsPeer: null };
   const runO = async () => {
     log(`bench: sheaf duplicates on ${inp.name}`);
@@ -532,7 +546,8 @@ if (anyPeer) {
   say(`- peer: Python ${v.python}, scikit-learn ${v.sklearn}, scipy ${v.scipy}, numpy ${v.numpy}; thread pools: ${anyPeer.threads.map((t) => `${t.internal_api} ${t.num_threads} thread(s)`).join(', ')}${anyPeer.threadLimit ? ` (limited to ${anyPeer.threadLimit})` : ''}`);
 }
 const loads = [...ours.values(), ...peers.values()].map((r) => r.load).flat();
-say(`- Load average (1 min) seen at the start/end of the runs: ${f2(Math.min(...loads))}–${f2(Math.max(...loads))}. The machine is shared with other work; wall times under load above ~1 are inflated, so CPU times are listed too (our stages are single-threaded: CPU ≈ wall when the process has a core to itself).`);
+say(`- Load average (1 min) seen at the start/end of the runs: ${f2(Math.min(...loads))}–${f2(Math.max(...loads))}. The machine is shared with other work; wall times under load above ~1 are inflated, so CPU times are listed too (summed over threads on both sides).`);
+say(`- Threads: ours ${THREADS} (\`--threads\`; the CLI's default is up to 2, the cores there are): analysis and k-means run on the library's thread runners from their size thresholds${THREADS > 1 ? '' : ' — here one thread, the synchronous groupDocuments'}; reading, cleaning, near-duplicates and writing run on one thread.`);
 say(`- Settings: k = ${K}, near-duplicate threshold ${T}, minDf ${MIN_DF}, k-means restarts and iteration cap at the library defaults, generator seed ${SEED}.`);
 say(`- Memory probe: ${ours.size ? [...ours.values()][0].memoryProbe : '–'}. Peak RSS of a stage includes everything still held from earlier stages (the documents, the matrix); "start" is the RSS after a full GC when the stage began.`);
 say();
@@ -676,7 +691,7 @@ if (synthNames.length >= 1) {
 if (peers.size) {
   say('## Side by side: scikit-learn pipeline (bench/peer.py)');
   say();
-  say(`Same CSV, same k, same threshold, same minDf. The peer: \`TfidfVectorizer(sublinear_tf=True, stop_words="english", min_df)\`, \`KMeans(n_clusters=k, n_init=${N_INIT}, max_iter=100, random_state=0)\` on the L2 rows, pairs ≥ t from \`X[i:i+2000] @ X[i:].T\` (upper triangle) and connected components, then a CSV + JSON written with the csv/json modules. What differs, as a scripting user would leave it: no stemming (ours stems), scikit-learn's 318-word stop list (ours 108), its token pattern (digits kept), float64 matrix (ours float32), Euclidean k-means on unit rows with centre-shift tolerance 1e-4 (ours spherical, until no assignment changes), OpenMP threads for k-means (ours one thread), no reduced vectors (ours forms its groups on reduced rows when \`reduce\` is \`auto\`, the default: its \`reduce\` (truncated SVD) row and its \`clean\` row have no peer row but count in our total), and no tree / quality / label stages (ours has them; they are left out of the matched total).`);
+  say(`Same CSV, same k, same threshold, same minDf. The peer: \`TfidfVectorizer(sublinear_tf=True, stop_words="english", min_df)\`, \`KMeans(n_clusters=k, n_init=${N_INIT}, max_iter=100, random_state=0)\` on the L2 rows (from 200k rows, where ours switches to mini-batch steps, \`MiniBatchKMeans(n_clusters=k, n_init=${N_INIT}, batch_size=4096, random_state=0)\`, as a user with that many rows would), pairs ≥ t from \`X[i:i+2000] @ X[i:].T\` (upper triangle; fewer rows per block above 100k) and connected components (above ${sizeName(PAIR_SHARE_FROM)} rows only every ${Math.round(1 / PAIR_SHARE)}th block is computed, ${f1(100 * PAIR_SHARE)}% of the blocks, and the stage time is the measured time divided by the exact share of row-pair products those blocks hold: marked ≈, a scaled figure, not a whole run), then a CSV + JSON written with the csv/json modules. What differs, as a scripting user would leave it: no stemming (ours stems), scikit-learn's 318-word stop list (ours 495 surface forms), its token pattern (digits kept), float64 matrix (ours float32), Euclidean k-means on unit rows with centre-shift tolerance 1e-4 (ours spherical, until no assignment changes), OpenMP threads for k-means (ours: the thread count above), no reduced vectors (ours forms its groups on reduced rows when \`reduce\` is \`auto\`, the default: its \`reduce\` (truncated SVD) row and its \`clean\` row have no peer row but count in our total), and no tree / quality / label stages (ours has them; they are left out of the matched total).`);
   say();
   say('Ratios are peer / ours: above 1 means ours is faster (time) or smaller (RSS). CPU time is summed over threads (the peer\'s k-means and sparse products may use two); on a loaded machine it is the steadier measure.');
   say();
@@ -707,7 +722,8 @@ if (peers.size) {
       pSum += q.ms;
       oCpu += o.cpuMs ?? NaN;
       pCpu += q.cpuMs ?? NaN;
-      rows.push([st, sec(o.ms), sec(q.ms), f2(q.ms / o.ms) + '×', sec(o.cpuMs), sec(q.cpuMs), f2(q.cpuMs / o.cpuMs) + '×', mb(o.peakRss), mb(q.peakRss), f2(q.peakRss / o.peakRss) + '×']);
+      const scaled = q.extrapolated ? ` (scaled from ${f0(q.extrapolated.blocks)} of ${f0(q.extrapolated.of)} blocks, ${f1(100 * q.extrapolated.share)}% of the products: ${sec(q.measuredMs)})` : '';
+      rows.push([st, sec(o.ms), `${q.extrapolated ? '≈ ' : ''}${sec(q.ms)}${scaled}`, f2(q.ms / o.ms) + '×', sec(o.cpuMs), sec(q.cpuMs), f2(q.cpuMs / o.cpuMs) + '×', mb(o.peakRss), mb(q.peakRss), f2(q.peakRss / o.peakRss) + '×']);
     }
     rows.push(['**matched stages**', `**${sec(oSum)}**`, `**${sec(pSum)}**`, `**${f2(pSum / oSum)}×**`, sec(oCpu), sec(pCpu), f2(pCpu / oCpu) + '×', mb(r.peakRss), mb(p.peakRss), `**${f2(p.peakRss / r.peakRss)}×**`]);
     const e = endToEnd(r);
@@ -715,7 +731,7 @@ if (peers.size) {
     say(table(['stage', 'ours wall', 'peer wall', 'wall peer / ours', 'ours CPU', 'peer CPU', 'CPU peer / ours', 'ours peak MB', 'peer peak MB', 'RSS peer / ours'], rows));
     say();
     verdicts.push(`${nm}: time ${f2(pSum / oSum)}× (target ≥ 5: ${pSum / oSum >= 5 ? 'met' : 'not met'}; CPU ${f2(pCpu / oCpu)}×), peak memory ${f2(p.peakRss / r.peakRss)}× (target ≥ 3: ${p.peakRss / r.peakRss >= 3 ? 'met' : 'not met'}), NMI ${f3(r.nmi)} vs ${f3(p.nmi)} (${r.nmi >= p.nmi ? 'equal or better' : 'lower'})`);
-    say(`NMI vs planted ${nm.startsWith('synth') ? 'topics' : 'classes'}: ours **${f3(r.nmi)}**, peer **${f3(p.nmi)}**. Terms: ours ${f0(r.terms)}, peer ${f0(p.terms)}. k-means passes: ours ${r.kmeans?.iterations} (kept restart), peer ${p.kmeans.iterations} (best init). Near-duplicate pairs: ours ${f0(r.duplicates.pairs)}, peer ${f0(p.duplicates.pairs)}${r.planted && p.planted ? `; planted pairs found: ours ${f1(100 * r.planted.recall)}%, peer ${f1(100 * p.planted.recall)}%` : ''}.`);
+    say(`NMI vs planted ${nm.startsWith('synth') ? 'topics' : 'classes'}: ours **${f3(r.nmi)}**, peer **${f3(p.nmi)}**. Terms: ours ${f0(r.terms)}, peer ${f0(p.terms)}. k-means: ours ${r.kmeans?.miniBatch ? `mini-batch, ${r.kmeans?.batches} steps then ${r.kmeans?.iterations} full pass(es)` : `${r.kmeans?.iterations} passes (kept restart)`}, peer ${p.kmeans.method ?? 'KMeans(lloyd)'} ${p.kmeans.steps ? `${p.kmeans.steps} steps` : `${p.kmeans.iterations} passes`} (best init). Near-duplicate pairs: ours ${f0(r.duplicates.pairs)}, peer ${f0(p.duplicates.pairs)}${p.pairShare && p.pairShare < 1 ? ' (the peer\'s from its share of the blocks only)' : ''}${r.planted && p.planted ? `; planted pairs found: ours ${f1(100 * r.planted.recall)}%, peer ${f1(100 * p.planted.recall)}%` : ''}.`);
     say();
   }
   for (const f of failures) {
