@@ -14,8 +14,11 @@ import { describe, expect, it, beforeAll } from 'vitest';
 import { readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { parse } from 'csv-parse/sync';
+import { Readable } from 'node:stream';
+import fc from 'fast-check';
 import { sheaf, tempDir } from './helpers/cli.js';
 import { streamDocuments } from '../src/cli/assign-stream.js';
+import { JSON_INDEX_ROWS } from '../src/cli/stream-rows.js';
 import { ingest, resolveIngestOptions, type IngestOptions } from '../src/ingest/index.js';
 import type { Doc } from '../src/types.js';
 
@@ -72,11 +75,31 @@ function expectSameId(streamId: string, batchId: string, seenBefore: ReadonlySet
   expect(batchId).toMatch(new RegExp(`^${streamId.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}~\\d+$`));
 }
 
-async function streamed(file: string, options: Partial<IngestOptions>, cwd: string): Promise<Doc[]> {
-  const s = await streamDocuments([file], resolveIngestOptions(options), { cwd, env: {}, stdout: { write: () => true }, stderr: { write: () => true } });
+async function streamed(file: string, options: Partial<IngestOptions>, cwd: string, stdin?: Readable): Promise<Doc[]> {
+  const io = { cwd, env: {}, stdout: { write: () => true }, stderr: { write: () => true }, ...(stdin ? { stdin } : {}) };
+  const s = await streamDocuments([file], resolveIngestOptions(options), io);
   const out: Doc[] = [];
   for await (const d of s.docs) out.push(d);
   return out;
+}
+
+/** Text cut into pieces at the given places, as a stdin of byte chunks (cuts may fall inside a character). */
+function chunked(text: string, cuts: readonly number[]): Readable {
+  const bytes = Buffer.from(text, 'utf8');
+  const at = [...new Set([0, ...cuts.map((c) => c % (bytes.length + 1)), bytes.length])].sort((a, b) => a - b);
+  const parts: Buffer[] = [];
+  for (let i = 0; i + 1 < at.length; i++) parts.push(bytes.subarray(at[i], at[i + 1]));
+  return Readable.from(parts);
+}
+
+/** Both readers over the same text on stdin: the stream's documents and ingest's, or the one-line error of each. */
+async function bothReaders(text: string, cuts: readonly number[], options: Partial<IngestOptions>): Promise<{ stream: Doc[] | string; batch: Doc[] | string }> {
+  const cwd = process.cwd();
+  const stream = await streamed('-', options, cwd, chunked(text, cuts)).catch((e: Error) => e.message);
+  const batch = await ingest(['-'], options, { cwd, stdin: chunked(text, cuts) })
+    .then((r) => r.docs)
+    .catch((e: Error) => e.message);
+  return { stream, batch };
 }
 
 /** Compares the documents of the two readers row by row. */
@@ -127,6 +150,54 @@ describe('assign --stream reads rows as the whole-export readers do', () => {
     expect(docs[2]!.title).toBe('Guests at the lake cottage report that the heating, the hot water, the sauna stove and the outdoor lights all failed on…');
     // Row numbers count rows only: the last CSV row is row 7 whatever lines of spaces stand before it.
     expect(docs.map((d) => d.id)).toEqual(['T1', '2', 'T3', 'T1', '5', '6', '7']);
+  });
+
+  it('gives the same documents as ingest on random exports with odd lines, line ends and chunk cuts (fast-check)', async () => {
+    const cellChar = fc.constantFrom('a', 'b', 'é', ' ', '"', ',', '\n', '\r', '\t', '\u00a0');
+    const cell = fc.oneof(fc.string({ unit: cellChar, maxLength: 12 }), fc.string({ unit: cellChar, minLength: 130, maxLength: 200 }));
+    const id = fc.constantFrom('', 'k1', 'k2', 'k2~2', ' k3 ');
+    const between = fc.constantFrom('', '   ', ' \t ', null, null, null);
+    const cuts = fc.array(fc.nat(), { maxLength: 6 });
+    const csvRow = fc.record({ id, title: cell, body: cell, gap: between });
+    await fc.assert(
+      fc.asyncProperty(fc.array(csvRow, { minLength: 1, maxLength: 12 }), fc.constantFrom('\n', '\r\n'), fc.boolean(), cuts, async (rs, eol, bom, cs) => {
+        const field = (v: string) => (/[",\r\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
+        let text = (bom ? '\uFEFF' : '') + 'id,title,body' + eol;
+        for (const r of rs) text += (r.gap === null ? '' : r.gap + eol) + [r.id, r.title, r.body].map(field).join(',') + eol;
+        const { stream, batch } = await bothReaders(text, cs, { text: ['body'], id: 'id' });
+        expect(typeof stream).toBe(typeof batch);
+        if (typeof batch === 'string') expect(stream).toBe(batch);
+        else compareDocs(stream as Doc[], batch);
+      }),
+      { numRuns: 40, seed: 23 },
+    );
+    const jsonRow = fc.record(
+      { id: fc.oneof(id, fc.constant(null), fc.integer()), subject: cell, body: cell, comments: fc.array(fc.record({ body: cell }, { requiredKeys: [] }), { maxLength: 3 }), gap: between },
+      { requiredKeys: ['gap'] },
+    );
+    await fc.assert(
+      fc.asyncProperty(fc.array(jsonRow, { minLength: 1, maxLength: 12 }), fc.constantFrom('\n', '\r\n'), fc.boolean(), cuts, async (rs, eol, bom, cs) => {
+        let text = bom ? '\uFEFF' : '';
+        for (const { gap, ...o } of rs) text += (gap === null ? '' : gap + eol) + JSON.stringify(o) + eol;
+        const { stream, batch } = await bothReaders(text, cs, { text: ['body', 'comments[].body'], id: 'id' });
+        expect(typeof stream).toBe(typeof batch);
+        if (typeof batch === 'string') expect(stream).toBe(batch);
+        else compareDocs(stream as Doc[], batch);
+      }),
+      { numRuns: 40, seed: 29 },
+    );
+  });
+
+  it(`chooses JSON Lines columns from the first ${JSON_INDEX_ROWS} rows, and hands on more rows than a batch`, async () => {
+    const many = Array.from({ length: JSON_INDEX_ROWS + 300 }, (_, i) => JSON.stringify(i === 0 ? { body: 'first', comments: [] } : { body: `row ${i}`, comments: [{ body: `note ${i}` }] })).join('\n');
+    const { stream, batch } = await bothReaders(many, [4096, 9000], { text: ['body', 'comments[].body'] });
+    expect((stream as Doc[]).length).toBe(JSON_INDEX_ROWS + 300);
+    compareDocs(stream as Doc[], batch as Doc[]);
+    // A path first seen after those rows: the whole-export reader finds it, the stream says it has no such column.
+    const late = many + '\n' + JSON.stringify({ body: 'last', late: 'x' });
+    const both = await bothReaders(late, [], { text: ['late'] });
+    expect((both.batch as Doc[]).at(-1)?.text).toBe('x');
+    expect(both.stream).toBe('stdin has no column "late" for --text; its columns are: body, comments, comments[].body');
   });
 
   it('writes the ids, groups and fits of the folder assign, and its ids join back to the rows assigned.csv repeats', async () => {
