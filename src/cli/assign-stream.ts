@@ -132,7 +132,10 @@ export interface StreamedDocuments {
 /**
  * Opens every input (files, or `-` for stdin; folders refused) and checks its
  * kind before anything is read, then yields their rows as documents, input
- * after input, texts cut to `maxBytes` as the whole-pile readers cut them.
+ * after input: each row read by the whole-export readers' per-row code (see
+ * `stream-rows.ts`), so it has the id, title, text and fields `sheaf group`
+ * gives it (a repeated id kept as given), texts cut to `maxBytes` as the
+ * whole-pile readers cut them. Memory holds one batch of rows at a time.
  */
 export async function streamDocuments(inputs: readonly string[], ingestOptions: IngestOptions, io: CliIo): Promise<StreamedDocuments> {
   if (inputs.filter((i) => i === '-').length > 1) throw new UsageError('stdin (-) can be read once', 'inputs');
