@@ -200,6 +200,40 @@ describe('assign --stream reads rows as the whole-export readers do', () => {
     expect(both.stream).toBe('stdin has no column "late" for --text; its columns are: body, comments, comments[].body');
   });
 
+  it('reads as it goes: the first document comes after a few chunks of a long input, not after the whole of it', async () => {
+    const CHUNKS = 1000;
+    const ROWS = 20;
+    for (const kind of ['csv', 'jsonl'] as const) {
+      let pulled = 0;
+      async function* source(): AsyncGenerator<Buffer> {
+        if (kind === 'csv') yield Buffer.from('id,body\n');
+        for (let c = 0; c < CHUNKS; c++) {
+          pulled++;
+          let text = '';
+          for (let r = 0; r < ROWS; r++) {
+            const i = c * ROWS + r;
+            text += kind === 'csv' ? `r${i},water pump broken in cottage ${i}\n  \n` : JSON.stringify({ id: `r${i}`, body: `water pump broken in cottage ${i}` }) + '\n \n';
+          }
+          yield Buffer.from(text);
+        }
+      }
+      const s = await streamDocuments(['-'], resolveIngestOptions({ text: ['body'], id: 'id' }), {
+        cwd: process.cwd(), env: {}, stdout: { write: () => true }, stderr: { write: () => true }, stdin: Readable.from(source()),
+      });
+      let n = 0;
+      let pulledAtFirst = -1;
+      for await (const d of s.docs) {
+        if (n === 0) pulledAtFirst = pulled;
+        expect(d.id).toBe(`r${n}`);
+        n++;
+      }
+      expect(n).toBe(CHUNKS * ROWS);
+      // CSV: one chunk of records; JSON Lines: the rows its columns are chosen from. Stream buffers add a few more.
+      expect(pulledAtFirst).toBeGreaterThan(0);
+      expect(pulledAtFirst).toBeLessThan((kind === 'csv' ? 1 : JSON_INDEX_ROWS / ROWS) + 40);
+    }
+  });
+
   it('writes the ids, groups and fits of the folder assign, and its ids join back to the rows assigned.csv repeats', async () => {
     for (const c of cases) {
       const s = await sheaf(['assign', c.file, '--model', model, ...c.flags, '--clean', 'none', '--stream', 'csv', '--quiet'], { cwd: dir });
