@@ -19,7 +19,7 @@ import { loadModel } from './model-path.js';
 import { csvRows, jsonlRows, type StreamKind, type StreamRowOptions } from './stream-rows.js';
 import { decodeStream } from '../ingest/decode.js';
 import { peekText, firstSignificant } from '../ingest/peek.js';
-import { truncateUtf8, type IngestOptions } from '../ingest/index.js';
+import { EXPORT_EXTENSIONS, truncateUtf8, type IngestOptions } from '../ingest/index.js';
 import { ASSIGNED_ROW_FORMATS, assignBatchText, assignedRowsHeader, streamCleaning, type AssignedRowFormat } from '../report/assigned-rows.js';
 import type { Doc } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
@@ -85,16 +85,26 @@ class Output {
   }
 }
 
-/** Which reader an input gets: `--format`, else its extension, else (stdin) its first character. */
+/** The export kinds a stream reads, and the extensions that stand for them (from the readers' own table). */
+const STREAMED: ReadonlySet<string> = new Set<StreamKind>(['csv', 'tsv', 'jsonl']);
+const STREAMED_EXTENSIONS: readonly string[] = [...EXPORT_EXTENSIONS].filter(([, as]) => STREAMED.has(as)).map(([ext]) => ext);
+
+/** Why a JSON array cannot be streamed, after `--stream reads …; <input> `. */
+const JSON_ARRAY = 'a JSON array, which is read whole (write it as JSON Lines, one object per line)';
+
+/**
+ * Which reader an input gets: `--format`, else its extension (as the
+ * whole-export readers map extensions, {@link EXPORT_EXTENSIONS}), else
+ * (stdin, `null`) its first character.
+ */
 function kindFromName(input: string, format: string): StreamKind | null {
-  if (format === 'csv' || format === 'tsv' || format === 'jsonl') return format;
+  if (STREAMED.has(format)) return format as StreamKind;
   if (format !== 'auto') throw new UsageError(`--stream reads csv, tsv or jsonl; got --format ${format}`, 'format');
-  const ext = path.extname(input).toLowerCase();
-  if (ext === '.csv') return 'csv';
-  if (ext === '.tsv' || ext === '.tab') return 'tsv';
-  if (ext === '.jsonl' || ext === '.ndjson') return 'jsonl';
   if (input === '-') return null;
-  throw new UsageError(`--stream reads CSV, TSV or JSON Lines exports; ${input} is none of .csv, .tsv, .jsonl (name one with --format)`, 'format');
+  const as = EXPORT_EXTENSIONS.get(path.extname(input).toLowerCase());
+  if (as !== undefined && STREAMED.has(as)) return as as StreamKind;
+  const why = as === 'json' ? `is ${JSON_ARRAY}` : `is none of ${STREAMED_EXTENSIONS.join(', ')} (name one with --format)`;
+  throw new UsageError(`--stream reads CSV, TSV or JSON Lines exports; ${input} ${why}`, 'format');
 }
 
 async function openInput(input: string, io: CliIo): Promise<Readable> {
@@ -122,7 +132,10 @@ export interface StreamedDocuments {
 /**
  * Opens every input (files, or `-` for stdin; folders refused) and checks its
  * kind before anything is read, then yields their rows as documents, input
- * after input, texts cut to `maxBytes` as the whole-pile readers cut them.
+ * after input: each row read by the whole-export readers' per-row code (see
+ * `stream-rows.ts`), so it has the id, title, text and fields `sheaf group`
+ * gives it (a repeated id kept as given), texts cut to `maxBytes` as the
+ * whole-pile readers cut them. Memory holds one batch of rows at a time.
  */
 export async function streamDocuments(inputs: readonly string[], ingestOptions: IngestOptions, io: CliIo): Promise<StreamedDocuments> {
   if (inputs.filter((i) => i === '-').length > 1) throw new UsageError('stdin (-) can be read once', 'inputs');
@@ -139,13 +152,17 @@ export async function streamDocuments(inputs: readonly string[], ingestOptions: 
       if (kind === null) {
         const peeked = await peekText(chunks, (head) => firstSignificant(head) !== '' || head.length > 4096);
         chunks = peeked.all;
-        kind = firstSignificant(peeked.head) === '{' ? 'jsonl' : 'csv';
+        const first = firstSignificant(peeked.head);
+        if (first === '[') throw new UsageError(`--stream reads CSV, TSV or JSON Lines exports; ${name} holds ${JSON_ARRAY}`, 'format');
+        kind = first === '{' ? 'jsonl' : 'csv';
       }
-      const docs = kind === 'jsonl' ? jsonlRows(chunks, name, rowOptions) : csvRows(chunks, name, kind, rowOptions);
-      for await (const d of docs) {
-        const t = truncateUtf8(d.text, ingestOptions.maxBytes);
-        if (t) cut++;
-        yield t ? { ...d, text: t.text } : d;
+      const batches = kind === 'jsonl' ? jsonlRows(chunks, name, rowOptions) : csvRows(chunks, name, kind, rowOptions);
+      for await (const batch of batches) {
+        for (const d of batch) {
+          const t = truncateUtf8(d.text, ingestOptions.maxBytes);
+          if (t) cut++;
+          yield t ? { ...d, text: t.text } : d;
+        }
       }
     }
   }

@@ -1,23 +1,28 @@
 /**
- * Rows of one CSV, TSV or JSON Lines export read one at a time, for the
- * streaming `sheaf assign`: memory stays bounded by the longest row, never by
- * the export. Columns are chosen as the whole-export readers choose them
- * (`chooseColumns`: named, else guessed), from the CSV header or, for JSON
- * Lines, from the first row's keys. Each row becomes a document with the same
- * id (the id column, else the row number) and text (the non-blank text
- * columns joined with a blank line, line endings normalised) as the
- * whole-export readers give. EDGE (reads a stream).
+ * Rows of one CSV, TSV or JSON Lines export read a batch at a time, for the
+ * streaming `sheaf assign` and `sheaf count`: memory stays bounded by a batch
+ * of rows, never by the export. Each row goes through the per-row code of
+ * the whole-export readers (`src/ingest`): CSV records from `csvItems`
+ * (lines holding only white space are no rows), columns from `csvColumns` /
+ * `jsonColumns`, each row made a document by `addCsvRow` / `addJsonRow` and
+ * `RowCollector` (ids from the id column, else the row number; titles capped;
+ * texts joined from the text columns and `[]` paths; every other column in
+ * `fields`). So a row gets the id, title, text and fields `sheaf group` gives
+ * it, with two differences a stream cannot avoid: a repeated id is kept as
+ * the row gives it (the whole-export reader makes it unique by looking at
+ * every row), and JSON columns are chosen from the key paths of the first
+ * {@link JSON_INDEX_ROWS} rows (the whole-export reader looks at every row).
+ * A row that cannot be read stops the stream with a {@link UsageError}: the
+ * output keeps one row per input row, so no row is dropped quietly.
+ * EDGE (reads a stream).
  *
  * @module
  */
-import { Readable } from 'node:stream';
-import { parse, type Options } from 'csv-parse';
-import type { Doc } from '../types.js';
 import { UsageError, show } from '../util/errors.js';
-import { chooseColumns, tableHeader } from '../ingest/table.js';
-import { sniffDelimiter } from '../ingest/csv.js';
-import { CSV_DIALECT } from '../ingest/csv-records.js';
-import { firstLine, normalizeNewlines } from '../ingest/text.js';
+import { RowCollector, type DraftDoc } from '../ingest/table.js';
+import { addCsvRow, csvColumns, csvReadError, sniffDelimiter, type CsvColumns } from '../ingest/csv.js';
+import { csvItems, type CsvProgress } from '../ingest/csv-records.js';
+import { addJsonRow, isObject, jsonColumns, nestedDeeper, PathIndex, TOO_DEEP, type JsonColumns, type JsonObject } from '../ingest/json.js';
 import { hasFirstLine, peekText } from '../ingest/peek.js';
 
 /** What a streamed export is read as. */
@@ -31,70 +36,44 @@ export interface StreamRowOptions {
   readonly delimiter: string | null;
 }
 
-const EMPTY_FIELDS: ReadonlyMap<string, string> = new Map();
+/** JSON Lines rows whose key paths the columns are chosen from (held in memory until then). */
+export const JSON_INDEX_ROWS = 1000;
 
-/** A document from one row: `id` from the id column (blank: the row number), no fields kept. */
-function rowDoc(name: string, row: number, idValue: string | undefined, parts: readonly string[], title: string | undefined): Doc {
-  const v = (idValue ?? '').trim();
-  const id = v === '' ? String(row) : v;
-  const text = normalizeNewlines(parts.filter((p) => p.trim() !== '').join('\n\n'));
-  const fromText = !(title !== undefined && title.trim() !== '');
-  return {
-    id,
-    source: `${name}#${row}`,
-    title: fromText ? firstLine(text) || id : (title as string),
-    text,
-    fields: EMPTY_FIELDS,
-    ...(fromText ? { titleFromText: true } : {}),
-  };
-}
-
-
+/** Documents handed on at a time by the JSON Lines reader. */
+const JSON_BATCH = 256;
 
 /**
- * Documents of a CSV or TSV export, one row at a time (csv-parse's streaming
- * parser, pulled as an async iterator, so a slow consumer holds the reading
- * back). The delimiter is `options.delimiter`, else a tab for TSV, else
- * {@link sniffDelimiter}'s. The header is required; blank lines are no rows;
- * a quote never closed is a {@link UsageError}.
+ * Documents of a CSV or TSV export, in batches (one per chunk of records the
+ * record reader gives). The delimiter is `options.delimiter`, else a tab for
+ * TSV, else {@link sniffDelimiter}'s. The header is required; blank lines and
+ * lines of white space are no rows; a quote never closed is a
+ * {@link UsageError} naming the line its record starts on.
  */
-export async function* csvRows(chunks: AsyncIterable<string>, name: string, kind: 'csv' | 'tsv', options: StreamRowOptions): AsyncGenerator<Doc> {
+export async function* csvRows(chunks: AsyncIterable<string>, name: string, kind: 'csv' | 'tsv', options: StreamRowOptions): AsyncGenerator<DraftDoc[]> {
   let delimiter = options.delimiter ?? (kind === 'tsv' ? '\t' : null);
-  if (delimiter === null) {
-    const peeked = await peekText(chunks, hasFirstLine);
-    chunks = peeked.all;
-    delimiter = sniffDelimiter(peeked.head.replace(/^\s+/, ''));
-  }
-  const csvOptions: Options = { ...CSV_DIALECT, delimiter, skip_empty_lines: true, bom: true };
-  const parser = Readable.from(chunks).pipe(parse(csvOptions));
-  let textIdx: number[] | null = null;
-  let idIdx = -1;
-  let titleIdx = -1;
+  const peeked = await peekText(chunks, hasFirstLine);
+  if (delimiter === null) delimiter = sniffDelimiter(peeked.head.replace(/^\s+/, ''));
+  const progress: CsvProgress = { lastEnd: 0 };
+  let cols: CsvColumns | null = null;
   let row = 0;
   try {
-    for await (const record of parser as AsyncIterable<string[]>) {
-      if (textIdx === null) {
-        const names = tableHeader(record).names;
-        const chosen = chooseColumns(name, { accepted: names, listed: names, top: names }, options);
-        textIdx = chosen.text.map((c) => names.indexOf(c));
-        idIdx = chosen.id === null ? -1 : names.indexOf(chosen.id);
-        titleIdx = chosen.title === null ? -1 : names.indexOf(chosen.title);
-        continue;
+    for await (const items of csvItems(peeked.all, delimiter, progress)) {
+      // A collector per batch: its documents are handed on, its warnings (a stream shows none) dropped.
+      let collector: RowCollector | null = cols === null ? null : new RowCollector(name, cols.idIdx === -1);
+      for (const item of items) {
+        if (item.blank) continue;
+        if (cols === null) {
+          cols = csvColumns(name, item.record, options);
+          collector = new RowCollector(name, cols.idIdx === -1);
+          continue;
+        }
+        addCsvRow(collector as RowCollector, cols, ++row, item.record);
       }
-      row++;
-      yield rowDoc(
-        name,
-        row,
-        idIdx === -1 ? undefined : record[idIdx],
-        textIdx.map((c) => record[c] ?? ''),
-        titleIdx === -1 ? undefined : record[titleIdx],
-      );
+      if (collector !== null && collector.docs.length > 0) yield collector.docs;
     }
   } catch (err) {
-    const code = (err as { code?: unknown }).code;
-    if (typeof code === 'string' && /^(CSV_|INVALID_)/.test(code)) {
-      throw new UsageError(`${name} cannot be read as CSV after row ${row}: ${(err as Error).message.split('\n')[0]}`);
-    }
+    const skip = csvReadError(err, progress);
+    if (skip !== null) throw new UsageError(`${name}: ${skip.reason}`);
     throw err;
   }
 }
@@ -114,57 +93,30 @@ export async function* textLines(chunks: AsyncIterable<string>): AsyncGenerator<
   if (rest !== '') yield rest.endsWith('\r') ? rest.slice(0, -1) : rest;
 }
 
-type JsonObject = Record<string, unknown>;
-
-function isObject(v: unknown): v is JsonObject {
-  return typeof v === 'object' && v !== null && !Array.isArray(v);
-}
-
-/** Every dotted key path of an object (own keys, first level first). */
-function keyPaths(obj: JsonObject, prefix = '', out: string[] = [], depth = 0): string[] {
-  for (const k of Object.keys(obj)) {
-    const p = prefix === '' ? k : `${prefix}.${k}`;
-    out.push(p);
-    const v = obj[k];
-    if (isObject(v) && depth < 7) keyPaths(v, p, out, depth + 1);
-  }
-  return out;
-}
-
-/** The value at a dotted path: the key itself when the object has it, else nested keys, own properties only. */
-function lookupPath(obj: JsonObject, p: string): unknown {
-  if (Object.prototype.hasOwnProperty.call(obj, p)) return obj[p];
-  const dot = p.indexOf('.');
-  for (let i = dot; i !== -1; i = p.indexOf('.', i + 1)) {
-    const head = p.slice(0, i);
-    if (Object.prototype.hasOwnProperty.call(obj, head) && isObject(obj[head])) {
-      const v = lookupPath(obj[head] as JsonObject, p.slice(i + 1));
-      if (v !== undefined) return v;
-    }
-  }
-  return undefined;
-}
-
-/** A JSON value as a cell: strings as they are, null/missing as `''`, anything else as JSON. */
-function cell(v: unknown): string {
-  if (v === undefined || v === null) return '';
-  if (typeof v === 'string') return v;
-  return JSON.stringify(v) ?? '';
-}
-
 /**
- * Documents of a JSON Lines export, one line at a time. Columns are chosen
- * from the first row's key paths. Blank lines are no rows; a line that is not
- * a JSON object is a {@link UsageError} naming its line (the output keeps one
- * row per input row, so no row is dropped quietly).
+ * Documents of a JSON Lines export, in batches. Blank lines and lines of
+ * white space are no rows (as for the whole-export reader); columns are
+ * chosen from the key paths of the first {@link JSON_INDEX_ROWS} rows. A line
+ * that is not a JSON object, or nests deeper than the readers take, is a
+ * {@link UsageError} naming its line.
  */
-export async function* jsonlRows(chunks: AsyncIterable<string>, name: string, options: StreamRowOptions): AsyncGenerator<Doc> {
-  let chosen: { text: readonly string[]; id: string | null; title: string | null } | null = null;
+export async function* jsonlRows(chunks: AsyncIterable<string>, name: string, options: StreamRowOptions): AsyncGenerator<DraftDoc[]> {
+  /** The columns once chosen, and the batch being filled. */
+  let open: { readonly cols: JsonColumns; collector: RowCollector } | null = null;
+  const held: JsonObject[] = [];
   let line = 0;
   let row = 0;
-  for await (const raw of textLines(chunks)) {
+  const choose = (): { readonly cols: JsonColumns; collector: RowCollector } => {
+    const index = new PathIndex();
+    for (const o of held) index.add(o);
+    const cols = jsonColumns(index, name, options);
+    const collector = new RowCollector(name, cols.idKeys === null);
+    for (const o of held) addJsonRow(collector, cols, o, ++row);
+    held.length = 0;
+    return { cols, collector };
+  };
+  for await (const text of textLines(chunks)) {
     line++;
-    const text = line === 1 ? raw.replace(/^\uFEFF/, '') : raw;
     if (text.trim() === '') continue;
     let obj: unknown;
     try {
@@ -173,18 +125,19 @@ export async function* jsonlRows(chunks: AsyncIterable<string>, name: string, op
       throw new UsageError(`${name} line ${line} is not JSON`);
     }
     if (!isObject(obj)) throw new UsageError(`${name} line ${line} is not a JSON object; got ${show(Array.isArray(obj) ? 'an array' : obj)}`);
-    row++;
-    if (chosen === null) {
-      const paths = keyPaths(obj);
-      chosen = chooseColumns(name, { accepted: paths, listed: paths, top: Object.keys(obj) }, options);
+    if (nestedDeeper(obj)) throw new UsageError(`${name} line ${line} is ${TOO_DEEP}`);
+    if (open === null) {
+      held.push(obj);
+      if (held.length < JSON_INDEX_ROWS) continue;
+      open = choose();
+    } else {
+      addJsonRow(open.collector, open.cols, obj, ++row);
     }
-    const o = obj;
-    yield rowDoc(
-      name,
-      row,
-      chosen.id === null ? undefined : cell(lookupPath(o, chosen.id)),
-      chosen.text.map((c) => cell(lookupPath(o, c))),
-      chosen.title === null ? undefined : cell(lookupPath(o, chosen.title)),
-    );
+    if (open.collector.docs.length >= JSON_BATCH) {
+      yield open.collector.docs;
+      open.collector = new RowCollector(name, open.cols.idKeys === null);
+    }
   }
+  if (open === null && held.length > 0) open = choose();
+  if (open !== null && open.collector.docs.length > 0) yield open.collector.docs;
 }

@@ -120,6 +120,77 @@ function delimiterName(d: string): string {
 }
 
 
+/** An export's header and the columns chosen from it, as {@link csvColumns} gives them. */
+export interface CsvColumns {
+  /** The header's names made usable ({@link tableHeader}). */
+  readonly names: readonly string[];
+  /** How names were changed, one line each. */
+  readonly renamed: readonly string[];
+  /** Where the text columns are, in the order given. */
+  readonly textIdx: readonly number[];
+  /** Where the id column is (-1: none, ids are row numbers). */
+  readonly idIdx: number;
+  /** Where the title column is (-1: none, titles come from the text). */
+  readonly titleIdx: number;
+  /** The title column when it was guessed. */
+  readonly titleColumn?: string;
+}
+
+/**
+ * The columns of a CSV export from its header record: names made usable and
+ * the text, id and title columns chosen ({@link chooseColumns}; throws its
+ * `UsageError` for a named column the header lacks). Shared by
+ * {@link readCsv} and the streamed rows of `assign --stream`.
+ */
+export function csvColumns(name: string, header: readonly string[], options: CsvReadOptions): CsvColumns {
+  const { names, renamed } = tableHeader(header);
+  const chosen = chooseColumns(name, { accepted: names, listed: names, top: names }, options);
+  const titleColumn = chosen.titleGuessed && chosen.title !== null ? chosen.title : undefined;
+  return {
+    names,
+    renamed,
+    textIdx: chosen.text.map((c) => names.indexOf(c)),
+    idIdx: chosen.id === null ? -1 : names.indexOf(chosen.id),
+    titleIdx: chosen.title === null ? -1 : names.indexOf(chosen.title),
+    ...(titleColumn === undefined ? {} : { titleColumn }),
+  };
+}
+
+/**
+ * Adds one data record (row `row`, 1-based, blank lines not counted) to
+ * `collector`: id, text parts and title from the chosen columns, every column
+ * but the id in `fields` (missing cells empty, cells past the header
+ * dropped). The per-row step of {@link readCsv} and of `assign --stream`.
+ */
+export function addCsvRow(collector: RowCollector, cols: CsvColumns, row: number, record: readonly string[]): void {
+  const { names, idIdx, titleIdx } = cols;
+  const fields = new Map<string, string>();
+  for (let c = 0; c < names.length; c++) if (c !== idIdx) fields.set(names[c] as string, record[c] ?? '');
+  collector.add(
+    row,
+    idIdx === -1 ? undefined : record[idIdx],
+    cols.textIdx.map((c) => record[c] ?? ''),
+    titleIdx === -1 ? undefined : record[titleIdx],
+    fields,
+  );
+}
+
+/**
+ * The {@link InputSkip} a record parser's error stands for (a quote never
+ * closed, another CSV error; the line from `progress`), or `null` for an
+ * error that is not the input's fault.
+ */
+export function csvReadError(err: unknown, progress: CsvProgress): InputSkip | null {
+  const code = (err as { code?: unknown }).code;
+  if (code === 'CSV_QUOTE_NOT_CLOSED') {
+    return new InputSkip(`the record starting on line ${progress.lastEnd + 1} has a quote that is never closed`);
+  }
+  if (typeof code === 'string' && /^(CSV_|INVALID_)/.test(code)) {
+    return new InputSkip(`cannot be read as CSV near line ${progress.lastEnd + 1}: ${(err as Error).message.split('\n')[0]}`);
+  }
+  return null;
+}
+
 /**
  * Reads a CSV (or, with `kind` `tsv`, a TSV) export from decoded text
  * chunks. `name` is how messages and sources name the input. The delimiter
@@ -148,12 +219,9 @@ export async function readCsvWith(chunks: AsyncIterable<string>, name: string, k
   }
   const progress: CsvProgress = { lastEnd: 0 }; // the line on which the last record read ends
 
-  let header: string[] | null = null;
+  let header: CsvColumns | null = null;
   let width = 0;
   let collector: RowCollector | null = null;
-  let textIdx: number[] = [];
-  let idIdx = -1;
-  let titleIdx = -1;
   let titleColumn: string | undefined;
   const short: number[] = [];
   const long: number[] = [];
@@ -166,17 +234,11 @@ export async function readCsvWith(chunks: AsyncIterable<string>, name: string, k
       const { record, startLine, endLine, raw, blank } = item;
       if (blank) continue;
       if (header === null) {
-        const { names, renamed } = tableHeader(record);
-        header = names;
-        width = names.length;
-        for (const r of renamed) warnings.push(`${name}: ${r}`);
-        const cols = { accepted: names, listed: names, top: names };
-        const chosen = chooseColumns(name, cols, options);
-        textIdx = chosen.text.map((c) => names.indexOf(c));
-        idIdx = chosen.id === null ? -1 : names.indexOf(chosen.id);
-        titleIdx = chosen.title === null ? -1 : names.indexOf(chosen.title);
-        if (chosen.titleGuessed && chosen.title !== null) titleColumn = chosen.title;
-        collector = new RowCollector(name, idIdx === -1);
+        header = csvColumns(name, record, options);
+        width = header.names.length;
+        for (const r of header.renamed) warnings.push(`${name}: ${r}`);
+        titleColumn = header.titleColumn;
+        collector = new RowCollector(name, header.idIdx === -1);
         continue;
       }
       row++;
@@ -190,25 +252,10 @@ export async function readCsvWith(chunks: AsyncIterable<string>, name: string, k
       }
       if (record.length < width) short.push(startLine);
       else if (record.length > width) long.push(startLine);
-      const fields = new Map<string, string>();
-      for (let c = 0; c < width; c++) if (c !== idIdx) fields.set(header[c] as string, record[c] ?? '');
-      (collector as RowCollector).add(
-        row,
-        idIdx === -1 ? undefined : record[idIdx],
-        textIdx.map((c) => record[c] ?? ''),
-        titleIdx === -1 ? undefined : record[titleIdx],
-        fields,
-      );
+      addCsvRow(collector as RowCollector, header, row, record);
     }
   } catch (err) {
-    const code = (err as { code?: unknown }).code;
-    if (code === 'CSV_QUOTE_NOT_CLOSED') {
-      throw new InputSkip(`the record starting on line ${progress.lastEnd + 1} has a quote that is never closed`);
-    }
-    if (typeof code === 'string' && /^(CSV_|INVALID_)/.test(code)) {
-      throw new InputSkip(`cannot be read as CSV near line ${progress.lastEnd + 1}: ${(err as Error).message.split('\n')[0]}`);
-    }
-    throw err;
+    throw csvReadError(err, progress) ?? err;
   }
 
   if (header === null) {

@@ -176,7 +176,8 @@ export interface IngestIo {
 
 type ReadAs = 'csv' | 'tsv' | 'jsonl' | 'json' | 'document';
 
-const EXPORT_EXTENSIONS: ReadonlyMap<string, ReadAs> = new Map<string, ReadAs>([
+/** The extensions read as exports (one document per row), and how (also the kinds `assign --stream` reads). */
+export const EXPORT_EXTENSIONS: ReadonlyMap<string, ReadAs> = new Map<string, ReadAs>([
   ['.csv', 'csv'],
   ['.tsv', 'tsv'],
   ['.tab', 'tsv'],

@@ -24,7 +24,8 @@ export interface JsonRead extends ExportRead {
   readonly skipped: Skipped[];
 }
 
-type JsonObject = Record<string, unknown>;
+/** A JSON object as parsed. */
+export type JsonObject = Record<string, unknown>;
 
 interface JsonRow {
   readonly obj: JsonObject;
@@ -64,7 +65,8 @@ export function nestedDeeper(v: unknown, limit: number = MAX_NESTING): boolean {
   return false;
 }
 
-function isObject(v: unknown): v is JsonObject {
+/** True for a JSON object (not null, not an array). */
+export function isObject(v: unknown): v is JsonObject {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
 
@@ -80,15 +82,22 @@ export function jsonCell(v: unknown): string {
 }
 
 /** A step of a key path: an own key, or `null` for "every element of an array" (`[]` in the path). */
-type Step = string | null;
+export type Step = string | null;
 
-/** Every key path of the rows, in first-seen order, with the steps it stands for. */
-class PathIndex {
+/**
+ * Every key path of the rows added, in first-seen order, with the steps it
+ * stands for: dotted paths into nested objects, `[]` for every element of an
+ * array. The columns {@link chooseColumns} picks from.
+ */
+export class PathIndex {
+  /** Each key path and its steps (an own key, or `null` for every element of an array). */
   readonly keys = new Map<string, readonly Step[]>();
+  /** The top-level keys, in first-seen order (the `fields` of a row). */
   readonly top: string[] = [];
   private readonly topSeen = new Set<string>();
   private readonly leaves = new Set<string>();
 
+  /** Adds one row's key paths. */
   add(obj: JsonObject): void {
     for (const k of Object.keys(obj)) {
       if (!this.topSeen.has(k)) {
@@ -137,6 +146,7 @@ class PathIndex {
     }
   }
 
+  /** The names offered for text, id and title. */
   columns(): ExportColumns {
     const accepted = [...this.keys.keys()];
     return { accepted, listed: accepted.filter((p) => this.leaves.has(p)), top: this.top };
@@ -177,35 +187,71 @@ function cells(v: unknown, many: boolean): string[] {
   return many ? (v as unknown[]).map(jsonCell) : [jsonCell(v)];
 }
 
-function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOptions): { docs: ExportRead['docs']; warnings: string[]; titleColumn?: string } {
-  const index = new PathIndex();
-  for (const r of rows) index.add(r.obj);
+/** The columns chosen from a {@link PathIndex}, as steps, and what `fields` holds: see {@link jsonColumns}. */
+export interface JsonColumns {
+  readonly textKeys: readonly (readonly Step[])[];
+  readonly idKeys: readonly Step[] | null;
+  readonly titleKeys: readonly Step[] | null;
+  /** The top-level keys a row's `fields` hold. */
+  readonly top: readonly string[];
+  /** The id's key when it is a top-level key (left out of `fields`). */
+  readonly idTop: string | null;
+  /** The title column when it was guessed. */
+  readonly titleColumn?: string;
+}
+
+/**
+ * The text, id and title columns of a JSON export chosen from the key paths
+ * of its rows ({@link chooseColumns}; throws its `UsageError` for a named
+ * column no row has, and one for an id path with `[]`). Shared by the
+ * whole-export readers and the streamed rows of `assign --stream`.
+ */
+export function jsonColumns(index: PathIndex, name: string, options: JsonReadOptions): JsonColumns {
   const chosen = chooseColumns(name, index.columns(), options);
   const keysOf = (p: string): readonly Step[] => index.keys.get(p) as readonly Step[];
-  const textKeys = chosen.text.map(keysOf);
   const idKeys = chosen.id === null ? null : keysOf(chosen.id);
   if (idKeys !== null && idKeys.includes(null)) {
     throw new UsageError(`--id takes one value per row; ${show(chosen.id)} names every element of an array`, 'id');
   }
-  const titleKeys = chosen.title === null ? null : keysOf(chosen.title);
-  const idTop = idKeys !== null && idKeys.length === 1 ? (idKeys[0] as string) : null;
-  const collector = new RowCollector(name, idKeys === null);
-  for (const { obj, row } of rows) {
-    const fields = new Map<string, string>();
-    for (const k of index.top) if (k !== idTop) fields.set(k, jsonCell(own(obj, k)));
-    const idValue = idKeys === null ? undefined : lookup(obj, idKeys);
-    // A path with [] joins every element's value (blank lines between, as for several text columns); a title takes the first non-blank one.
-    const title = titleKeys === null ? undefined : cells(lookup(obj, titleKeys), titleKeys.includes(null)).find((t) => t.trim() !== '') ?? '';
-    collector.add(
-      row,
-      idValue === undefined || idValue === null ? undefined : jsonCell(idValue),
-      textKeys.flatMap((ks) => cells(lookup(obj, ks), ks.includes(null))),
-      title,
-      fields,
-    );
-  }
+  return {
+    textKeys: chosen.text.map(keysOf),
+    idKeys,
+    titleKeys: chosen.title === null ? null : keysOf(chosen.title),
+    top: index.top,
+    idTop: idKeys !== null && idKeys.length === 1 ? (idKeys[0] as string) : null,
+    ...(chosen.titleGuessed && chosen.title !== null ? { titleColumn: chosen.title } : {}),
+  };
+}
+
+/**
+ * Adds one JSON row (row `row`, 1-based) to `collector`: id, text parts and
+ * title from the chosen paths, the top-level keys but the id's in `fields`.
+ * The per-row step of the JSON readers and of `assign --stream`.
+ */
+export function addJsonRow(collector: RowCollector, cols: JsonColumns, obj: JsonObject, row: number): void {
+  const { textKeys, idKeys, titleKeys, idTop } = cols;
+  const fields = new Map<string, string>();
+  for (const k of cols.top) if (k !== idTop) fields.set(k, jsonCell(own(obj, k)));
+  const idValue = idKeys === null ? undefined : lookup(obj, idKeys);
+  // A path with [] joins every element's value (blank lines between, as for several text columns); a title takes the first non-blank one.
+  const title = titleKeys === null ? undefined : cells(lookup(obj, titleKeys), titleKeys.includes(null)).find((t) => t.trim() !== '') ?? '';
+  collector.add(
+    row,
+    idValue === undefined || idValue === null ? undefined : jsonCell(idValue),
+    textKeys.flatMap((ks) => cells(lookup(obj, ks), ks.includes(null))),
+    title,
+    fields,
+  );
+}
+
+function buildDocs(rows: readonly JsonRow[], name: string, options: JsonReadOptions): { docs: ExportRead['docs']; warnings: string[]; titleColumn?: string } {
+  const index = new PathIndex();
+  for (const r of rows) index.add(r.obj);
+  const cols = jsonColumns(index, name, options);
+  const collector = new RowCollector(name, cols.idKeys === null);
+  for (const { obj, row } of rows) addJsonRow(collector, cols, obj, row);
   const out = { docs: collector.docs, warnings: collector.warnings() };
-  return chosen.titleGuessed && chosen.title !== null ? { ...out, titleColumn: chosen.title } : out;
+  return cols.titleColumn !== undefined ? { ...out, titleColumn: cols.titleColumn } : out;
 }
 
 /**
