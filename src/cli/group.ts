@@ -32,6 +32,7 @@ import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
 import { previousFromFlags, editsFromFlags, guideFromFlags, type EditsFlags, type PreviousFlags } from './previous.js';
 import { continuityLines } from '../report/continuity.js';
+import { checkGuideRun } from '../edits/guide.js';
 import { assertDateColumn, documentLinks, trendsFromFlag } from './report-inputs.js';
 import { trendsRecord } from '../report/report-extras.js';
 
@@ -98,6 +99,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const previous = await previousFromFlags(flags as PreviousFlags, io.cwd);
   const edits = await editsFromFlags(flags as EditsFlags, io.cwd);
   const guide = await guideFromFlags(flags as EditsFlags, io.cwd);
+  if (guide) checkGuideRun(guide, group, previous !== null);
   await checkOutputFolders({ inputs, alsoReads: [flags.stopwords, previous?.file, (flags as EditsFlags).edits, (flags as EditsFlags).guide], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
   checkMemory(await fileInputBytes(inputs, io.cwd), limit, 'this input');
   const note = (line: string): void => {
