@@ -156,6 +156,26 @@ describe('objective of the cuts of a tree', () => {
     );
   });
 
+  it('scores the cuts it is given when the caller made them already, on both paths (fast-check)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 1e6 }), fc.integer({ min: 6, max: 30 }), (seed, rows) => {
+        const m = randomCsr(rows, 12, seed);
+        const leaves = Math.min(rows, 6);
+        const km = sphericalKMeans(m, { groups: leaves, seed, restarts: 1 });
+        const tree = groupAverageLink(m, km.assignments, leaves);
+        const cuts = Array.from({ length: leaves - 1 }, (_, i) => i + 2);
+        const made = cuts.map((c) => cutToGroups(tree, c));
+        for (const gramLimit of [2048, 0]) {
+          const own = objectiveForCuts(m, km.assignments, tree, cuts, gramLimit);
+          const given = objectiveForCuts(m, km.assignments, tree, cuts, gramLimit, made);
+          if (own.some((v, c) => v !== given[c])) return false;
+        }
+        return true;
+      }),
+      { numRuns: 20 },
+    );
+  });
+
   it('equals k-means’ own objective when every row is its own leaf', () => {
     const m = randomCsr(10, 8, 7);
     const km = sphericalKMeans(m, { groups: 3, seed: 1, restarts: 1 });
