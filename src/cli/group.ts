@@ -27,7 +27,6 @@ import { jsonText } from '../report/outputs.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import { visibleJson, visibleLines } from './visible.js';
-import { withFileDigests, type RunFile } from './organize.js';
 import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
 import { previousFromFlags, editsFromFlags, guideFromFlags, type EditsFlags, type PreviousFlags } from './previous.js';
@@ -189,7 +188,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const context = { command, startedAt, finishedAt: new Date(), versions: version, cwd: io.cwd, out: flags.out };
   const record = groupRunRecord(result, { context, ingestOptions, read, threads, evaluation, timings });
   Object.assign(record, { trends: trends ? trendsRecord(result, trends) : null, reportBytes: pageBytes });
-  files.set('run.json', jsonText(await withFileDigests(record as { files?: RunFile[] })));
+  files.set('run.json', jsonText(record));
   const written = (await writeOutputFolder(outDir, files)).map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
     const v = await writeOutputFolder(path.resolve(io.cwd, flags.saveVectors), vectorFiles(result.matrix, result.vocabulary.terms, result.docs));
