@@ -51,7 +51,7 @@ describe('sheaf group: --guide, --previous and --edits checked before the docume
     ['a guide and a previous run', ['--groups', '3', '--guide', 'guide.json', '--previous', 'w1'], 'sheaf: give a guide or a previous run, not both (a guide starts the groups afresh; a previous run carries its own names)\n'],
     ['a guide naming more groups than asked', ['--groups', '2', '--guide', 'three.json'], 'sheaf: three.json names 3 groups; groups is 2: ask for at least as many groups as the guide names\n'],
     ['a missing guide file', ['--groups', '3', '--guide', 'nope.json'], 'sheaf: no such guide file: nope.json\n'],
-    ['a missing previous model', ['--groups', '3', '--previous', 'nowhere'], 'sheaf: --previous nowhere: no such file or folder\n'],
+    ['a missing previous model', ['--groups', '3', '--previous', 'nowhere'], 'sheaf: no such model file: nowhere\n'],
     ['a foreign previous model', ['--groups', '3', '--previous', 'foreign.json'], 'sheaf: foreign.json is not a sheaf model (no "format": "sheaf-model")\n'],
     ['a missing edits file', ['--groups', '3', '--edits', 'none.json'], 'sheaf: no such edits file: none.json\n'],
     ['an edits file that is not one', ['--groups', '3', '--edits', 'bad-edits.json'], 'sheaf: bad-edits.json is not a sheaf edits file: it is an object { "format": "sheaf-edits", "edits": [ … ] }\n'],
