@@ -15,6 +15,7 @@ import { createRequire } from 'node:module';
 import path from 'node:path';
 import { createInflate } from 'node:zlib';
 import { InputSkip } from './decode.js';
+import { oneLine } from './io-errors.js';
 import { capTitle, firstLine } from './text.js';
 
 /** The PDF signature, which must appear in the first {@link PDF_HEADER_WINDOW} bytes. */
@@ -157,11 +158,6 @@ function pdfjsFolder(): string | null {
     }
   }
   return assetRoot;
-}
-
-function oneLine(err: unknown): string {
-  const msg = err instanceof Error ? err.message : String(err);
-  return (msg.split('\n')[0] as string).replace(/\s+/g, ' ').trim().replace(/\.$/, '') || 'unknown error';
 }
 
 /** Titles that are no title: empty, placeholders, or a file name. */

@@ -25,6 +25,7 @@
 import { Parser } from 'htmlparser2';
 import { UsageError, show } from '../util/errors.js';
 import { InputSkip } from './decode.js';
+import { oneLine } from './io-errors.js';
 import { looksLikeOle } from './docx.js';
 import { looksLikeZip, zipEntries, zipRead, type ZipEntry } from './zip.js';
 import { readRowTable, type RowTableOptions } from './rows.js';
@@ -145,11 +146,6 @@ export function serialToText(serial: number, date1904: boolean): string {
   const d = new Date(epoch + days * 86400000);
   const date = `${pad(d.getUTCFullYear(), 4)}-${pad(d.getUTCMonth() + 1)}-${pad(d.getUTCDate())}`;
   return secs === 0 ? date : `${date} ${time}`;
-}
-
-function oneLine(err: unknown): string {
-  const msg = err instanceof Error ? err.message : String(err);
-  return (msg.split('\n')[0] as string).replace(/\s+/g, ' ').trim().replace(/\.$/, '') || 'unknown error';
 }
 
 class Workbook {
