@@ -247,7 +247,7 @@ export function sharedStrings(xml: string): string[] {
 }
 
 /** For each cell format (`cellXfs` index), whether it shows a date or time. */
-export function dateStyles(xml: string): boolean[] {
+function dateStyles(xml: string): boolean[] {
   const custom = new Map<number, string>();
   const out: boolean[] = [];
   let inXfs = 0;
@@ -276,7 +276,7 @@ function numberText(v: string, isDate: boolean, date1904: boolean): string {
 }
 
 /** A sheet's rows: each row's cells (by column), with its row number; rows with no non-empty cell left out. */
-export function sheetRows(
+function sheetRows(
   xml: string,
   strings: readonly string[],
   dates: readonly boolean[],
