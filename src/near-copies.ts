@@ -134,7 +134,7 @@ export function copyKey(text: string): string {
 }
 
 /** Words for shingling: letter/digit runs of the normalised text, in order (no stop words dropped, no stemming). */
-export function shingleWords(text: string): string[] {
+function shingleWords(text: string): string[] {
   return normalizeText(text).match(/[\p{L}\p{M}\p{N}]+(?:['’][\p{L}\p{M}\p{N}]+)*/gu) ?? [];
 }
 

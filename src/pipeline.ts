@@ -16,7 +16,7 @@ import { rowsWithoutEntries } from './util/csr.js';
 import { groupAverageLink, type Dendrogram } from './cluster/tree.js';
 import { groupCohesion, groupSeparation, sampledSilhouette, type SilhouetteResult } from './cluster/quality.js';
 import { editPartition, pinnedNames, type EditOutcome, type GroupEdit } from './edits/index.js';
-import { guidedNames, guidedStart, numberGuided, type GuidedStart } from './edits/guide.js';
+import { checkGuideRun, guideExampleRows, guidedNames, guidedStart, numberGuided, type Guide, type GuidedStart } from './edits/guide.js';
 import { denseRowsAsCsr, projectRows, type ReducedSpace } from './reduce/index.js';
 import { UsageError } from './util/errors.js';
 import { carryGroups, carriedNames } from './continuity/carry.js';
@@ -143,6 +143,8 @@ export async function groupDocumentsAsync(
  */
 function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOptions, hooks: PipelineHooks): Generator<PipelineStep, GroupResult, StepReply> {
   const resolved = resolveGroupOptions(options);
+  // A guide the run cannot take is refused before any work.
+  if (hooks.guide) checkGuideRun(hooks.guide, resolved, Boolean(hooks.previous));
   const now = hooks.now ?? (() => 0);
   const timings: StageTiming[] = [];
   const time = <T>(stage: string, items: number, fn: () => T): T => {
@@ -155,6 +157,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
   const cleaned = time('clean', given.docs.length, () => cleanStage(given, resolved.clean));
   const { docs, inputOrder } = canonicalOrder(cleaned.docs);
   const n = docs.length;
+  const guideExamples = hooks.guide ? guideExampleRows(hooks.guide, docs.map((d) => d.id)) : null;
 
   const analyzer = createAnalyzer(resolved.analyzer);
   const tFit = now();
@@ -179,7 +182,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
   const grouping = space?.matrix ?? matrix;
   const tForm = now();
   // Guided groups: k-means starts from the guide's centres (and seeded ones for the rest); guided groups are numbered first.
-  const guided = hooks.guide ? guidedStartFor(hooks, resolved, { matrix, grouping, vocabulary, docs, analyzer, space }) : null;
+  const guided = hooks.guide && guideExamples ? guidedStartFor(hooks.guide, resolved, { matrix, grouping, vocabulary, examples: guideExamples, analyzer, space }) : null;
   const formedFree = yield* method.form({ matrix: grouping, nonEmpty, settings: guided ? ({ ...resolved, kmeans: { ...resolved.kmeans, initialAssignments: guided.initialAssignments } } as typeof resolved) : resolved, hooks });
   const found = guided ? numberGuided(guided, formedFree.partition) : null;
   const formed = found ? { ...formedFree, partition: found.partition } : formedFree;
@@ -276,17 +279,12 @@ function isDocList(input: GroupInput): input is readonly Doc[] {
   return Array.isArray(input);
 }
 
-/** The guided start of k-means (checks that the run can take a guide: method kmeans, a number of groups, no previous run). */
+/** The guided start of k-means (the run was checked to take the guide by {@link checkGuideRun}: a number of groups). */
 function guidedStartFor(
-  hooks: PipelineHooks,
+  guide: Guide,
   resolved: ResolvedGroupOptions,
-  x: { matrix: Csr; grouping: Csr; vocabulary: Vocabulary; docs: readonly Doc[]; analyzer: ReturnType<typeof createAnalyzer>; space: ReducedSpace | null },
+  x: { matrix: Csr; grouping: Csr; vocabulary: Vocabulary; examples: readonly Int32Array[]; analyzer: ReturnType<typeof createAnalyzer>; space: ReducedSpace | null },
 ): GuidedStart {
-  const guide = hooks.guide!;
-  if (resolved.method !== 'kmeans' || typeof resolved.groups !== 'number') {
-    throw new UsageError(`a guide needs method kmeans and a number of groups; got method ${resolved.method} and groups ${String(resolved.groups ?? 'from minSimilarity')}`, 'guide');
-  }
-  if (hooks.previous) throw new UsageError('give a guide or a previous run, not both (a guide starts the groups afresh; a previous run carries its own names)', 'guide');
   const svd = x.space?.svd;
   return guidedStart(
     guide,
@@ -294,10 +292,10 @@ function guidedStartFor(
       matrix: x.matrix,
       grouping: x.grouping,
       vocabulary: x.vocabulary,
-      ids: x.docs.map((d) => d.id),
+      examples: x.examples,
       analyze: (t) => x.analyzer.analyze(t),
       project: svd ? (rows) => denseRowsAsCsr(projectRows(rows, svd.components, svd.dims), rows.rows, svd.dims) : null,
-      groups: resolved.groups,
+      groups: resolved.groups as number,
     },
     { ...resolved.kmeans, seed: resolved.seed },
   );

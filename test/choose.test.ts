@@ -133,7 +133,7 @@ describe('kneedle', () => {
 });
 
 describe('objective of the cuts of a tree', () => {
-  it('the Gram path equals summing each cut’s rows (naive reference), and never falls as cuts get finer (fast-check)', () => {
+  it('the Gram path equals summing each cut’s rows (naive reference), never falls as cuts get finer, and scores cuts already made alike (fast-check)', () => {
     fc.assert(
       fc.property(fc.integer({ min: 1, max: 1e6 }), fc.integer({ min: 6, max: 30 }), (seed, rows) => {
         const m = randomCsr(rows, 12, seed);
@@ -143,6 +143,11 @@ describe('objective of the cuts of a tree', () => {
         const cuts = Array.from({ length: leaves - 1 }, (_, i) => i + 2);
         const gram = objectiveForCuts(m, km.assignments, tree, cuts);
         const direct = objectiveForCuts(m, km.assignments, tree, cuts, 0);
+        // The cuts made by the caller (chooseFromTree passes those the silhouette made): the same values on both paths.
+        const made = cuts.map((c) => cutToGroups(tree, c));
+        const gramMade = objectiveForCuts(m, km.assignments, tree, cuts, undefined, made);
+        const directMade = objectiveForCuts(m, km.assignments, tree, cuts, 0, made);
+        if (gramMade.some((v, c) => v !== gram[c]) || directMade.some((v, c) => v !== direct[c])) return false;
         for (let c = 0; c < cuts.length; c++) {
           const cluster = cutToGroups(tree, cuts[c]);
           const naive = sphericalObjective(m, km.assignments.map((g) => (g < 0 ? -1 : cluster[g])), cuts[c]);

@@ -173,9 +173,10 @@ describe('sheaf group --previous on generated weekly piles', () => {
     const alone = await sheaf([...common, '--match-similarity', '0.7'], { cwd: dir });
     expect(alone.stderr).toBe('sheaf: --match-similarity needs --previous (the model of the run to continue)\n');
     const missing = await sheaf([...common, '--previous', 'nowhere'], { cwd: dir });
-    expect(missing.stderr).toBe('sheaf: --previous nowhere: no such file or folder\n');
+    // The same lines as --model gives (one function finds the model file for both flags).
+    expect(missing.stderr).toBe('sheaf: no such model file: nowhere\n');
     expect(missing.code).toBe(2);
     const empty = await sheaf([...common, '--previous', '.'], { cwd: dir });
-    expect(empty.stderr).toBe('sheaf: --previous . is a folder without model.json\n');
+    expect(empty.stderr).toBe('sheaf: --previous . is a folder with no model.json in it; name a model.json written by sheaf group, or the output folder of that run\n');
   });
 });

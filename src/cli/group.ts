@@ -27,11 +27,11 @@ import { jsonText } from '../report/outputs.js';
 import { writeOutputFolder } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import { visibleJson, visibleLines } from './visible.js';
-import { withFileDigests, type RunFile } from './organize.js';
 import { nearCopiesOfVectors } from '../near-copies.js';
 import { AUTO_REDUCE_MAX_DOCUMENTS } from '../reduce/index.js';
 import { previousFromFlags, editsFromFlags, guideFromFlags, type EditsFlags, type PreviousFlags } from './previous.js';
 import { continuityLines } from '../report/continuity.js';
+import { checkGuideRun } from '../edits/guide.js';
 import { assertDateColumn, documentLinks, trendsFromFlag } from './report-inputs.js';
 import { trendsRecord } from '../report/report-extras.js';
 
@@ -98,6 +98,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const previous = await previousFromFlags(flags as PreviousFlags, io.cwd);
   const edits = await editsFromFlags(flags as EditsFlags, io.cwd);
   const guide = await guideFromFlags(flags as EditsFlags, io.cwd);
+  if (guide) checkGuideRun(guide, group, previous !== null);
   await checkOutputFolders({ inputs, alsoReads: [flags.stopwords, previous?.file, (flags as EditsFlags).edits, (flags as EditsFlags).guide], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
   checkMemory(await fileInputBytes(inputs, io.cwd), limit, 'this input');
   const note = (line: string): void => {
@@ -187,7 +188,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const context = { command, startedAt, finishedAt: new Date(), versions: version, cwd: io.cwd, out: flags.out };
   const record = groupRunRecord(result, { context, ingestOptions, read, threads, evaluation, timings });
   Object.assign(record, { trends: trends ? trendsRecord(result, trends) : null, reportBytes: pageBytes });
-  files.set('run.json', jsonText(await withFileDigests(record as { files?: RunFile[] })));
+  files.set('run.json', jsonText(record));
   const written = (await writeOutputFolder(outDir, files)).map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
     const v = await writeOutputFolder(path.resolve(io.cwd, flags.saveVectors), vectorFiles(result.matrix, result.vocabulary.terms, result.docs));

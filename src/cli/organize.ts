@@ -104,24 +104,6 @@ export interface RunFile {
 }
 
 /**
- * `run.json` with the SHA-256 of each listed input file added (`files[].sha256`),
- * so `organize` later copies only those very bytes. A file that can no longer be
- * read gets no digest (and is never copied).
- */
-export async function withFileDigests<T extends { files?: readonly RunFile[] }>(run: T): Promise<T> {
-  if (!run.files) return run;
-  const files: RunFile[] = [];
-  for (const f of run.files) {
-    try {
-      files.push({ ...f, sha256: createHash('sha256').update(await readFile(f.path)).digest('hex') });
-    } catch {
-      files.push({ id: f.id, path: f.path });
-    }
-  }
-  return { ...run, files };
-}
-
-/**
  * The folder of `to` made under `into`, one component at a time, never through
  * a link: each existing component is checked with lstat. Returns null when made,
  * or why the file cannot go there.

@@ -5,10 +5,7 @@
  * @module
  */
 import { UsageError, show } from '../util/errors.js';
-import { flagFor, kebabFlag } from './flag-names.js';
-
-/** `minDf` → `--min-df` (see `flag-names.ts` for the names whose flag differs). */
-export const flagName = kebabFlag;
+import { flagFor } from './flag-names.js';
 
 /** A whole number flag, or undefined when not given. */
 export function wholeNumber(value: string | undefined, option: string): number | undefined {

@@ -4,10 +4,10 @@
  *
  * @module
  */
-import { readFile, stat } from 'node:fs/promises';
+import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { decimal } from './parse.js';
-import { loadModel } from './model-path.js';
+import { loadModel, modelFileOf } from './model-path.js';
 import { UsageError } from '../util/errors.js';
 import { previousGroupsOf } from '../continuity/carry.js';
 import { parseEdits, type GroupEdits } from '../edits/index.js';
@@ -20,17 +20,6 @@ export interface PreviousFlags {
   matchSimilarity?: string;
 }
 
-/** The model file `--previous` names: the path itself, or `model.json` inside it when it is a folder. */
-export async function previousModelFile(given: string, cwd: string): Promise<string> {
-  const abs = path.resolve(cwd, given);
-  const s = await stat(abs).catch(() => null);
-  if (s === null) throw new UsageError(`--previous ${given}: no such file or folder`, 'previous');
-  if (!s.isDirectory()) return given;
-  const inside = path.join(given, 'model.json');
-  if (!(await stat(path.resolve(cwd, inside)).catch(() => null))) throw new UsageError(`--previous ${given} is a folder without model.json`, 'previous');
-  return inside;
-}
-
 /** The previous run's groups and the matching options, or null without `--previous`. */
 export async function previousFromFlags(flags: PreviousFlags, cwd: string): Promise<{ groups: PreviousGroups; options: ContinuityOptions; file: string } | null> {
   const minSimilarity = decimal(flags.matchSimilarity, 'matchSimilarity');
@@ -39,8 +28,8 @@ export async function previousFromFlags(flags: PreviousFlags, cwd: string): Prom
     if (minSimilarity !== undefined) throw new UsageError('--match-similarity needs --previous (the model of the run to continue)', 'matchSimilarity');
     return null;
   }
-  const file = await previousModelFile(flags.previous, cwd);
-  const model = await loadModel(file, cwd);
+  const file = await modelFileOf(flags.previous, cwd, 'previous');
+  const model = await loadModel(file, cwd, 'previous');
   return { groups: previousGroupsOf(model, file), options, file };
 }
 

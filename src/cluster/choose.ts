@@ -87,7 +87,9 @@ export const GRAM_SUMS_LIMIT = 1 << 24;
  * cuts · leaves²) for z_t leaves using term t, when there are at most
  * `gramLimit` leaves and the dense leaf sums (cols × leaves doubles) stay
  * within {@link GRAM_SUMS_LIMIT}; otherwise sums the rows of each cut
- * directly, O(cuts · (nnz + cols · k)).
+ * directly, O(cuts · (nnz + cols · k)). `leafClusters[c]`, when given, is
+ * the cut `cuts[c]` already made ({@link cutToGroups}), so a caller that has
+ * the cuts does not make them again.
  */
 export function objectiveForCuts(
   matrix: Csr,
@@ -95,14 +97,16 @@ export function objectiveForCuts(
   tree: Dendrogram,
   cuts: readonly number[],
   gramLimit = 2048,
+  leafClusters?: readonly Int32Array[],
 ): Float64Array {
   const leaves = tree.leaves;
   const out = new Float64Array(cuts.length);
+  const cutAt = (c: number): Int32Array => leafClusters?.[c] ?? cutToGroups(tree, cuts[c]);
   if (leaves <= gramLimit && matrix.cols * leaves <= GRAM_SUMS_LIMIT) {
     const gram = leafGram(matrix, leafOf, leaves);
     const norm2 = new Float64Array(leaves);
     for (let c = 0; c < cuts.length; c++) {
-      const cluster = cutToGroups(tree, cuts[c]);
+      const cluster = cutAt(c);
       norm2.fill(0);
       for (let a = 0; a < leaves; a++) {
         const ga = cluster[a];
@@ -115,7 +119,7 @@ export function objectiveForCuts(
     return out;
   }
   for (let c = 0; c < cuts.length; c++) {
-    const cluster = cutToGroups(tree, cuts[c]);
+    const cluster = cutAt(c);
     const assign = new Int32Array(leafOf.length);
     for (let r = 0; r < leafOf.length; r++) assign[r] = leafOf[r] < 0 ? -1 : cluster[leafOf[r]];
     out[c] = sphericalObjective(matrix, assign, cuts[c]);
@@ -230,7 +234,8 @@ export function chooseFromTree(
   sample: { readonly sampleSize: number; readonly seed: number },
 ): TreeChoice {
   const sil = silhouetteForCuts(matrix, leafOf, tree, cuts, sample);
-  const objective = objectiveForCuts(matrix, leafOf, tree, cuts);
+  // The cuts the silhouette made, scored again for the objective (each cut made once).
+  const objective = objectiveForCuts(matrix, leafOf, tree, cuts, undefined, sil.cuts.map((c) => c.leafClusters));
   const curve = kneedle(cuts, objective);
   const tried: CutScore[] = cuts.map((g, i) => ({ groups: g, objective: objective[i], knee: curve.difference[i], silhouette: sil.cuts[i].mean }));
   const choice = chooseCut(tried, range);

@@ -66,6 +66,37 @@ export function parseGuide(text: string, source: string): Guide {
   return { source, groups };
 }
 
+/**
+ * Checks, before any document is read, that a run with these settings can
+ * take `guide`: method kmeans, a number of groups (at least as many as the
+ * guide names), and no previous run to continue. Throws `UsageError`.
+ */
+export function checkGuideRun(guide: Guide, settings: { readonly method: string; readonly groups: number | 'auto' | null }, withPrevious: boolean): void {
+  if (settings.method !== 'kmeans' || typeof settings.groups !== 'number') {
+    throw new UsageError(`a guide needs method kmeans and a number of groups; got method ${settings.method} and groups ${String(settings.groups ?? 'from minSimilarity')}`, 'guide');
+  }
+  if (withPrevious) throw new UsageError('give a guide or a previous run, not both (a guide starts the groups afresh; a previous run carries its own names)', 'guide');
+  const g = guide.groups.length;
+  if (g > settings.groups) throw new UsageError(`${guide.source} names ${g} groups; groups is ${settings.groups}: ask for at least as many groups as the guide names`, 'guide');
+}
+
+/**
+ * The rows of each guided group's example documents, given the documents' ids
+ * in row order; checked before the analysis. Throws `UsageError` for an id no
+ * document has.
+ */
+export function guideExampleRows(guide: Guide, ids: readonly string[]): Int32Array[] {
+  const rowOf = new Map<string, number>();
+  ids.forEach((id, r) => rowOf.set(id, r));
+  return guide.groups.map((grp, h) =>
+    Int32Array.from(grp.examples, (id) => {
+      const r = rowOf.get(id);
+      if (r === undefined) throw new UsageError(`${guide.source}: group ${h + 1} (${grp.name}): no document has the id ${JSON.stringify(id)}`, 'guide');
+      return r;
+    }),
+  );
+}
+
 /** The guide's centres in the space groups are formed in, and the settings that start k-means from them. */
 export interface GuidedStart {
   /** Unit centres of the guided groups in the grouping space, term-major `[dim * guided + h]`. */
@@ -82,8 +113,9 @@ export interface GuidedStart {
  * partition: each row in the group of the nearest start centre. The
  * non-guided start centres come from a seeded spherical k-means of all rows
  * with all k groups, less the k-means centres the guide's centres match best.
- * Throws `UsageError` for an unknown example id, seed terms the pile does not
- * know, more guided groups than `groups`, or a guided group no row is nearest to.
+ * The run's settings and the example ids are checked before
+ * ({@link checkGuideRun}, {@link guideExampleRows}). Throws `UsageError` for
+ * seed terms the pile does not know, or a guided group no row is nearest to.
  */
 export function guidedStart(
   guide: Guide,
@@ -91,7 +123,8 @@ export function guidedStart(
     readonly matrix: Csr;
     readonly grouping: Csr;
     readonly vocabulary: Vocabulary;
-    readonly ids: readonly string[];
+    /** Per guided group, the rows of its example documents ({@link guideExampleRows}). */
+    readonly examples: readonly Int32Array[];
     readonly analyze: (text: string) => string[];
     readonly project: ((rows: Csr) => Csr) | null;
     readonly groups: number;
@@ -100,10 +133,7 @@ export function guidedStart(
 ): GuidedStart {
   const g = guide.groups.length;
   const k = input.groups;
-  if (g > k) throw new UsageError(`${guide.source} names ${g} groups; groups is ${k}: ask for at least as many groups as the guide names`, 'guide');
   const V = input.vocabulary.terms.length;
-  const rowOf = new Map<string, number>();
-  input.ids.forEach((id, r) => rowOf.set(id, r));
   const dense = new Float64Array(g * V);
   guide.groups.forEach((grp, h) => {
     if (grp.terms.length) {
@@ -113,9 +143,7 @@ export function guidedStart(
       }
       for (let j = m.indptr[0]!; j < m.indptr[1]!; j++) dense[h * V + m.indices[j]!]! += m.values[j]!;
     }
-    for (const id of grp.examples) {
-      const r = rowOf.get(id);
-      if (r === undefined) throw new UsageError(`${guide.source}: group ${h + 1} (${grp.name}): no document has the id ${JSON.stringify(id)}`, 'guide');
+    for (const r of input.examples[h]!) {
       for (let j = input.matrix.indptr[r]!; j < input.matrix.indptr[r + 1]!; j++) dense[h * V + input.matrix.indices[j]!]! += input.matrix.values[j]! / grp.examples.length;
     }
   });

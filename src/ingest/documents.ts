@@ -20,7 +20,6 @@
  *
  * @module
  */
-import path from 'node:path';
 import { declaredHtmlCharset, type EncodingBasis } from './charset.js';
 import { decodeBuffer, InputSkip, type DecodeStats } from './decode.js';
 import { looksLikeDocx, looksLikeOle, readDocx } from './docx.js';
@@ -109,11 +108,6 @@ export function chooseReader(buf: Uint8Array, ext: string, complete: boolean): D
   if (looksLikeMail(buf, complete)) return 'eml';
   if (looksLikeHtml(buf)) return 'html';
   return 'text';
-}
-
-/** The extension, lower case, of a path (`''` for none). */
-export function extensionOf(p: string): string {
-  return path.extname(p).toLowerCase();
 }
 
 /**

@@ -7,6 +7,7 @@
  * @module
  */
 import { InputSkip } from './decode.js';
+import { oneLine } from './io-errors.js';
 import { capTitle, firstLine, normalizeNewlines } from './text.js';
 import { looksLikeZip, zipEntries, zipRead, type ZipEntry } from './zip.js';
 
@@ -50,11 +51,6 @@ let mammothModule: Promise<Mammoth> | null = null;
 function loadMammoth(): Promise<Mammoth> {
   mammothModule ??= import('mammoth').then((m) => ((m as { default?: Mammoth }).default ?? (m as unknown as Mammoth)));
   return mammothModule;
-}
-
-function oneLine(err: unknown): string {
-  const msg = err instanceof Error ? err.message : String(err);
-  return (msg.split('\n')[0] as string).replace(/\s+/g, ' ').trim().replace(/\.$/, '') || 'unknown error';
 }
 
 /**

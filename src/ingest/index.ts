@@ -151,6 +151,8 @@ export interface IngestResult {
   exportCounts: { readonly source: string; readonly rows: number; readonly documents: number }[];
   /** CSV records that swallowed lines shaped like rows, by line range (each also a warning). */
   mergedRecords: { readonly source: string; readonly firstLine: number; readonly lastLine: number; readonly rowLike: number }[];
+  /** Lower-case hex SHA-256 of each document file's bytes as read, by the document's `source` (no entry for exports, mailboxes, stdin). */
+  fileDigests: ReadonlyMap<string, string>;
 }
 
 /** Where ingest reads from. */
@@ -242,6 +244,8 @@ interface InputRead {
   readonly merged?: readonly MergedRecord[];
   /** A workbook was read (so the `sheet` option applied). */
   readonly workbook?: boolean;
+  /** Document files read: source → SHA-256 of the bytes (see `IngestResult.fileDigests`). */
+  readonly fileDigests?: ReadonlyMap<string, string>;
 }
 
 type Listing = Awaited<ReturnType<typeof listFolder>>;
@@ -427,6 +431,7 @@ function fileRead(label: string, one: OneFile, digest: InputDigest | null): Inpu
     isExport: false,
     decoding: one.decoding ? [one.decoding] : [],
     attachments: one.attachments ? [one.attachments] : [],
+    ...(one.doc && digest ? { fileDigests: new Map([[one.doc.source, digest.sha256]]) } : {}),
   };
 }
 
@@ -479,8 +484,8 @@ function wholeReaderFor(format: IngestFormat, ext: string): WholeKind | null {
 }
 
 /** Reads a file whose bytes are all in `buf` with its own reader: a workbook as an export, a mailbox as e-mails. */
-async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: string, opts: IngestOptions, idBase: string = posixPath(given)): Promise<InputRead> {
-  const digest: InputDigest = { path: given, kind: 'file', bytes: buf.length, sha256: createHash('sha256').update(buf).digest('hex') };
+async function readWholeFile(given: string, buf: Buffer, kind: WholeKind, ext: string, opts: IngestOptions, idBase: string = posixPath(given), sha256?: string): Promise<InputRead> {
+  const digest: InputDigest = { path: given, kind: 'file', bytes: buf.length, sha256: sha256 ?? createHash('sha256').update(buf).digest('hex') };
   if (kind === 'sheet') {
     if (OLD_SHEET_EXTENSIONS.has(ext) && !looksLikeXlsx(buf)) throw new InputSkip(OLD_WORKBOOK);
     const r = readXlsx(buf, given, opts);
@@ -623,7 +628,7 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
       // A mailbox in a folder: one e-mail document per message, ids `rel#N`.
       const none = { doc: null, skip: null, warnings: [], decoding: null, attachments: null, sha, bytes: buf.length };
       try {
-        return { ...none, mailbox: await readWholeFile(source, buf, 'mbox', ext, opts, rel) };
+        return { ...none, mailbox: await readWholeFile(source, buf, 'mbox', ext, opts, rel, sha) };
       } catch (err) {
         if (err instanceof InputSkip) return { ...none, skip: { source, reason: err.reason } };
         throw err;
@@ -638,6 +643,7 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
   const decoding: DecodingNote[] = [];
   const attachments: AttachmentNote[] = [];
   const digestLines: string[] = [];
+  const fileDigests = new Map<string, string>();
   let bytes = 0;
   listing.files.forEach((rel, i) => {
     const r = results[i] as One;
@@ -649,6 +655,7 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
       attachments.push(...r.mailbox.attachments);
     }
     if (r.doc) docs.push(r.doc);
+    if (r.doc && r.sha !== null) fileDigests.set(r.doc.source, r.sha);
     if (r.skip) skipped.push(r.skip);
     warnings.push(...r.warnings);
     if (r.decoding) decoding.push(r.decoding);
@@ -669,6 +676,7 @@ async function readFolderInput(given: string, abs: string, listing: Listing, opt
     isExport: false,
     decoding,
     attachments,
+    fileDigests,
   };
 }
 
@@ -888,6 +896,7 @@ export async function ingest(paths: readonly string[], options: Partial<IngestOp
     exportCounts: reads.flatMap((r) => (r.isExport && r.rowsSeen !== undefined ? [{ source: r.label, rows: r.rowsSeen, documents: r.docs.length }] : [])),
     mergedRecords: reads.flatMap((r) => (r.merged ?? []).map((m) => ({ source: r.label, ...m }))),
     titleColumns: reads.flatMap((r) => (r.titleColumn !== undefined ? [{ source: r.label, column: r.titleColumn }] : [])),
+    fileDigests: new Map(reads.flatMap((r) => [...(r.fileDigests ?? [])])),
   };
 }
 

@@ -29,3 +29,9 @@ export function isFsError(err: unknown): boolean {
   const e = err as { code?: unknown; syscall?: unknown } | null;
   return typeof e?.code === 'string' && (typeof e.syscall === 'string' || e.code === 'ERR_FS_FILE_TOO_LARGE');
 }
+
+/** The first line of an error's message, white space folded and a final full stop dropped (`unknown error` when empty): a reader's skip reason. */
+export function oneLine(err: unknown): string {
+  const msg = err instanceof Error ? err.message : String(err);
+  return (msg.split('\n')[0] as string).replace(/\s+/g, ' ').trim().replace(/\.$/, '') || 'unknown error';
+}

@@ -6,7 +6,7 @@
  *
  * pdf.js runs in this thread (its "fake worker"), with `eval` off, no font
  * loading and messages silenced (verbosity 0); what it prints while loading
- * is captured, never written to stdout ({@link pdfjsLoadMessages}). Character maps for
+ * is dropped, never written to stdout. Character maps for
  * non-embedded CJK fonts are read from the package's `cmaps/` folder.
  *
  * @module
@@ -15,6 +15,7 @@ import { createRequire } from 'node:module';
 import path from 'node:path';
 import { createInflate } from 'node:zlib';
 import { InputSkip } from './decode.js';
+import { oneLine } from './io-errors.js';
 import { capTitle, firstLine } from './text.js';
 
 /** The PDF signature, which must appear in the first {@link PDF_HEADER_WINDOW} bytes. */
@@ -64,7 +65,7 @@ function inflatedBytes(data: Buffer, budget: number): Promise<number> {
  * does not say `/Image`) unpack to more than `limit` bytes in all. Streams
  * are found as `stream` … `endstream`, their dictionary in the 4 KiB before.
  */
-export async function pdfInflatesPast(bytes: Uint8Array, limit: number): Promise<boolean> {
+async function pdfInflatesPast(bytes: Uint8Array, limit: number): Promise<boolean> {
   const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   let total = 0;
   let at = 0;
@@ -114,27 +115,17 @@ interface TextItemLike {
 type PdfjsModule = typeof import('pdfjs-dist/legacy/build/pdf.mjs');
 let pdfjsModule: Promise<PdfjsModule> | null = null;
 
-/** What pdf.js printed while it loaded, kept here instead of on stdout (see {@link pdfjsLoadMessages}). */
-const loadMessages: string[] = [];
-
 /**
- * The lines pdf.js wrote with `console.log` while its module loaded — in
- * Node, without the optional `@napi-rs/canvas` package, "Warning: Cannot
- * load …" and "Warning: Cannot polyfill `DOMMatrix` …" (rendering only; text
- * extraction does not need them). pdf.js prints them on module load, before
- * any `verbosity` option can apply, and stdout carries data only (`--json`
- * must parse), so they are captured as data here; empty until a PDF is read.
+ * pdf.js, loaded once. What it writes with `console.log` while its module
+ * loads — in Node, without the optional `@napi-rs/canvas` package, "Warning:
+ * Cannot load …" and "Warning: Cannot polyfill `DOMMatrix` …" (rendering only;
+ * text extraction does not need them) — comes before any `verbosity` option
+ * can apply; stdout carries data only (`--json` must parse), so it is dropped.
  */
-export function pdfjsLoadMessages(): readonly string[] {
-  return loadMessages;
-}
-
 function loadPdfjs(): Promise<PdfjsModule> {
   pdfjsModule ??= (async () => {
     const log = console.log;
-    console.log = (...args: unknown[]): void => {
-      loadMessages.push(args.map(String).join(' '));
-    };
+    console.log = (): void => {};
     try {
       // Later messages are off: every document is opened with `verbosity: 0`, which pdf.js also makes its global level.
       return await import('pdfjs-dist/legacy/build/pdf.mjs');
@@ -157,11 +148,6 @@ function pdfjsFolder(): string | null {
     }
   }
   return assetRoot;
-}
-
-function oneLine(err: unknown): string {
-  const msg = err instanceof Error ? err.message : String(err);
-  return (msg.split('\n')[0] as string).replace(/\s+/g, ' ').trim().replace(/\.$/, '') || 'unknown error';
 }
 
 /** Titles that are no title: empty, placeholders, or a file name. */

@@ -25,6 +25,7 @@
 import { Parser } from 'htmlparser2';
 import { UsageError, show } from '../util/errors.js';
 import { InputSkip } from './decode.js';
+import { oneLine } from './io-errors.js';
 import { looksLikeOle } from './docx.js';
 import { looksLikeZip, zipEntries, zipRead, type ZipEntry } from './zip.js';
 import { readRowTable, type RowTableOptions } from './rows.js';
@@ -147,11 +148,6 @@ export function serialToText(serial: number, date1904: boolean): string {
   return secs === 0 ? date : `${date} ${time}`;
 }
 
-function oneLine(err: unknown): string {
-  const msg = err instanceof Error ? err.message : String(err);
-  return (msg.split('\n')[0] as string).replace(/\s+/g, ' ').trim().replace(/\.$/, '') || 'unknown error';
-}
-
 class Workbook {
   private readonly byName = new Map<string, ZipEntry>();
 
@@ -251,7 +247,7 @@ export function sharedStrings(xml: string): string[] {
 }
 
 /** For each cell format (`cellXfs` index), whether it shows a date or time. */
-export function dateStyles(xml: string): boolean[] {
+function dateStyles(xml: string): boolean[] {
   const custom = new Map<number, string>();
   const out: boolean[] = [];
   let inXfs = 0;
@@ -280,7 +276,7 @@ function numberText(v: string, isDate: boolean, date1904: boolean): string {
 }
 
 /** A sheet's rows: each row's cells (by column), with its row number; rows with no non-empty cell left out. */
-export function sheetRows(
+function sheetRows(
   xml: string,
   strings: readonly string[],
   dates: readonly boolean[],

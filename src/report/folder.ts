@@ -158,7 +158,7 @@ export async function writeOutput(dir: string, files: ReadonlyMap<string, FileCo
 }
 
 /** The manifest text for a folder holding `names` (see {@link OutputManifest}). */
-export function manifestText(names: readonly string[]): string {
+function manifestText(names: readonly string[]): string {
   const manifest: OutputManifest = {
     sheaf: 'output folder',
     note: 'sheaf wrote this folder and replaces it on a later run only while it holds nothing but the files listed here',
@@ -323,7 +323,7 @@ export function removeLiveStagingSync(): string[] {
 }
 
 /** True when process `pid` exists (signal 0 checks without sending; EPERM means it exists under another user). */
-export function processAlive(pid: number): boolean {
+function processAlive(pid: number): boolean {
   try {
     process.kill(pid, 0);
     return true;

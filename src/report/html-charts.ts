@@ -37,7 +37,7 @@ export function groupName(g: Pick<Group, 'id' | 'label'>, max = 1000): string {
 }
 
 /** A group's number inside an SVG text, set apart from the name by its own style. */
-export function groupNumberSvg(id: number): string {
+function groupNumberSvg(id: number): string {
   return `<tspan class="gno-svg">${e(id)}</tspan> `;
 }
 

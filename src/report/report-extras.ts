@@ -12,7 +12,7 @@ import type { Evaluation } from './outputs.js';
 import type { ReportEvaluation, ReportTrends } from './report-data.js';
 
 /** Terms kept in the name of a merge of the tree. */
-export const MERGE_NAME_TERMS = 3;
+const MERGE_NAME_TERMS = 3;
 
 /** Group × group cosine of unit term-major centres (`centroids[t * k + g]`), row-major k × k. */
 export function centreSimilarity(centroids: Float32Array, cols: number, k: number): number[] {

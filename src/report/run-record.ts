@@ -91,7 +91,7 @@ export function groupRunJson(result: GroupResult, x: GroupRunInput): string {
   return jsonText(groupRunRecord(result, x));
 }
 
-/** The value behind {@link groupRunJson}, for an edge that adds to it (the CLI adds file digests) before writing. */
+/** The value behind {@link groupRunJson}, for an edge that adds to it (the CLI adds trends and the page's size) before writing. */
 export function groupRunRecord(result: GroupResult, x: GroupRunInput): Record<string, unknown> {
   const { read } = x;
   const o = result.options;
@@ -143,8 +143,12 @@ export function groupRunRecord(result: GroupResult, x: GroupRunInput): Record<st
     ...methodOf(result).runRecord(result),
     evaluation: x.evaluation ? evaluationJson(x.evaluation) : null,
     cwd: x.context.cwd,
-    // Documents read from files of their own (not export rows), so `sheaf organize` can sort the files.
-    files: fileDocuments(result.docs, read).map((d) => ({ id: d.id, path: path.resolve(x.context.cwd, d.source) })),
+    // Documents read from files of their own (not export rows), so `sheaf organize` can sort the files; with the
+    // SHA-256 of the bytes read, so it copies only those very bytes.
+    files: fileDocuments(result.docs, read).map((d) => {
+      const sha256 = read.fileDigests.get(d.source);
+      return { id: d.id, path: path.resolve(x.context.cwd, d.source), ...(sha256 !== undefined ? { sha256 } : {}) };
+    }),
     skipped: read.skipped,
     warnings: read.warnings,
     ...readingRecord(read, result.clean),
