@@ -52,7 +52,7 @@ const oneLineDoc = fc.tuple(fc.array(fc.tuple(blank, eol), { maxLength: 2 }), li
   ([before, l, after]) => before.map(([b, e]) => b + e).join('') + l + after.map(([e, b]) => e + b).join(''),
 );
 const anyDoc = fc.array(fc.tuple(line, eol), { minLength: 1, maxLength: 6 }).map((ls) => ls.map(([l, e]) => l + e).join(''));
-const asDocs = (texts: string[]): Doc[] => texts.map((text, i) => ({ id: String(i), source: 'x.csv', title: `t${i}`, text }));
+const asDocs = (texts: string[]): Doc[] => texts.map((text, i) => ({ id: String(i), source: 'x.csv', title: `t${i}`, text, fields: new Map<string, string>() }));
 
 describe('one-line documents in the auto cleaning stage', () => {
   const settings = resolveCleanStage({ mode: 'auto' });
