@@ -13,7 +13,6 @@ import { versions } from './versions.js';
 import { progressReporter } from './progress.js';
 import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, readInputs, type GroupFlags } from './inputs.js';
 import { duplicatesRunJson } from '../report/run-record.js';
-import { vectorFiles } from '../report/group-outputs.js';
 import { renderTable, clip } from './table.js';
 import { visible, visibleJson, visibleLines } from './visible.js';
 import { findDuplicatesAsync, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
@@ -117,6 +116,8 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   ]);
   const written = (await writeOutputFolder(outDir, flags.bom === false ? files : withCsvBom(files))).map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
+    // Loaded only here: the grouping outputs' module brings the model reader (zod) a near-copy run does not otherwise need.
+    const { vectorFiles } = await import('../report/group-outputs.js');
     const v = await writeOutputFolder(path.resolve(io.cwd, flags.saveVectors), vectorFiles(run.matrix, run.columns, run.docs));
     written.push(...v.map((p) => path.join(flags.saveVectors as string, path.basename(p))));
   }
