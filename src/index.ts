@@ -74,7 +74,7 @@ export type { AgglomerativeOutcome } from './methods/agglomerative.js';
 export { ingest, resolveIngestOptions, DEFAULT_INGEST_OPTIONS, type IngestOptions, type IngestResult, type IngestIo, type InputDigest } from './ingest/index.js';
 export { cleanStage, resolveCleanStage, DEFAULT_CLEAN_STAGE, CLEAN_CHOICES, type CleanChoice, type CleanSettings, type CleanStageOptions, type DocumentInput } from './clean/stage.js';
 export { cleanDocuments, resolveCleanOptions, DEFAULT_CLEAN_OPTIONS, PLACEHOLDERS, type CleanOptions, type CleanReport, type CleanMode } from './clean/index.js';
-export { findDuplicates, nearCopiesOfVectors, resolveFindDuplicatesOptions, type FindDuplicatesOptions, type DuplicateRun, type CompareBy } from './near-copies.js';
+export { findDuplicates, findDuplicatesAsync, nearCopiesOfVectors, resolveFindDuplicatesOptions, type FindDuplicatesOptions, type DuplicateRun, type CompareBy } from './near-copies.js';
 export { documentsCsv, groupsJson, treeNewick, evaluateLabels, type Evaluation } from './report/outputs.js';
 export { duplicatesCsv, duplicatesJson, duplicatesJsonChunks, nearCopyPairsCsvChunks, listedPairs, PAIRS_FILE, OTHER_PAIRS_PER_SET } from './report/duplicates.js';
 export { groupOutputs, groupSummaryJson, vectorFiles, type GroupOutputOptions, type GroupNearCopies } from './report/group-outputs.js';

@@ -25,8 +25,10 @@ import {
 } from './duplicates/index.js';
 import type { StageTiming } from './types.js';
 import type { PipelineHooks } from './hooks.js';
+import type { VectorizeRunner } from './runners.js';
 import { canonicalOrder } from './util/id-order.js';
 import { selectRows } from './util/csr.js';
+import { rowsThatMayRepeat } from './duplicates/repeated-rows.js';
 import { UsageError, show } from './util/errors.js';
 
 /** What two documents are compared by. */
@@ -147,9 +149,8 @@ export function findDuplicates(input: readonly Doc[], options: FindDuplicatesOpt
   const o = resolveFindDuplicatesOptions(options);
   const { docs, inputOrder } = canonicalOrder(input);
   const now = hooks.now ?? (() => 0);
-  const timings: StageTiming[] = [];
   const n = docs.length;
-  let t0 = now();
+  const t0 = now();
   let matrix: Csr;
   let columns: readonly string[] | null = null;
   const stage = o.by === 'tfidf' ? 'analyze' : 'shingles';
@@ -178,10 +179,52 @@ export function findDuplicates(input: readonly Doc[], options: FindDuplicatesOpt
       o.shingle,
     );
   }
-  timings.push({ stage: o.by === 'tfidf' ? 'analyze+vectorize' : 'shingles', ms: now() - t0, items: n });
-
-  t0 = now();
   rowsDone?.(n);
+  return joinVectors(docs, inputOrder, o, matrix, columns, now() - t0, hooks);
+}
+
+/**
+ * {@link findDuplicates} with the analyze+vectorize step handed to `runners.vectorize`
+ * (e.g. `vectorizeRunner(threads)` of src/parallel, which analyzes large inputs on
+ * several threads): the same run, bit for bit. Shingles, or no runner, run as
+ * {@link findDuplicates} does.
+ */
+export async function findDuplicatesAsync(
+  input: readonly Doc[],
+  options: FindDuplicatesOptions = {},
+  runners: { readonly vectorize?: VectorizeRunner } = {},
+  hooks: PipelineHooks = {},
+): Promise<DuplicateRun> {
+  const o = resolveFindDuplicatesOptions(options);
+  const runner = runners.vectorize;
+  if (o.by !== 'tfidf' || runner === undefined) return findDuplicates(input, options, hooks);
+  const { docs, inputOrder } = canonicalOrder(input);
+  const now = hooks.now ?? (() => 0);
+  const t0 = now();
+  const progress = hooks.progress;
+  const fit = await runner({
+    texts: docs.map((d) => d.text),
+    analyzer: o.analyzer,
+    vectorize: o.vectorize,
+    onProgress: progress ? (done, total) => progress('analyze', done, total) : undefined,
+  });
+  return joinVectors(docs, inputOrder, o, fit.matrix, fit.vocabulary.terms, now() - t0, hooks);
+}
+
+/** The second half of a search: the join, the sets and the diffs over the vectors made, with the timings. */
+function joinVectors(
+  docs: readonly Doc[],
+  inputOrder: Int32Array,
+  o: ResolvedFindDuplicates,
+  matrix: Csr,
+  columns: readonly string[] | null,
+  vectorMs: number,
+  hooks: PipelineHooks,
+): DuplicateRun {
+  const now = hooks.now ?? (() => 0);
+  const n = docs.length;
+  const timings: StageTiming[] = [{ stage: o.by === 'tfidf' ? 'analyze+vectorize' : 'shingles', ms: vectorMs, items: n }];
+  const t0 = now();
   const found = nearCopiesOfVectors(docs, matrix, o, hooks.progress ? (done, total) => hooks.progress?.('near-copies', done, total) : undefined);
   timings.push({ stage: 'join+sets', ms: now() - t0, items: n });
   return { docs, inputOrder, options: o, matrix, columns, ...found, timings };
@@ -202,10 +245,12 @@ export function nearCopiesOfVectors(
   // Progress by rows: the copy keys row by row, then the join's rows once it is done (it reports no steps of its own).
   const n = docs.length;
   const rowsDone = progress ? everyPercent(2 * n, (done) => progress(done, 2 * n)) : null;
+  // Equal copy keys mean equal vectors: keys only for rows another row may equal ('' = never a copy, as a key of its own would be).
+  const mayRepeat = rowsThatMayRepeat(matrix);
   const copyGroup = exactCopies(
     docs.map((d, i) => {
       rowsDone?.(i);
-      return copyKey(d.text);
+      return mayRepeat[i] ? copyKey(d.text) : '';
     }),
   );
   rowsDone?.(n);

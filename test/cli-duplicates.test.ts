@@ -119,6 +119,7 @@ describe('bad input', () => {
     [['--threshold', '1.5'], 'sheaf: --threshold must be a number in (0, 1]; got 1.5\n'],
     [['--by', 'letters'], 'sheaf: --by must be one of tfidf, shingles; got "letters"\n'],
     [['--by', 'shingles', '--shingle', '0'], 'sheaf: --shingle must be a whole number from 1 to 100; got 0\n'],
+    [['--threads', '0'], 'sheaf: --threads must be a whole number from 1 to 64; got 0\n'],
   ])('%j', async (flags, message) => {
     const run = await sheaf(['duplicates', demoCsv, '--text', 'body', '--out', path.join(tempDir(), 'o'), ...flags]);
     expect(run.stderr).toBe(message);

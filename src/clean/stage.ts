@@ -12,6 +12,7 @@ import { UsageError, show } from '../util/errors.js';
 import { cleanDocuments, type CleanReport } from './index.js';
 import { PLACEHOLDERS } from './placeholders.js';
 import { DEFAULT_CLEAN_OPTIONS, resolveCleanOptions, type CleanOptions } from './options.js';
+import { noClutterPossible } from './one-line.js';
 
 /** Which documents the stage cleans: `auto` (export rows only), `tickets` (all) or `none`. */
 export type CleanChoice = 'auto' | 'tickets' | 'none';
@@ -82,6 +83,11 @@ export const AUTO_CLUTTER_SHARE = 0.2;
  */
 export function cleanStage(input: DocumentInput, settings: CleanSettings): { docs: Doc[]; report: CleanReport } {
   const { docs } = input;
+  if (settings.mode === 'auto' && settings.detect && docs.length > 0 && noClutterPossible(docs)) {
+    // One-line documents: no clutter can be counted (see one-line.ts), so the pile is kept as written without a cleaning pass.
+    const none = cleanDocuments(docs, { ...settings.rules, mode: 'none' }).report;
+    return { docs: docs.slice(), report: { ...none, withClutter: 0, detected: { share: 0, threshold: AUTO_CLUTTER_SHARE, applied: false } } };
+  }
   let out =
     settings.mode === 'none'
       ? cleanDocuments(docs, { ...settings.rules, mode: 'none' })

@@ -5,6 +5,7 @@
  * @module
  */
 import path from 'node:path';
+import { availableParallelism } from 'node:os';
 import type { Command } from 'commander';
 import type { CliIo } from './io.js';
 import { decimal, wholeNumber } from './parse.js';
@@ -12,10 +13,9 @@ import { versions } from './versions.js';
 import { progressReporter } from './progress.js';
 import { addAnalysisFlags, addInputFlags, analysisOptionsFromFlags, ingestOptionsFromFlags, readInputs, type GroupFlags } from './inputs.js';
 import { duplicatesRunJson } from '../report/run-record.js';
-import { vectorFiles } from '../report/group-outputs.js';
 import { renderTable, clip } from './table.js';
 import { visible, visibleJson, visibleLines } from './visible.js';
-import { findDuplicates, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
+import { findDuplicatesAsync, resolveFindDuplicatesOptions, type CompareBy, type DuplicateRun, type FindDuplicatesOptions, type MemberDiff } from '../near-copies.js';
 import { PAIRS_FILE, duplicatesCsv, duplicatesJsonChunks, nearCopyPairsCsvChunks } from '../report/duplicates.js';
 import { jsonText } from '../report/outputs.js';
 import { fixed, withCsvBom } from '../report/csv.js';
@@ -23,6 +23,8 @@ import { writeOutputFolder, type FileContent } from '../report/folder.js';
 import { checkOutputFolders } from './out-paths.js';
 import type { DiffPiece } from '../duplicates/index.js';
 import { duplicatesReportFile } from './report-inputs.js';
+import { vectorizeRunner } from '../parallel/runners.js';
+import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
 
 interface DuplicatesFlags extends GroupFlags {
   threshold?: string;
@@ -44,6 +46,7 @@ export function registerDuplicates(program: Command, io: CliIo, setExit: (code: 
     .option('--by <what>', 'tfidf (shared words, order ignored) or shingles (runs of words: order matters)', 'tfidf')
     .option('--shingle <w>', 'words per shingle with --by shingles (default 4)')
     .option('--show <n>', 'print what differs inside the n strongest sets', '0')
+    .option('--threads <n>', 'threads for the analysis of large inputs (default: up to 2, the cores there are)')
     .option('--out <dir>', 'output folder', 'sheaf-duplicates')
     .option('--save-vectors <dir>', 'also write the vectors compared (MatrixMarket), their columns (terms.txt, with --by tfidf) and ids')
     .option('--no-bom', 'write the CSV files without the UTF-8 byte order mark (spreadsheets need it to show accents right)')
@@ -75,6 +78,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   const show = wholeNumber(flags.show, 'show') ?? 0;
   const ingestOptions = ingestOptionsFromFlags(flags);
   const options = await duplicateOptionsFromFlags(flags, io, Math.max(show, 10));
+  const threads = resolveParallelOptions({ threads: wholeNumber(flags.threads, 'threads') ?? Math.min(2, availableParallelism()) }).threads;
   const outDir = path.resolve(io.cwd, flags.out);
   await checkOutputFolders({ inputs, alsoReads: [flags.stopwords], out: flags.out, saveVectors: flags.saveVectors, quiet: flags.quiet }, io);
   const note = (line: string): void => {
@@ -86,7 +90,7 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   const bar = progressReporter(io, flags.quiet ?? false);
   let run: DuplicateRun;
   try {
-    run = findDuplicates(docs, options, { now, progress: (stage, d, t) => bar.update(stage, d, t) });
+    run = await findDuplicatesAsync(docs, options, { vectorize: vectorizeRunner(threads) }, { now, progress: (stage, d, t) => bar.update(stage, d, t) });
   } finally {
     bar.done();
   }
@@ -112,6 +116,8 @@ async function runDuplicates(inputs: string[], flags: DuplicatesFlags, io: CliIo
   ]);
   const written = (await writeOutputFolder(outDir, flags.bom === false ? files : withCsvBom(files))).map((p) => path.join(flags.out, path.basename(p)));
   if (flags.saveVectors) {
+    // Loaded only here: the grouping outputs' module brings the model reader (zod) a near-copy run does not otherwise need.
+    const { vectorFiles } = await import('../report/group-outputs.js');
     const v = await writeOutputFolder(path.resolve(io.cwd, flags.saveVectors), vectorFiles(run.matrix, run.columns, run.docs));
     written.push(...v.map((p) => path.join(flags.saveVectors as string, path.basename(p))));
   }

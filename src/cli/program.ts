@@ -7,12 +7,6 @@
 import { Command, CommanderError } from 'commander';
 import type { CliIo } from './io.js';
 import { usageLine } from './parse.js';
-import { registerGroup, registerTree } from './group.js';
-import { registerEvaluate } from './evaluate.js';
-import { registerDuplicates } from './duplicates.js';
-import { registerAssign } from './assign.js';
-import { registerOrganize } from './organize.js';
-import { registerTermCounts } from './term-counts.js';
 import { versions } from './versions.js';
 import { visible } from './visible.js';
 import { restoreTerminal } from './progress.js';
@@ -21,8 +15,24 @@ import { UsageError } from '../util/errors.js';
 /** Exit codes: 0 done, 1 failed while running, 2 bad usage or unusable input. */
 export const EXIT = Object.freeze({ ok: 0, failed: 1, usage: 2 });
 
-/** Builds the program; `setExit` receives the exit code an action decides on. */
-export function createProgram(io: CliIo, setExit: (code: number) => void): Command {
+type Register = (program: Command, io: CliIo, setExit: (code: number) => void) => void;
+
+/** The commands by module, in the order help lists them; a module is loaded only when one of its commands is wanted. */
+const COMMAND_MODULES: readonly (readonly [readonly string[], () => Promise<readonly Register[]>])[] = [
+  [['group', 'tree'], async () => import('./group.js').then((m) => [m.registerGroup, m.registerTree])],
+  [['duplicates'], async () => import('./duplicates.js').then((m) => [m.registerDuplicates])],
+  [['evaluate'], async () => import('./evaluate.js').then((m) => [m.registerEvaluate])],
+  [['assign'], async () => import('./assign.js').then((m) => [m.registerAssign])],
+  [['organize'], async () => import('./organize.js').then((m) => [m.registerOrganize])],
+  [['count-terms', 'merge-counts'], async () => import('./term-counts.js').then((m) => [m.registerTermCounts])],
+];
+
+/**
+ * Builds the program; `setExit` receives the exit code an action decides on.
+ * With `command` naming a command, only that command's module is loaded and
+ * registered (a run does not load the code of the others); otherwise all are.
+ */
+export async function createProgram(io: CliIo, setExit: (code: number) => void, command?: string): Promise<Command> {
   const program = new Command('sheaf')
     .description('Sort a pile of text documents into named groups, a tree of themes and near-copy sets.')
     .version(versions().sheaf, '-V, --version')
@@ -33,13 +43,8 @@ export function createProgram(io: CliIo, setExit: (code: number) => void): Comma
       writeErr: (s) => io.stderr.write(s),
       outputError: (s, write) => write(s.replace(/^error: /, 'sheaf: ')),
     });
-  registerGroup(program, io, setExit);
-  registerTree(program, io, setExit);
-  registerDuplicates(program, io, setExit);
-  registerEvaluate(program, io, setExit);
-  registerAssign(program, io, setExit);
-  registerOrganize(program, io, setExit);
-  registerTermCounts(program, io, setExit);
+  const only = COMMAND_MODULES.filter(([names]) => command !== undefined && names.includes(command));
+  for (const [, load] of only.length > 0 ? only : COMMAND_MODULES) for (const register of await load()) register(program, io, setExit);
   for (const sub of program.commands) {
     sub.exitOverride().configureOutput({
       writeOut: (s) => io.stdout.write(s),
@@ -70,9 +75,13 @@ function knownOptions(program: Command): string[] {
  */
 export async function runCli(argv: readonly string[], io: CliIo): Promise<number> {
   let code: number = EXIT.ok;
-  const program = createProgram(io, (c) => {
-    code = c;
-  });
+  const program = await createProgram(
+    io,
+    (c) => {
+      code = c;
+    },
+    argv[0],
+  );
   if (argv.length === 0) {
     program.outputHelp();
     return EXIT.usage;
@@ -89,7 +98,9 @@ export async function runCli(argv: readonly string[], io: CliIo): Promise<number
       return EXIT.usage; // commander already printed its one line
     }
     if (err instanceof UsageError) {
-      io.stderr.write(`sheaf: ${visible(usageLine(err, knownOptions(program), argv[0]))}\n`);
+      // The flags of every command, as when all were registered (the run may have loaded only its own).
+      const all = await createProgram(io, () => undefined);
+      io.stderr.write(`sheaf: ${visible(usageLine(err, knownOptions(all), argv[0]))}\n`);
       return EXIT.usage;
     }
     const e = err as Error;

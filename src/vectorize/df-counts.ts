@@ -225,20 +225,8 @@ export function termCountsFromJson(text: string, shownPath = 'counts'): TermCoun
   return sealCounts({ analyzer, cleaning: m.cleaning, documents: m.documents, terms: Object.freeze(m.terms), df: Float64Array.from(m.df) });
 }
 
-/**
- * Document frequency of each term of `terms` in the counts (0 when absent),
- * by one merge pass when `terms` are sorted, else by lookups.
- */
-export function countsFor(c: TermCounts, terms: readonly string[]): Float64Array {
-  const out = new Float64Array(terms.length);
-  const index = new Map<string, number>();
-  for (let j = 0; j < c.terms.length; j++) index.set(c.terms[j], j);
-  for (let j = 0; j < terms.length; j++) {
-    const at = index.get(terms[j]);
-    if (at !== undefined) out[j] = c.df[at];
-  }
-  return out;
-}
+// countsFor lives in counts-for.ts (no zod), so that fitting TF-IDF does not load the counts file reader.
+export { countsFor } from './counts-for.js';
 
 /**
  * Checks counts meant to give a run's idf: made with the run's analyzer

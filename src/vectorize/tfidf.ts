@@ -20,7 +20,7 @@ import { Float32Buffer, IntBuffer } from './buffers.js';
 import { TermCollector, type TermSegment } from './collect.js';
 import { effectiveMinDf, isShare, resolveVectorizeOptions, type VectorizeOptions } from './options.js';
 import { smoothIdf, weightInPlace } from './weight.js';
-import { countsFor } from './df-counts.js';
+import { countsFor } from './counts-for.js';
 
 /**
  * The fitted terms. `terms` are in code-unit (`<`) order, so column `j` of
