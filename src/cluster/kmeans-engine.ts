@@ -29,6 +29,7 @@ import {
   LIST_ACTIVE,
   LIST_BATCH,
   LIST_SAMPLE,
+  LIST_SCREEN,
   STAT_CHANGED,
   STAT_DOTS,
   STAT_LENGTH,
@@ -77,6 +78,10 @@ export interface KMeansPlan {
   readonly miniBatch: boolean;
   /** The validated starting partition, or null to seed with k-means++. */
   readonly initial: ArrayLike<number> | null;
+  /** Rows in the screening sample (see {@link screenedSteps}), or 0 when restarts run on all rows from the start. */
+  readonly screenSize: number;
+  /** Restarts continued on all rows after screening (1 .. restarts; unused when `screenSize` is 0). */
+  readonly screenKeep: number;
 }
 
 /**
@@ -155,6 +160,16 @@ export interface Workspace extends KernelArrays {
   readonly request: { work: number; list: number; count: number };
   /** Sums over the blocks of the last pass: changed, scored, skipped (see `STAT_*`). */
   readonly passStats: Float64Array;
+  /**
+   * The rows the Lloyd passes, centroid updates and objective walk, and the
+   * kernel list that names them: `active` / {@link LIST_ACTIVE}, or the
+   * screening sample `screen` / {@link LIST_SCREEN} while screening.
+   */
+  pile: Int32Array;
+  pileList: number;
+  /** Screening: centroids and member counts of the restarts kept so far, `screenKeep` slots. */
+  readonly keptCentroids: Float32Array;
+  readonly keptCounts: Int32Array;
   /** Rows scored in full, rows skipped and dot products, over every pass of every restart. */
   scoredTotal: number;
   skippedTotal: number;
@@ -208,7 +223,10 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     trials: alloc.float64(seedTrials(k) * seedSampleSize(plan.nonEmpty, k, options.batchSize)),
     active,
     batch: alloc.int32(plan.miniBatch ? options.batchSize : 0),
-    sample: alloc.int32(plan.miniBatch || plan.nonEmpty > seedSampleSize(plan.nonEmpty, k, options.batchSize) ? plan.nonEmpty : 0),
+    sample: alloc.int32(
+      plan.miniBatch || plan.screenSize > 0 || plan.nonEmpty > seedSampleSize(plan.nonEmpty, k, options.batchSize) ? plan.nonEmpty : 0,
+    ),
+    screen: alloc.int32(plan.screenSize),
     scores: new Float64Array(k),
     bestAssign: new Int32Array(n),
     bestFit: new Float64Array(n),
@@ -232,6 +250,10 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     bestDotsByPass: new Float64Array(slots),
     request: { work: WORK_ASSIGN_PLAIN, list: LIST_ACTIVE, count: 0 },
     passStats: new Float64Array(STAT_LENGTH),
+    pile: active,
+    pileList: LIST_ACTIVE,
+    keptCentroids: new Float32Array(plan.screenSize > 0 ? plan.screenKeep * d * k : 0),
+    keptCounts: new Int32Array(plan.screenSize > 0 ? plan.screenKeep * k : 0),
     scoredTotal: 0,
     skippedTotal: 0,
     dotsTotal: 0,
@@ -259,6 +281,8 @@ export type KMeansProgress = (done: number, total: number) => void;
 export interface RunSummary {
   readonly kept: RestartOutcome;
   readonly restartObjectives: Float64Array;
+  /** Objective of each restart on the screening sample (empty without screening). */
+  readonly screenObjectives: Float64Array;
 }
 
 /** Describes the next pass in `ws.request` and clears `ws.passStats`; the caller then yields. */
@@ -287,6 +311,7 @@ function tally(ws: Workspace, pass: number): void {
  * returns the kept restart's outcome and every restart's objective.
  */
 export function* kmeansSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMeansProgress): Generator<void, RunSummary, void> {
+  if (plan.screenSize > 0) return yield* screenedSteps(ws, plan, onProgress);
   const opts = plan.options;
   const restarts = plan.initial ? 1 : opts.restarts;
   // Progress: steps of every restart (Lloyd passes or mini-batch steps), a restart that stops early jumps to its end.
@@ -308,7 +333,101 @@ export function* kmeansSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMean
       ws.bestDotsByPass.set(ws.dotsByPass);
     }
   }
-  return { kept: kept!, restartObjectives };
+  return { kept: kept!, restartObjectives, screenObjectives: new Float64Array(0) };
+}
+
+/** Keeps the current restart's outcome in `ws.best*` when it beats `kept` (ties to the earlier restart). */
+function keepIfBetter(ws: Workspace, kept: RestartOutcome | undefined, outcome: RestartOutcome): RestartOutcome {
+  if (kept !== undefined && !(outcome.objective > kept.objective)) return kept;
+  ws.bestAssign.set(ws.assign);
+  ws.bestFit.set(ws.fit);
+  ws.bestCentroids.set(ws.centroids);
+  ws.bestSkippedByPass.set(ws.skippedByPass);
+  ws.bestDotsByPass.set(ws.dotsByPass);
+  return outcome;
+}
+
+/** Index of the seed stream of the screening sample (restarts use 0 .. restarts − 1). */
+const SCREEN_STREAM = 0x7fffffff;
+
+/**
+ * The run with screened restarts. A seeded uniform sample of `screenSize`
+ * active rows (drawn once, kept in row order in `ws.screen`) stands in for
+ * the pile: every restart seeds (k-means++, from restart r's stream, as
+ * unscreened) and runs its Lloyd passes on the sample only. The
+ * `screenKeep` restarts with the best sample objective (ties to the earlier
+ * restart) then continue, in restart order, on all rows from their sample
+ * centroids: Lloyd passes, or mini-batch steps with each centroid's learning
+ * count starting at its sample members, then the final full pass. The best
+ * objective on all rows is kept (ties to the earlier restart). Every draw
+ * comes from seeded streams and every sum runs in a fixed order on the
+ * calling thread, so the result is the same on any number of threads.
+ */
+function* screenedSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMeansProgress): Generator<void, RunSummary, void> {
+  const opts = plan.options;
+  const { k, active, screen, keptCentroids, keptCounts } = ws;
+  const restarts = opts.restarts;
+  const keep = Math.min(plan.screenKeep, restarts);
+  const dk = ws.centroids.length;
+  const fullPer = plan.miniBatch ? opts.batchIterations : opts.maxIterations;
+  const total = restarts * opts.maxIterations + keep * fullPer;
+  let done = 0;
+  const step = (per: number) => (onProgress ? (s: number) => onProgress(done + Math.min(s, per), total) : undefined);
+
+  drawSample(ws, active, screen.length, createRng(deriveSeed(opts.seed, SCREEN_STREAM)));
+  screen.set(ws.sample.subarray(0, screen.length));
+  screen.sort();
+
+  const screenObjectives = new Float64Array(restarts);
+  const slotObjective = new Float64Array(keep);
+  const slotRestart = new Int32Array(keep).fill(-1);
+  ws.pile = screen;
+  ws.pileList = LIST_SCREEN;
+  for (let r = 0; r < restarts; r++) {
+    const outcome = yield* lloydRestart(ws, createRng(deriveSeed(opts.seed, r)), null, step(opts.maxIterations));
+    done += opts.maxIterations;
+    onProgress?.(done, total);
+    screenObjectives[r] = outcome.objective;
+    // The slot to fill: a free one, else the worst kept (lowest objective, the later restart on ties) if this beats it.
+    let slot = -1;
+    for (let q = 0; q < keep && slot < 0; q++) if (slotRestart[q] === -1) slot = q;
+    if (slot < 0) {
+      let worst = 0;
+      for (let q = 1; q < keep; q++) {
+        if (slotObjective[q]! < slotObjective[worst]! || (slotObjective[q] === slotObjective[worst] && slotRestart[q]! > slotRestart[worst]!)) worst = q;
+      }
+      if (outcome.objective > slotObjective[worst]!) slot = worst;
+    }
+    if (slot < 0) continue;
+    slotObjective[slot] = outcome.objective;
+    slotRestart[slot] = r;
+    keptCentroids.set(ws.centroids, slot * dk);
+    keptCounts.set(ws.counts, slot * k);
+  }
+
+  ws.pile = active;
+  ws.pileList = LIST_ACTIVE;
+  const restartObjectives = new Float64Array(restarts).fill(NaN);
+  let kept: RestartOutcome | undefined;
+  for (let r = 0; r < restarts; r++) {
+    const slot = slotRestart.indexOf(r);
+    if (slot < 0) continue;
+    ws.centroids.set(keptCentroids.subarray(slot * dk, (slot + 1) * dk));
+    let outcome: RestartOutcome;
+    if (plan.miniBatch) {
+      for (let g = 0; g < k; g++) ws.absorbed[g] = keptCounts[slot * k + g]!;
+      const rng = createRng(deriveSeed(deriveSeed(opts.seed, r), 1));
+      outcome = yield* miniBatchFrom(ws, rng, step(fullPer));
+    } else {
+      resetLloyd(ws);
+      outcome = yield* lloydPasses(ws, step(fullPer));
+    }
+    done += fullPer;
+    onProgress?.(done, total);
+    restartObjectives[r] = outcome.objective;
+    kept = keepIfBetter(ws, kept, outcome);
+  }
+  return { kept: kept!, restartObjectives, screenObjectives };
 }
 
 /**
@@ -327,11 +446,11 @@ function seedSampleSize(m: number, k: number, batchSize: number): number {
   return Math.min(m, Math.max(k, 3 * batchSize));
 }
 
-/** Puts a seeded uniform sample of `size` active rows in `ws.sample[0 .. size)` (partial Fisher–Yates). */
-function drawSample(ws: Workspace, size: number, rng: Rng): void {
-  const { active, sample } = ws;
-  const m = active.length;
-  sample.set(active);
+/** Puts a seeded uniform sample of `size` of `rows` in `ws.sample[0 .. size)` (partial Fisher–Yates). */
+function drawSample(ws: Workspace, rows: Int32Array, size: number, rng: Rng): void {
+  const { sample } = ws;
+  const m = rows.length;
+  sample.set(rows);
   for (let s = 0; s < size; s++) {
     const j = s + rng.int(m - s);
     const t = sample[s]!;
@@ -348,32 +467,44 @@ function drawSample(ws: Workspace, size: number, rng: Rng): void {
  * fit against the final means when the limit stopped it.
  */
 function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | null, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
-  const { active, assign, fit, upper, lower, options, previous } = ws;
-  const m = active.length;
-  const work = options.prune ? WORK_ASSIGN_PRUNED : WORK_ASSIGN_PLAIN;
-  fit.fill(0);
-  upper.fill(Infinity);
-  lower.fill(-Infinity);
-  previous.fill(-1);
-  ws.skippedByPass.fill(0);
-  ws.dotsByPass.fill(0);
-  assign.fill(-1);
+  const { pile, assign, options } = ws;
+  const m = pile.length;
+  resetLloyd(ws);
   if (initial) {
-    for (let a = 0; a < m; a++) assign[active[a]!] = initial[active[a]!]!;
+    for (let a = 0; a < m; a++) assign[pile[a]!] = initial[pile[a]!]!;
     countMembers(ws);
     updateCentroids(ws); // every group has a member (validated): no re-seeding
   } else {
     const size = seedSampleSize(m, ws.k, options.batchSize);
     if (size < m) {
-      drawSample(ws, size, rng);
+      drawSample(ws, pile, size, rng);
       yield* seedCentroids(ws, LIST_SAMPLE, size, rng);
-    } else yield* seedCentroids(ws, LIST_ACTIVE, m, rng);
+    } else yield* seedCentroids(ws, ws.pileList, m, rng);
   }
+  return yield* lloydPasses(ws, onStep);
+}
+
+/** Clears the per-row state of a Lloyd run: no group, no fit, bounds unknown. */
+function resetLloyd(ws: Workspace): void {
+  ws.fit.fill(0);
+  ws.upper.fill(Infinity);
+  ws.lower.fill(-Infinity);
+  ws.previous.fill(-1);
+  ws.skippedByPass.fill(0);
+  ws.dotsByPass.fill(0);
+  ws.assign.fill(-1);
+}
+
+/** Lloyd passes over `ws.pile` from the centroids in `ws.centroids` until stable or `maxIterations` (see {@link lloydRestart}). */
+function* lloydPasses(ws: Workspace, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
+  const { options, pile, pileList } = ws;
+  const m = pile.length;
+  const work = options.prune ? WORK_ASSIGN_PRUNED : WORK_ASSIGN_PLAIN;
   let iterations = 0;
   let converged = false;
   let reseeded = 0;
   while (iterations < options.maxIterations) {
-    ask(ws, work, LIST_ACTIVE, m);
+    ask(ws, work, pileList, m);
     yield;
     tally(ws, iterations);
     iterations++;
@@ -385,7 +516,7 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
     }
     countMembers(ws);
     if (options.prune && hasEmptyGroup(ws)) {
-      ask(ws, WORK_FIT, LIST_ACTIVE, m);
+      ask(ws, WORK_FIT, pileList, m);
       yield;
     }
     reseeded += updateCentroids(ws);
@@ -397,14 +528,14 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
   }
   // Exact fit of every row against the final centroids: those of the last
   // pass when it converged, the means of the current assignment otherwise.
-  ask(ws, WORK_FIT, LIST_ACTIVE, m);
+  ask(ws, WORK_FIT, pileList, m);
   yield;
   return { objective: objectiveOf(ws), iterations, converged, reseeded, batches: 0 };
 }
 
 /** Sum of `fit` over the rows that take part, in row order. */
 function objectiveOf(ws: Workspace): number {
-  const { active, fit } = ws;
+  const { pile: active, fit } = ws;
   let objective = 0;
   for (let a = 0; a < active.length; a++) objective += fit[active[a]!]!;
   return objective;
@@ -529,7 +660,7 @@ function addRow(matrix: Csr, i: number, sums: Float64Array, k: number, g: number
  * exists: m >= k rows sit in fewer than k groups, so some group has two.
  */
 function farthestMovable(ws: Workspace): number {
-  const { active, assign, fit, counts } = ws;
+  const { pile: active, assign, fit, counts } = ws;
   let far = -1;
   let farFit = Infinity;
   for (let a = 0; a < active.length; a++) {
@@ -552,7 +683,7 @@ function farthestMovable(ws: Workspace): number {
  * Returns the number of rows moved into empty groups.
  */
 function updateCentroids(ws: Workspace): number {
-  const { matrix, active, k, sums, counts, norms, centroids, assign, move, upper, lower, previous, dirty, dirtyList } = ws;
+  const { matrix, pile: active, k, sums, counts, norms, centroids, assign, move, upper, lower, previous, dirty, dirtyList } = ws;
   const { movedRow, movedFrom, movedTo } = ws;
   const m = active.length;
   dirty.fill(0);
@@ -699,17 +830,27 @@ function sortMoves(ws: Workspace): void {
  *    their row without a further pass.
  */
 function* miniBatchRestart(ws: Workspace, rng: Rng, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
-  const { active, sample, batch, assign, fit, upper, options, k } = ws;
+  const { active, options, k } = ws;
   const m = active.length;
   const sampleSize = seedSampleSize(m, k, options.batchSize);
-  drawSample(ws, sampleSize, rng);
+  drawSample(ws, active, sampleSize, rng);
+  yield* seedCentroids(ws, LIST_SAMPLE, sampleSize, rng);
+  ws.absorbed.fill(0);
+  return yield* miniBatchFrom(ws, rng, onStep);
+}
+
+/**
+ * Steps 2 and 3 of {@link miniBatchRestart}: mini-batch steps from the
+ * centroids in `ws.centroids` with the learning counts in `ws.absorbed`,
+ * then the full pass and its repairs.
+ */
+function* miniBatchFrom(ws: Workspace, rng: Rng, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
+  const { active, batch, assign, fit, upper, options, k } = ws;
+  const m = active.length;
   assign.fill(-1);
   fit.fill(0);
   ws.skippedByPass.fill(0);
   ws.dotsByPass.fill(0);
-  yield* seedCentroids(ws, LIST_SAMPLE, sampleSize, rng);
-
-  ws.absorbed.fill(0);
   let batches = 0;
   let converged = false;
   while (batches < options.batchIterations) {
@@ -753,7 +894,7 @@ function* miniBatchRestart(ws: Workspace, rng: Rng, onStep?: (done: number) => v
 
 /** Members per group of the current assignment, into `ws.counts`. */
 function countMembers(ws: Workspace): void {
-  const { active, assign, counts } = ws;
+  const { pile: active, assign, counts } = ws;
   counts.fill(0);
   for (let a = 0; a < active.length; a++) counts[assign[active[a]!]!]!++;
 }
@@ -849,6 +990,7 @@ export function finishResult(ws: Workspace, summary: RunSummary): KMeansResult {
     iterations: kept.iterations,
     converged: kept.converged,
     restartObjectives: summary.restartObjectives,
+    screenObjectives: summary.screenObjectives,
     reseeded: kept.reseeded,
     batches: kept.batches,
     scored: ws.scoredTotal,

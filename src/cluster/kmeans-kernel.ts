@@ -107,6 +107,8 @@ export interface KernelArrays {
   readonly batch: Int32Array;
   /** Rows of the seeded sample that mini-batch seeding draws from (a prefix is used). */
   readonly sample: Int32Array;
+  /** Rows of the screening sample that restarts are first run on, increasing (empty when not screening). */
+  readonly screen: Int32Array;
   /** Scratch for one row's k scores; one per thread, never shared. */
   readonly scores: Float64Array;
 }
@@ -391,9 +393,12 @@ export const LIST_BATCH = 1;
 /** {@link KernelArrays.sample}. */
 export const LIST_SAMPLE = 2;
 
+/** {@link KernelArrays.screen}. */
+export const LIST_SCREEN = 3;
+
 /** The row list a request names. */
 export function rowList(s: KernelArrays, list: number): Int32Array {
-  return list === LIST_ACTIVE ? s.active : list === LIST_BATCH ? s.batch : s.sample;
+  return list === LIST_ACTIVE ? s.active : list === LIST_BATCH ? s.batch : list === LIST_SAMPLE ? s.sample : s.screen;
 }
 
 /**

@@ -202,6 +202,7 @@ class Crew {
       active: ws.active,
       batch: ws.batch,
       sample: ws.sample,
+      screen: ws.screen,
     };
     for (const [name, a] of Object.entries(arrays)) {
       if (!isShared(a as ArrayBufferView)) throw new Error(`internal: ${name} is not on shared memory`);

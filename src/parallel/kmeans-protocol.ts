@@ -58,5 +58,6 @@ export interface WorkerInit {
     readonly active: Int32Array;
     readonly batch: Int32Array;
     readonly sample: Int32Array;
+    readonly screen: Int32Array;
   };
 }
