@@ -37,6 +37,7 @@ import {
   STAT_SKIPPED,
   WORK_ASSIGN_PLAIN,
   WORK_ASSIGN_PRUNED,
+  WORK_ASSIGN_SCALED,
   WORK_FIT,
   WORK_SEED,
   rowList,
@@ -151,6 +152,16 @@ export interface Workspace extends KernelArrays {
   readonly absorbed: Float64Array;
   /** Mini-batch: members of each group in the current step. */
   readonly stepSizes: Int32Array;
+  /** Mini-batch: ‖wide[·, g]‖² of each group's unscaled vector. */
+  readonly wideNorm: Float64Array;
+  /** Mini-batch: 1 at each (term, group) entry of `wide` the current step touches, listed in `touched`. */
+  readonly mark: Uint8Array;
+  readonly touched: Int32Array;
+  /** Mini-batch: the value of each touched entry before the step. */
+  readonly before: Float64Array;
+  /** Mini-batch: per group, the sums of squares of its touched entries before and after the step. */
+  readonly oldSq: Float64Array;
+  readonly newSq: Float64Array;
   /** Skipped rows and dot products per full assignment pass of the current restart, and of the best. */
   readonly skippedByPass: Int32Array;
   readonly bestSkippedByPass: Int32Array;
@@ -202,6 +213,10 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     rowNorm[r] = Math.sqrt(s);
   }
   const slots = passSlots(plan);
+  // Entries a mini-batch step can touch: at most the batch's non-zeros (the longest rows), at most d × k.
+  let longest = 0;
+  for (let a = 0; a < active.length; a++) longest = Math.max(longest, indptr[active[a]! + 1]! - indptr[active[a]!]!);
+  const touchable = plan.miniBatch ? Math.min(d * k, options.batchSize * longest) : 0;
   return {
     k,
     matrix,
@@ -244,6 +259,14 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     candidates: new Int32Array(seedTrials(k)),
     absorbed: new Float64Array(k),
     stepSizes: new Int32Array(k),
+    wide: alloc.float64(plan.miniBatch ? d * k : 0),
+    scale: alloc.float64(k),
+    wideNorm: new Float64Array(k),
+    mark: new Uint8Array(plan.miniBatch ? d * k : 0),
+    touched: new Int32Array(touchable),
+    before: new Float64Array(touchable),
+    oldSq: new Float64Array(k),
+    newSq: new Float64Array(k),
     skippedByPass: new Int32Array(slots),
     bestSkippedByPass: new Int32Array(slots),
     dotsByPass: new Float64Array(slots),
@@ -853,9 +876,10 @@ function* miniBatchFrom(ws: Workspace, rng: Rng, onStep?: (done: number) => void
   ws.dotsByPass.fill(0);
   let batches = 0;
   let converged = false;
+  startScaled(ws);
   while (batches < options.batchIterations) {
     for (let b = 0; b < batch.length; b++) batch[b] = active[rng.int(m)]!;
-    ask(ws, WORK_ASSIGN_PLAIN, LIST_BATCH, batch.length);
+    ask(ws, WORK_ASSIGN_SCALED, LIST_BATCH, batch.length);
     yield;
     tally(ws, -1);
     batches++;
@@ -866,6 +890,7 @@ function* miniBatchFrom(ws: Workspace, rng: Rng, onStep?: (done: number) => void
     }
   }
 
+  materialise(ws);
   upper.fill(Infinity);
   let iterations = 0;
   let reseeded = 0;
@@ -921,49 +946,159 @@ function ownScore(ws: Workspace, i: number): number {
 }
 
 /**
- * The centroid move of one mini-batch step (see {@link miniBatchRestart}).
- * Returns the largest movement of a centroid.
+ * Starts the scaled form of the centroids for mini-batch steps: `wide` holds
+ * the float32 centroids as they are, `wideNorm` their squared norms and
+ * `scale` = 1 / ‖wide[·, g]‖; the step sums are cleared. Dense over d × k, once per run.
+ */
+function startScaled(ws: Workspace): void {
+  const { k, centroids, wide, wideNorm, scale, sums } = ws;
+  const d = ws.matrix.cols;
+  wideNorm.fill(0);
+  for (let t = 0; t < d; t++) {
+    const base = t * k;
+    for (let g = 0; g < k; g++) {
+      const c = centroids[base + g]!;
+      wide[base + g] = c;
+      wideNorm[g]! += c * c;
+    }
+  }
+  for (let g = 0; g < k; g++) scale[g] = wideNorm[g]! > 0 ? 1 / Math.sqrt(wideNorm[g]!) : 0;
+  sums.fill(0);
+}
+
+/** Writes the float32 centroids `scale[g] · wide[·, g]` once, after the mini-batch steps. */
+function materialise(ws: Workspace): void {
+  const { k, centroids, wide, scale } = ws;
+  const d = ws.matrix.cols;
+  for (let t = 0; t < d; t++) {
+    const base = t * k;
+    for (let g = 0; g < k; g++) centroids[base + g] = Math.fround(wide[base + g]! * scale[g]!);
+  }
+}
+
+/** Largest and smallest scale kept before a group's vector is rescaled to unit length. */
+const SCALE_HIGH = 2 ** 200;
+const SCALE_LOW = 2 ** -200;
+
+/**
+ * The centroid move of one mini-batch step (see {@link miniBatchRestart}),
+ * on centroids kept as `c_g = scale[g] · w_g` (`w_g` = `wide[·, g]`), at a
+ * cost in proportion to the batch's non-zeros rather than d × k.
+ *
+ * The update `c ← (v₀ c + S) / ‖v₀ c + S‖` (S the sum of the group's batch
+ * rows, v₀ its running count) is `v₀ s (w + S / (v₀ s))` normalised, so only
+ * the entries S touches change: `w ← w + S / (v₀ s)`, and the new scale is
+ * `1 / ‖w‖`, with `‖w‖²` kept up to date from the touched entries (old and
+ * new squares). The movement `‖c_new − c_old‖` is summed over the touched
+ * entries, plus `(s' − s)² · Σ w²` over the untouched ones (that sum being
+ * `‖w‖²` less the touched entries' old squares). A group that had absorbed
+ * nothing (v₀ = 0: the first step after seeding) takes `S / ‖S‖`, dense over
+ * its column, once. Members that cancel exactly (possible only with
+ * negative values) leave the centroid as it was. A scale outside
+ * 2^±200 rescales its vector to unit length. Returns the largest movement.
  */
 function miniBatchStep(ws: Workspace): number {
-  const { matrix, batch, assign, k, sums, norms, centroids, absorbed, stepSizes, move } = ws;
-  sums.fill(0);
+  const { matrix, batch, assign, k, sums, wide, scale, wideNorm, absorbed, stepSizes, move, mark, touched, before, oldSq, newSq, norms, dirty } = ws;
+  const { indptr, indices, values } = matrix;
+  const d = matrix.cols;
   stepSizes.fill(0);
+  let nt = 0;
   for (let b = 0; b < batch.length; b++) {
     const i = batch[b]!;
     const g = assign[i]!;
     stepSizes[g]!++;
-    addRow(matrix, i, sums, k, g, 1);
-  }
-  const d = matrix.cols;
-  norms.fill(0);
-  for (let t = 0; t < d; t++) {
-    const base = t * k;
-    for (let g = 0; g < k; g++) {
-      if (stepSizes[g] === 0) continue;
-      const v = absorbed[g]! * centroids[base + g]! + sums[base + g]!;
-      sums[base + g] = v;
-      norms[g]! += v * v;
+    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) {
+      const e = indices[j]! * k + g;
+      if (mark[e] === 0) {
+        mark[e] = 1;
+        touched[nt++] = e;
+      }
+      sums[e]! += values[j]!;
     }
   }
-  for (let g = 0; g < k; g++) norms[g] = norms[g]! > 0 ? 1 / Math.sqrt(norms[g]!) : 0;
   move.fill(0);
-  for (let t = 0; t < d; t++) {
-    const base = t * k;
-    for (let g = 0; g < k; g++) {
-      if (norms[g] === 0) continue; // no members this step (or members cancel): centroid stays
-      const c = Math.fround(sums[base + g]! * norms[g]!);
-      const step = c - centroids[base + g]!;
-      move[g]! += step * step;
-      centroids[base + g] = c;
+  oldSq.fill(0);
+  newSq.fill(0);
+  dirty.fill(0);
+  // Groups that absorbed nothing yet: the batch mean direction replaces the centroid (dense, once per run).
+  for (let g = 0; g < k; g++) {
+    if (stepSizes[g] === 0 || absorbed[g] !== 0) continue;
+    dirty[g] = 1;
+    let n2 = 0;
+    for (let t = 0; t < d; t++) n2 += sums[t * k + g]! * sums[t * k + g]!;
+    if (!(n2 > 0)) continue; // members cancel: centroid stays
+    const inv = 1 / Math.sqrt(n2);
+    const s = scale[g]!;
+    let mv = 0;
+    for (let t = 0; t < d; t++) {
+      const e = t * k + g;
+      const step = sums[e]! * inv - s * wide[e]!;
+      mv += step * step;
+      wide[e] = sums[e]!;
     }
+    move[g] = mv;
+    wideNorm[g] = n2;
+    scale[g] = inv;
+  }
+  for (let p = 0; p < nt; p++) {
+    const e = touched[p]!;
+    const g = e % k;
+    const old = wide[e]!;
+    before[p] = old;
+    if (dirty[g]) continue;
+    const now = old + sums[e]! / (absorbed[g]! * scale[g]!);
+    wide[e] = now;
+    oldSq[g]! += old * old;
+    newSq[g]! += now * now;
+  }
+  for (let g = 0; g < k; g++) {
+    norms[g] = 0;
+    if (stepSizes[g] === 0 || dirty[g]) continue;
+    const n2 = wideNorm[g]! - oldSq[g]! + newSq[g]!;
+    if (n2 > 0) norms[g] = 1 / Math.sqrt(n2);
+  }
+  for (let p = 0; p < nt; p++) {
+    const e = touched[p]!;
+    const g = e % k;
+    sums[e] = 0;
+    mark[e] = 0;
+    if (dirty[g] || stepSizes[g] === 0) continue;
+    if (norms[g] === 0) {
+      wide[e] = before[p]!; // members cancel: centroid stays
+      continue;
+    }
+    const step = norms[g]! * wide[e]! - scale[g]! * before[p]!;
+    move[g]! += step * step;
   }
   let largest = 0;
   for (let g = 0; g < k; g++) {
+    if (stepSizes[g] !== 0 && !dirty[g] && norms[g] !== 0) {
+      const ds = norms[g]! - scale[g]!;
+      move[g]! += ds * ds * Math.max(0, wideNorm[g]! - oldSq[g]!);
+      wideNorm[g] = wideNorm[g]! - oldSq[g]! + newSq[g]!;
+      scale[g] = norms[g]!;
+    }
+    if (scale[g]! > SCALE_HIGH || scale[g]! < SCALE_LOW) rescale(ws, g);
     absorbed[g]! += stepSizes[g]!;
     const v = Math.sqrt(move[g]!);
     if (v > largest) largest = v;
   }
   return largest;
+}
+
+/** Rewrites group `g`'s vector as the unit centroid itself (scale 1), its squared norm summed afresh. */
+function rescale(ws: Workspace, g: number): void {
+  const { k, wide, scale, wideNorm } = ws;
+  const d = ws.matrix.cols;
+  const s = scale[g]!;
+  let n2 = 0;
+  for (let t = 0; t < d; t++) {
+    const v = wide[t * k + g]! * s;
+    wide[t * k + g] = v;
+    n2 += v * v;
+  }
+  wideNorm[g] = n2;
+  scale[g] = n2 > 0 ? 1 / Math.sqrt(n2) : 0;
 }
 
 /**

@@ -109,6 +109,13 @@ export interface KernelArrays {
   readonly sample: Int32Array;
   /** Rows of the screening sample that restarts are first run on, increasing (empty when not screening). */
   readonly screen: Int32Array;
+  /**
+   * Mini-batch steps: each centroid as `scale[g] · wide[t * k + g]` (term-major
+   * Float64 vectors, empty without mini-batch), so a step rewrites only the
+   * entries its batch rows hold (see `miniBatchStep` in `kmeans-engine.ts`).
+   */
+  readonly wide: Float64Array;
+  readonly scale: Float64Array;
   /** Scratch for one row's k scores; one per thread, never shared. */
   readonly scores: Float64Array;
 }
@@ -377,6 +384,77 @@ export function refreshFit(s: KernelArrays, rows: Int32Array, from: number, to: 
   }
 }
 
+/**
+ * Scores row `[start, end)` against the k unscaled vectors of `wide`
+ * (term-major Float64) into `scores`, four non-zeros per sweep, each score
+ * adding its products in the row's order.
+ */
+function scoreAllWide(
+  indices: Int32Array,
+  values: Float32Array,
+  wide: Float64Array,
+  k: number,
+  start: number,
+  end: number,
+  scores: Float64Array,
+): void {
+  scores.fill(0);
+  let j = start;
+  for (; j + 3 < end; j += 4) {
+    const v0 = values[j]!;
+    const v1 = values[j + 1]!;
+    const v2 = values[j + 2]!;
+    const v3 = values[j + 3]!;
+    const b0 = indices[j]! * k;
+    const b1 = indices[j + 1]! * k;
+    const b2 = indices[j + 2]! * k;
+    const b3 = indices[j + 3]! * k;
+    for (let g = 0; g < k; g++) {
+      let s = scores[g]!;
+      s += v0 * wide[b0 + g]!;
+      s += v1 * wide[b1 + g]!;
+      s += v2 * wide[b2 + g]!;
+      s += v3 * wide[b3 + g]!;
+      scores[g] = s;
+    }
+  }
+  for (; j < end; j++) {
+    const v = values[j]!;
+    const base = indices[j]! * k;
+    for (let g = 0; g < k; g++) scores[g]! += v * wide[base + g]!;
+  }
+}
+
+/**
+ * Mini-batch assignment over `rows[from .. to)` against the centroids
+ * `scale[g] · wide[·, g]`: each score is the dot product with the unscaled
+ * vector, times the group's scale (ties to the lowest group). Writes the
+ * rows' `assign` and `fit`; counts every row as scored.
+ */
+export function assignScaled(s: KernelArrays, rows: Int32Array, from: number, to: number, stats: Float64Array, at: number): void {
+  const { k, indptr, indices, values, wide, scale, assign, fit, scores } = s;
+  let changed = 0;
+  for (let a = from; a < to; a++) {
+    const i = rows[a]!;
+    scoreAllWide(indices, values, wide, k, indptr[i]!, indptr[i + 1]!, scores);
+    let bestG = 0;
+    let bestS = scores[0]! * scale[0]!;
+    for (let g = 1; g < k; g++) {
+      const v = scores[g]! * scale[g]!;
+      if (v > bestS) {
+        bestS = v;
+        bestG = g;
+      }
+    }
+    if (assign[i] !== bestG) changed++;
+    assign[i] = bestG;
+    fit[i] = bestS;
+  }
+  stats[at + STAT_CHANGED]! += changed;
+  stats[at + STAT_SCORED]! += to - from;
+  stats[at + STAT_DOTS]! += (to - from) * k;
+}
+
 /** Work kind of a block request: assignment pass using the bound. */
 export const WORK_ASSIGN_PRUNED = 0;
 /** Assignment pass scoring every row against every centroid. */
@@ -385,6 +463,8 @@ export const WORK_ASSIGN_PLAIN = 1;
 export const WORK_SEED = 2;
 /** Exact `fit` of every row ({@link refreshFit}). */
 export const WORK_FIT = 3;
+/** Mini-batch assignment against scaled centroids ({@link assignScaled}). */
+export const WORK_ASSIGN_SCALED = 4;
 
 /** Row lists a request can walk: {@link KernelArrays.active}. */
 export const LIST_ACTIVE = 0;
@@ -419,5 +499,6 @@ export function runBlock(
   const rows = rowList(s, list);
   if (work === WORK_SEED) scoreTrials(s, rows, from, to);
   else if (work === WORK_FIT) refreshFit(s, rows, from, to);
+  else if (work === WORK_ASSIGN_SCALED) assignScaled(s, rows, from, to, stats, at);
   else assignRows(s, rows, from, to, work === WORK_ASSIGN_PRUNED, stats, at);
 }
