@@ -314,7 +314,7 @@ describe('the assignment kernel on arbitrary valid bounds', () => {
       batch: new Int32Array(0),
       sample: new Int32Array(0),
       screen: new Int32Array(0),
-      wide: new Float64Array(0),
+      wide: new Float32Array(0),
       scale: new Float64Array(0),
       scores: new Float64Array(k),
     });
@@ -399,7 +399,7 @@ describe('the assignment kernel on arbitrary valid bounds', () => {
         batch: new Int32Array(0),
         sample: new Int32Array(0),
         screen: new Int32Array(0),
-      wide: new Float64Array(0),
+      wide: new Float32Array(0),
       scale: new Float64Array(0),
         scores: new Float64Array(3),
       };

@@ -259,7 +259,7 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     candidates: new Int32Array(seedTrials(k)),
     absorbed: new Float64Array(k),
     stepSizes: new Int32Array(k),
-    wide: alloc.float64(plan.miniBatch ? d * k : 0),
+    wide: alloc.float32(plan.miniBatch ? d * k : 0),
     scale: alloc.float64(k),
     wideNorm: new Float64Array(k),
     mark: new Uint8Array(plan.miniBatch ? d * k : 0),
@@ -988,7 +988,7 @@ const SCALE_LOW = 2 ** -200;
  * The update `c ← (v₀ c + S) / ‖v₀ c + S‖` (S the sum of the group's batch
  * rows, v₀ its running count) is `v₀ s (w + S / (v₀ s))` normalised, so only
  * the entries S touches change: `w ← w + S / (v₀ s)`, and the new scale is
- * `1 / ‖w‖`, with `‖w‖²` kept up to date from the touched entries (old and
+ * `1 / ‖w‖`, with `‖w‖²` kept up to date (over the stored float32 values) from the touched entries (old and
  * new squares). The movement `‖c_new − c_old‖` is summed over the touched
  * entries, plus `(s' − s)² · Σ w²` over the untouched ones (that sum being
  * `‖w‖²` less the touched entries' old squares). A group that had absorbed
@@ -1027,17 +1027,23 @@ function miniBatchStep(ws: Workspace): number {
     let n2 = 0;
     for (let t = 0; t < d; t++) n2 += sums[t * k + g]! * sums[t * k + g]!;
     if (!(n2 > 0)) continue; // members cancel: centroid stays
-    const inv = 1 / Math.sqrt(n2);
     const s = scale[g]!;
+    let r2 = 0;
+    for (let t = 0; t < d; t++) {
+      const w = Math.fround(sums[t * k + g]!);
+      r2 += w * w;
+    }
+    const inv = 1 / Math.sqrt(r2);
     let mv = 0;
     for (let t = 0; t < d; t++) {
       const e = t * k + g;
-      const step = sums[e]! * inv - s * wide[e]!;
+      const w = Math.fround(sums[e]!);
+      const step = w * inv - s * wide[e]!;
       mv += step * step;
-      wide[e] = sums[e]!;
+      wide[e] = w;
     }
     move[g] = mv;
-    wideNorm[g] = n2;
+    wideNorm[g] = r2;
     scale[g] = inv;
   }
   for (let p = 0; p < nt; p++) {
@@ -1046,7 +1052,7 @@ function miniBatchStep(ws: Workspace): number {
     const old = wide[e]!;
     before[p] = old;
     if (dirty[g]) continue;
-    const now = old + sums[e]! / (absorbed[g]! * scale[g]!);
+    const now = Math.fround(old + sums[e]! / (absorbed[g]! * scale[g]!));
     wide[e] = now;
     oldSq[g]! += old * old;
     newSq[g]! += now * now;
@@ -1093,7 +1099,7 @@ function rescale(ws: Workspace, g: number): void {
   const s = scale[g]!;
   let n2 = 0;
   for (let t = 0; t < d; t++) {
-    const v = wide[t * k + g]! * s;
+    const v = Math.fround(wide[t * k + g]! * s);
     wide[t * k + g] = v;
     n2 += v * v;
   }

@@ -111,10 +111,10 @@ export interface KernelArrays {
   readonly screen: Int32Array;
   /**
    * Mini-batch steps: each centroid as `scale[g] · wide[t * k + g]` (term-major
-   * Float64 vectors, empty without mini-batch), so a step rewrites only the
+   * float32 vectors like the centroids, empty without mini-batch), so a step rewrites only the
    * entries its batch rows hold (see `miniBatchStep` in `kmeans-engine.ts`).
    */
-  readonly wide: Float64Array;
+  readonly wide: Float32Array;
   readonly scale: Float64Array;
   /** Scratch for one row's k scores; one per thread, never shared. */
   readonly scores: Float64Array;
@@ -385,47 +385,6 @@ export function refreshFit(s: KernelArrays, rows: Int32Array, from: number, to: 
 }
 
 /**
- * Scores row `[start, end)` against the k unscaled vectors of `wide`
- * (term-major Float64) into `scores`, four non-zeros per sweep, each score
- * adding its products in the row's order.
- */
-function scoreAllWide(
-  indices: Int32Array,
-  values: Float32Array,
-  wide: Float64Array,
-  k: number,
-  start: number,
-  end: number,
-  scores: Float64Array,
-): void {
-  scores.fill(0);
-  let j = start;
-  for (; j + 3 < end; j += 4) {
-    const v0 = values[j]!;
-    const v1 = values[j + 1]!;
-    const v2 = values[j + 2]!;
-    const v3 = values[j + 3]!;
-    const b0 = indices[j]! * k;
-    const b1 = indices[j + 1]! * k;
-    const b2 = indices[j + 2]! * k;
-    const b3 = indices[j + 3]! * k;
-    for (let g = 0; g < k; g++) {
-      let s = scores[g]!;
-      s += v0 * wide[b0 + g]!;
-      s += v1 * wide[b1 + g]!;
-      s += v2 * wide[b2 + g]!;
-      s += v3 * wide[b3 + g]!;
-      scores[g] = s;
-    }
-  }
-  for (; j < end; j++) {
-    const v = values[j]!;
-    const base = indices[j]! * k;
-    for (let g = 0; g < k; g++) scores[g]! += v * wide[base + g]!;
-  }
-}
-
-/**
  * Mini-batch assignment over `rows[from .. to)` against the centroids
  * `scale[g] · wide[·, g]`: each score is the dot product with the unscaled
  * vector, times the group's scale (ties to the lowest group). Writes the
@@ -436,7 +395,7 @@ export function assignScaled(s: KernelArrays, rows: Int32Array, from: number, to
   let changed = 0;
   for (let a = from; a < to; a++) {
     const i = rows[a]!;
-    scoreAllWide(indices, values, wide, k, indptr[i]!, indptr[i + 1]!, scores);
+    scoreAll(indices, values, wide, k, indptr[i]!, indptr[i + 1]!, scores);
     let bestG = 0;
     let bestS = scores[0]! * scale[0]!;
     for (let g = 1; g < k; g++) {

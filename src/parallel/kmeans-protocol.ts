@@ -59,7 +59,7 @@ export interface WorkerInit {
     readonly batch: Int32Array;
     readonly sample: Int32Array;
     readonly screen: Int32Array;
-    readonly wide: Float64Array;
+    readonly wide: Float32Array;
     readonly scale: Float64Array;
   };
 }
