@@ -24,11 +24,17 @@
  *   groups that keep at least one member; each move counts in `reseeded`.
  * - Several restarts, each seeded by `createRng(deriveSeed(seed, restart))`;
  *   the best objective is kept, ties to the lowest restart.
+ * - Screened restarts, on by default from {@link SCREEN_AUTO_ROWS} non-empty
+ *   rows: all restarts run on one seeded sample of `screenSize` rows, the
+ *   `screenKeep` best continue on all rows (see `screenedSteps` in
+ *   `kmeans-engine.ts`); restarts dropped there report NaN in
+ *   `restartObjectives` and their sample objective in `screenObjectives`.
  * - `initialAssignments`: one run that starts from the means of a given
  *   partition instead of seeding (for refining a cut of a tree).
  * - Mini-batch (Sculley 2010), on by default from {@link MINI_BATCH_AUTO_ROWS}
- *   non-empty rows: seeded batch steps with 1/count learning rates, then one
- *   full assignment pass (see `kmeans-engine.ts`).
+ *   non-empty rows: seeded batch steps with 1/count learning rates on
+ *   centroids kept as scale × vector (a step costs its batch's non-zeros),
+ *   then one full assignment pass (see `kmeans-engine.ts`).
  * - Output groups are renumbered canonically: by size descending, ties by the
  *   smallest member row index.
  *
@@ -82,14 +88,14 @@ export type { KMeansOptions, KMeansResult } from './kmeans-types.js';
  *
  * Screening (from {@link SCREEN_AUTO_ROWS} rows): every restart seeds and
  * runs its passes on one seeded sample of 10,000 rows, and only the best
- * continues on all rows. Measured with bench/screen-ratio.mjs on the
- * 60k generated export (50-dim reduced rows, k = 100, seeds 1 and 2, one
- * thread): k-means CPU 26.9 s unscreened against 10.7 s screened, objective
- * within 0.02% of the unscreened one (58101.7 vs 58108.3; 58116.7 vs the
- * second seed's), NMI against the planted topics 0.922 / 0.921 against
- * 0.920 / ...; a 5,000-row sample cost 6 s but lost 0.04% of the objective
- * and 0.005 NMI, a 20,000-row one cost 17 s for no gain; continuing the two
- * best (`screenKeep: 2`) kept the same restart both times (bench/speed-notes.md).
+ * continues on all rows. Measured with bench/screen-ratio.mjs on the 60k
+ * generated export (50-dim reduced rows, k = 100, seeds 1 and 2, one
+ * thread): k-means CPU 26.9 / 29.0 s unscreened, 10.7 / 10.7 s screened
+ * (2.6x), objective −0.011% / +0.031% of the unscreened one, NMI against the
+ * planted topics 0.922 / 0.921 against 0.920 / 0.917. A 5,000-row sample
+ * was 4.7x cheaper but lost 0.04% / 0.02% of the objective and 0.005 NMI; a
+ * 20,000-row one was 1.7x cheaper for no gain; continuing the two best
+ * (`screenKeep: 2`) kept the same restart on both seeds (bench/speed-notes.md §4).
  */
 export const DEFAULT_KMEANS_OPTIONS: Readonly<Omit<KMeansOptions, 'groups' | 'initialAssignments'>> = Object.freeze({
   restarts: 10,
