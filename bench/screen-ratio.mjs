@@ -6,7 +6,8 @@
 //   node bench/screen-ratio.mjs --dir DIR --csv FILE.csv [--k 100] [--runs 2] [--variants off,10000:1,20000:1]
 //                               [--no-reduce] [--mini-batch] [--threads 1] [--ref REFDIST]
 //
-// A variant is `off` (screen: false), or `SIZE:KEEP` (screen: true, screenSize SIZE, screenKeep KEEP).
+// A variant is `off` (screen: false), or `SIZE:KEEP[:PASSES]` (screen: true, screenSize SIZE, screenKeep KEEP,
+// screenPasses PASSES).
 // With --ref, `ref` is a run of the reference build's sphericalKMeans with its own defaults.
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -98,8 +99,8 @@ for (let run = 0; run < runs; run++) {
     if (name === 'ref') options = base;
     else if (name === 'off') options = { ...base, screen: false };
     else {
-      const [size, keep] = name.split(':').map(Number);
-      options = { ...base, screen: true, screenSize: size, screenKeep: keep };
+      const [size, keep, passes] = name.split(':').map(Number);
+      options = { ...base, screen: true, screenSize: size, screenKeep: keep, ...(passes ? { screenPasses: passes } : {}) };
     }
     const c0 = cpu();
     const res =

@@ -111,6 +111,20 @@ describe('sphericalKMeans with screened restarts', () => {
     }
   });
 
+  it('screenPasses bounds the screening passes of mini-batch runs only', () => {
+    const base = { groups: 12, restarts: 4, seed: 2, screen: true, screenSize: 600, batchSize: 200, batchIterations: 10 } as const;
+    const brief = sphericalKMeans(matrix, { ...base, miniBatch: true, screenPasses: 1 });
+    const long = sphericalKMeans(matrix, { ...base, miniBatch: true, screenPasses: 50 });
+    // One pass on 600 rows per restart against up to 50: fewer dot products, other sample objectives.
+    expect(brief.dotProducts).toBeLessThan(long.dotProducts);
+    expect([...brief.screenObjectives]).not.toEqual([...long.screenObjectives]);
+    // Full-pass runs screen with maxIterations and stableShare: screenPasses changes nothing.
+    const a = sphericalKMeans(matrix, { ...base, miniBatch: false, screenPasses: 1 });
+    const b = sphericalKMeans(matrix, { ...base, miniBatch: false, screenPasses: 50 });
+    expect([...a.assignments]).toEqual([...b.assignments]);
+    expect([...a.screenObjectives]).toEqual([...b.screenObjectives]);
+  });
+
   it('same seed and input, same result; the sample depends on the seed', () => {
     const opts = { groups: 12, restarts: 3, seed: 8, screen: true, screenSize: 400 } as const;
     const a = sphericalKMeans(matrix, opts);

@@ -377,7 +377,8 @@ const SCREEN_STREAM = 0x7fffffff;
  * The run with screened restarts. A seeded uniform sample of `screenSize`
  * active rows (drawn once, kept in row order in `ws.screen`) stands in for
  * the pile: every restart seeds (k-means++, from restart r's stream, as
- * unscreened) and runs its Lloyd passes on the sample only. The
+ * unscreened) and runs its Lloyd passes on the sample only (with mini-batch
+ * steps to follow, at most `screenPasses` of them). The
  * `screenKeep` restarts with the best sample objective (ties to the earlier
  * restart) then continue, in restart order, on all rows from their sample
  * centroids: Lloyd passes, or mini-batch steps with each centroid's learning
@@ -393,7 +394,9 @@ function* screenedSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMeansProg
   const keep = Math.min(plan.screenKeep, restarts);
   const dk = ws.centroids.length;
   const fullPer = plan.miniBatch ? opts.batchIterations : opts.maxIterations;
-  const total = restarts * opts.maxIterations + keep * fullPer;
+  // Mini-batch runs screen briefly: at most `screenPasses` Lloyd passes per restart on the sample.
+  const screenPer = plan.miniBatch ? Math.min(opts.screenPasses, opts.maxIterations) : opts.maxIterations;
+  const total = restarts * screenPer + keep * fullPer;
   let done = 0;
   const step = (per: number) => (onProgress ? (s: number) => onProgress(done + Math.min(s, per), total) : undefined);
 
@@ -407,8 +410,8 @@ function* screenedSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMeansProg
   ws.pile = screen;
   ws.pileList = LIST_SCREEN;
   for (let r = 0; r < restarts; r++) {
-    const outcome = yield* lloydRestart(ws, createRng(deriveSeed(opts.seed, r)), null, step(opts.maxIterations));
-    done += opts.maxIterations;
+    const outcome = yield* lloydRestart(ws, createRng(deriveSeed(opts.seed, r)), null, step(screenPer), screenPer);
+    done += screenPer;
     onProgress?.(done, total);
     screenObjectives[r] = outcome.objective;
     // The slot to fill: a free one, else the worst kept (lowest objective, the later restart on ties) if this beats it.
@@ -489,7 +492,13 @@ function drawSample(ws: Workspace, rows: Int32Array, size: number, rng: Rng): vo
  * a re-seeding reads it; every restart ends with one, which also gives the
  * fit against the final means when the limit stopped it.
  */
-function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | null, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
+function* lloydRestart(
+  ws: Workspace,
+  rng: Rng,
+  initial: ArrayLike<number> | null,
+  onStep?: (done: number) => void,
+  limit = ws.options.maxIterations,
+): Generator<void, RestartOutcome, void> {
   const { pile, assign, options } = ws;
   const m = pile.length;
   resetLloyd(ws);
@@ -504,7 +513,7 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
       yield* seedCentroids(ws, LIST_SAMPLE, size, rng);
     } else yield* seedCentroids(ws, ws.pileList, m, rng);
   }
-  return yield* lloydPasses(ws, onStep);
+  return yield* lloydPasses(ws, onStep, limit);
 }
 
 /** Clears the per-row state of a Lloyd run: no group, no fit, bounds unknown. */
@@ -519,14 +528,14 @@ function resetLloyd(ws: Workspace): void {
 }
 
 /** Lloyd passes over `ws.pile` from the centroids in `ws.centroids` until stable or `maxIterations` (see {@link lloydRestart}). */
-function* lloydPasses(ws: Workspace, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
+function* lloydPasses(ws: Workspace, onStep?: (done: number) => void, limit = ws.options.maxIterations): Generator<void, RestartOutcome, void> {
   const { options, pile, pileList } = ws;
   const m = pile.length;
   const work = options.prune ? WORK_ASSIGN_PRUNED : WORK_ASSIGN_PLAIN;
   let iterations = 0;
   let converged = false;
   let reseeded = 0;
-  while (iterations < options.maxIterations) {
+  while (iterations < limit) {
     ask(ws, work, pileList, m);
     yield;
     tally(ws, iterations);

@@ -58,6 +58,12 @@ export interface KMeansOptions {
   /** Screening: restarts continued on all rows, the best on the sample first. Whole number >= 1 (at most `restarts` run). */
   screenKeep: number;
   /**
+   * Screening before mini-batch steps: most Lloyd passes per restart on the
+   * sample (a brief run to rank the restarts). Whole number >= 1. Full-pass
+   * runs screen with `maxIterations` and `stableShare`.
+   */
+  screenPasses: number;
+  /**
    * Start from this partition instead of k-means++ seeding: one group
    * number from 0 to k − 1 per row (empty rows: −1 or any group, ignored),
    * every group used. One run, full passes.

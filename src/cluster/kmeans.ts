@@ -110,6 +110,7 @@ export const DEFAULT_KMEANS_OPTIONS: Readonly<Omit<KMeansOptions, 'groups' | 'in
   screen: 'auto',
   screenSize: 10_000,
   screenKeep: 1,
+  screenPasses: 10,
 });
 
 /**
@@ -160,7 +161,7 @@ export function checkGroupCount(groups: unknown, nonEmptyRows: number): asserts 
 export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRows: number): KMeansOptions {
   const merged = { ...DEFAULT_KMEANS_OPTIONS, ...stripUndefined(partial) } as Partial<KMeansOptions>;
   const { groups, restarts, maxIterations, stableShare, seed, prune, miniBatch, batchSize, batchIterations, batchTolerance } = merged;
-  const { screen, screenSize, screenKeep } = merged;
+  const { screen, screenSize, screenKeep, screenPasses } = merged;
   const { initialAssignments } = merged;
   checkKeys(partial, KMEANS_KEYS);
   checkGroupCount(groups, nonEmptyRows);
@@ -200,6 +201,9 @@ export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRo
   if (!isWhole(screenKeep) || screenKeep < 1) {
     throw new UsageError(`screenKeep must be a whole number >= 1; got ${show(screenKeep)}`, 'screenKeep');
   }
+  if (!isWhole(screenPasses) || screenPasses < 1) {
+    throw new UsageError(`screenPasses must be a whole number >= 1; got ${show(screenPasses)}`, 'screenPasses');
+  }
   const resolved: KMeansOptions = {
     groups,
     restarts,
@@ -214,6 +218,7 @@ export function resolveKMeansOptions(partial: Partial<KMeansOptions>, nonEmptyRo
     screen,
     screenSize,
     screenKeep,
+    screenPasses,
   };
   if (initialAssignments !== undefined) {
     if (!isArrayLikeOfNumbers(initialAssignments)) {
