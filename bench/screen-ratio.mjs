@@ -103,6 +103,7 @@ for (let run = 0; run < runs; run++) {
       options = { ...base, screen: true, screenSize: size, screenKeep: keep, ...(passes ? { screenPasses: passes } : {}) };
     }
     const c0 = cpu();
+    const w0 = performance.now();
     const res =
       name === 'ref'
         ? ref.sphericalKMeans(matrix, options)
@@ -110,11 +111,12 @@ for (let run = 0; run < runs; run++) {
           ? await lib.sphericalKMeansParallel(matrix, { ...options, threads })
           : lib.sphericalKMeans(matrix, options);
     const t = (cpu() - c0) / 1000;
+    const wall = (performance.now() - w0) / 1000;
     const r = rec[name];
     r.cpu.push(t);
     r.objective.push(res.objective);
     r.nmi.push(nmiOf(res.assignments));
-    console.log(`  run ${run + 1} seed ${1 + run} ${name.padEnd(11)} CPU ${t.toFixed(2)} s  objective ${res.objective.toFixed(3)}  NMI ${r.nmi.at(-1).toFixed(4)}  passes ${res.iterations}${res.batches ? ` steps ${res.batches}` : ''}`);
+    console.log(`  run ${run + 1} seed ${1 + run} ${name.padEnd(11)} CPU ${t.toFixed(2)} s  wall ${wall.toFixed(2)} s  objective ${res.objective.toFixed(3)}  NMI ${r.nmi.at(-1).toFixed(4)}  passes ${res.iterations}${res.batches ? ` steps ${res.batches}` : ''}`);
   }
 }
 const mean = (xs) => xs.reduce((a, b) => a + b, 0) / xs.length;
