@@ -399,8 +399,8 @@ describe('the assignment kernel on arbitrary valid bounds', () => {
         batch: new Int32Array(0),
         sample: new Int32Array(0),
         screen: new Int32Array(0),
-      wide: new Float32Array(0),
-      scale: new Float64Array(0),
+        wide: new Float32Array(0),
+        scale: new Float64Array(0),
         scores: new Float64Array(3),
       };
       const stats = new Float64Array(STAT_LENGTH);
