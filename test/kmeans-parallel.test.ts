@@ -84,6 +84,7 @@ function expectIdentical(a: KMeansResult, b: KMeansResult): void {
   expect(b.reseeded).toBe(a.reseeded);
   expect(b.batches).toBe(a.batches);
   expect([...b.restartObjectives]).toEqual([...a.restartObjectives]);
+  expect([...b.screenObjectives]).toEqual([...a.screenObjectives]);
   expect(b.scored).toBe(a.scored);
   expect(b.skipped).toBe(a.skipped);
   expect(b.dotProducts).toBe(a.dotProducts);
@@ -107,12 +108,15 @@ describe('sphericalKMeansParallel gives the single-thread result', () => {
           threads: fc.integer({ min: 2, max: 3 }),
           prune: fc.boolean(),
           runSeed: fc.integer({ min: 0, max: 0xffffffff }),
+          screen: fc.boolean(),
+          screenSize: fc.integer({ min: 2, max: 300 }),
+          screenKeep: fc.integer({ min: 1, max: 3 }),
         }),
-        async ({ seed, n, d, topics, focus, k, restarts, maxIterations, threads, prune, runSeed }) => {
+        async ({ seed, n, d, topics, focus, k, restarts, maxIterations, threads, prune, runSeed, screen, screenSize, screenKeep }) => {
           const matrix = planted(seed, n, d, topics, focus);
           const m = countNonEmptyRows(matrix);
           fc.pre(m >= 2);
-          const opts = { groups: Math.min(k, m), restarts, maxIterations, seed: runSeed, prune, miniBatch: false };
+          const opts = { groups: Math.min(k, m), restarts, maxIterations, seed: runSeed, prune, miniBatch: false, screen, screenSize, screenKeep };
           const one = sphericalKMeans(matrix, opts);
           const many = await sphericalKMeansParallel(matrix, { ...opts, threads, workerUrl });
           expectIdentical(one, many);
@@ -138,6 +142,18 @@ describe('sphericalKMeansParallel gives the single-thread result', () => {
     const start = Int32Array.from({ length: matrix.rows }, (_, r) => (matrix.indptr[r + 1]! > matrix.indptr[r]! ? r % 10 : -1));
     const from = { groups: 10, initialAssignments: start } as const;
     expectIdentical(sphericalKMeans(matrix, from), await sphericalKMeansParallel(matrix, { ...from, threads: 2, workerUrl }));
+  });
+
+  it('with restarts screened on a sample, full passes and mini-batch steps', async () => {
+    const matrix = planted(6, 4000, 300, 12, 0.75);
+    const lloyd = { groups: 12, restarts: 4, seed: 3, miniBatch: false, screen: true, screenSize: 700, screenKeep: 2 } as const;
+    const a = sphericalKMeans(matrix, lloyd);
+    expect(a.screenObjectives.length).toBe(4);
+    expectIdentical(a, await sphericalKMeansParallel(matrix, { ...lloyd, threads: 2, workerUrl }));
+    const mb = { ...lloyd, miniBatch: true, batchSize: 300, batchIterations: 20, screenKeep: 1 } as const;
+    const b = sphericalKMeans(matrix, mb);
+    expect(b.batches).toBeGreaterThan(0);
+    expectIdentical(b, await sphericalKMeansParallel(matrix, { ...mb, threads: 2, workerUrl }));
   });
 
   it('from the built module, finding the worker beside it (the dist/ layout)', async () => {

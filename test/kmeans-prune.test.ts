@@ -313,6 +313,9 @@ describe('the assignment kernel on arbitrary valid bounds', () => {
       active,
       batch: new Int32Array(0),
       sample: new Int32Array(0),
+      screen: new Int32Array(0),
+      wide: new Float32Array(0),
+      scale: new Float64Array(0),
       scores: new Float64Array(k),
     });
     return { matrix, k, active, arrays, score: (i: number, g: number) => score(centroids, i, g) };
@@ -395,6 +398,9 @@ describe('the assignment kernel on arbitrary valid bounds', () => {
         active: Int32Array.from([0]),
         batch: new Int32Array(0),
         sample: new Int32Array(0),
+        screen: new Int32Array(0),
+        wide: new Float32Array(0),
+        scale: new Float64Array(0),
         scores: new Float64Array(3),
       };
       const stats = new Float64Array(STAT_LENGTH);

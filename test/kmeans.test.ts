@@ -224,15 +224,19 @@ function checkInvariants(matrix: Csr, res: KMeansResult, k: number): void {
 
 describe('resolveKMeansOptions', () => {
   it('merges the documented defaults', () => {
-    const speed = { prune: true, miniBatch: 'auto', batchSize: 4096, batchIterations: 200, batchTolerance: 0.001 };
+    const speed = { prune: true, miniBatch: 'auto', batchSize: 4096, batchIterations: 200, batchTolerance: 0.001, screen: 'auto', screenSize: 10_000, screenKeep: 1, screenPasses: 10 };
     expect(DEFAULT_KMEANS_OPTIONS).toEqual({ restarts: 10, maxIterations: 100, stableShare: 0.001, seed: 1, ...speed });
     expect(resolveKMeansOptions({ groups: 3 }, 10)).toEqual({ groups: 3, restarts: 10, maxIterations: 100, stableShare: 0.001, seed: 1, ...speed });
     expect(
       resolveKMeansOptions(
-        { groups: 10, restarts: 1, maxIterations: 5, stableShare: 0.5, seed: 4294967295, prune: false, miniBatch: true, batchSize: 1, batchIterations: 1, batchTolerance: 0 },
+        { groups: 10, restarts: 1, maxIterations: 5, stableShare: 0.5, seed: 4294967295, prune: false, miniBatch: true, batchSize: 1, batchIterations: 1, batchTolerance: 0, screen: true, screenSize: 2, screenKeep: 3, screenPasses: 1 },
         10,
       ),
     ).toEqual({
+      screen: true,
+      screenSize: 2,
+      screenKeep: 3,
+      screenPasses: 1,
       groups: 10,
       restarts: 1,
       maxIterations: 5,
@@ -273,6 +277,12 @@ describe('resolveKMeansOptions', () => {
     ['fractional batchIterations', { groups: 2, batchIterations: 2.5 }, 9, 'batchIterations must be a whole number >= 1; got 2.5', 'batchIterations'],
     ['negative batchTolerance', { groups: 2, batchTolerance: -0.1 }, 9, 'batchTolerance must be a number >= 0; got -0.1', 'batchTolerance'],
     ['infinite batchTolerance', { groups: 2, batchTolerance: Infinity }, 9, 'batchTolerance must be a number >= 0; got Infinity', 'batchTolerance'],
+    ['other screen', { groups: 2, screen: 'on' }, 9, 'screen must be "auto", true or false; got "on"', 'screen'],
+    ['one-row screenSize', { groups: 2, screenSize: 1 }, 9, 'screenSize must be a whole number >= 2; got 1', 'screenSize'],
+    ['fractional screenSize', { groups: 2, screenSize: 100.5 }, 9, 'screenSize must be a whole number >= 2; got 100.5', 'screenSize'],
+    ['zero screenKeep', { groups: 2, screenKeep: 0 }, 9, 'screenKeep must be a whole number >= 1; got 0', 'screenKeep'],
+    ['string screenKeep', { groups: 2, screenKeep: '2' }, 9, 'screenKeep must be a whole number >= 1; got "2"', 'screenKeep'],
+    ['zero screenPasses', { groups: 2, screenPasses: 0 }, 9, 'screenPasses must be a whole number >= 1; got 0', 'screenPasses'],
     ['object initialAssignments', { groups: 2, initialAssignments: { 0: 1 } }, 9, 'initialAssignments must be an Int32Array or an array of group numbers; got {"0":1}', 'initialAssignments'],
     ['string array initialAssignments', { groups: 2, initialAssignments: ['0', '1'] }, 9, 'initialAssignments must be an Int32Array or an array of group numbers; got an array holding a non-number', 'initialAssignments'],
     ['miniBatch with initialAssignments', { groups: 2, miniBatch: true, initialAssignments: [0, 1] }, 9, 'miniBatch must be false or "auto" when initialAssignments is given (a given partition is refined by full passes); got true', 'miniBatch'],

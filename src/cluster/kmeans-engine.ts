@@ -29,6 +29,7 @@ import {
   LIST_ACTIVE,
   LIST_BATCH,
   LIST_SAMPLE,
+  LIST_SCREEN,
   STAT_CHANGED,
   STAT_DOTS,
   STAT_LENGTH,
@@ -36,6 +37,7 @@ import {
   STAT_SKIPPED,
   WORK_ASSIGN_PLAIN,
   WORK_ASSIGN_PRUNED,
+  WORK_ASSIGN_SCALED,
   WORK_FIT,
   WORK_SEED,
   rowList,
@@ -77,6 +79,10 @@ export interface KMeansPlan {
   readonly miniBatch: boolean;
   /** The validated starting partition, or null to seed with k-means++. */
   readonly initial: ArrayLike<number> | null;
+  /** Rows in the screening sample (see {@link screenedSteps}), or 0 when restarts run on all rows from the start. */
+  readonly screenSize: number;
+  /** Restarts continued on all rows after screening (1 .. restarts; unused when `screenSize` is 0). */
+  readonly screenKeep: number;
 }
 
 /**
@@ -146,6 +152,16 @@ export interface Workspace extends KernelArrays {
   readonly absorbed: Float64Array;
   /** Mini-batch: members of each group in the current step. */
   readonly stepSizes: Int32Array;
+  /** Mini-batch: ‖wide[·, g]‖² of each group's unscaled vector. */
+  readonly wideNorm: Float64Array;
+  /** Mini-batch: 1 at each (term, group) entry of `wide` the current step touches, listed in `touched`. */
+  readonly mark: Uint8Array;
+  readonly touched: Int32Array;
+  /** Mini-batch: the value of each touched entry before the step. */
+  readonly before: Float64Array;
+  /** Mini-batch: per group, the sums of squares of its touched entries before and after the step. */
+  readonly oldSq: Float64Array;
+  readonly newSq: Float64Array;
   /** Skipped rows and dot products per full assignment pass of the current restart, and of the best. */
   readonly skippedByPass: Int32Array;
   readonly bestSkippedByPass: Int32Array;
@@ -155,6 +171,16 @@ export interface Workspace extends KernelArrays {
   readonly request: { work: number; list: number; count: number };
   /** Sums over the blocks of the last pass: changed, scored, skipped (see `STAT_*`). */
   readonly passStats: Float64Array;
+  /**
+   * The rows the Lloyd passes, centroid updates and objective walk, and the
+   * kernel list that names them: `active` / {@link LIST_ACTIVE}, or the
+   * screening sample `screen` / {@link LIST_SCREEN} while screening.
+   */
+  pile: Int32Array;
+  pileList: number;
+  /** Screening: centroids and member counts of the restarts kept so far, `screenKeep` slots. */
+  readonly keptCentroids: Float32Array;
+  readonly keptCounts: Int32Array;
   /** Rows scored in full, rows skipped and dot products, over every pass of every restart. */
   scoredTotal: number;
   skippedTotal: number;
@@ -187,6 +213,10 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     rowNorm[r] = Math.sqrt(s);
   }
   const slots = passSlots(plan);
+  // Entries a mini-batch step can touch: at most the batch's non-zeros (the longest rows), at most d × k.
+  let longest = 0;
+  for (let a = 0; a < active.length; a++) longest = Math.max(longest, indptr[active[a]! + 1]! - indptr[active[a]!]!);
+  const touchable = plan.miniBatch ? Math.min(d * k, options.batchSize * longest) : 0;
   return {
     k,
     matrix,
@@ -208,7 +238,10 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     trials: alloc.float64(seedTrials(k) * seedSampleSize(plan.nonEmpty, k, options.batchSize)),
     active,
     batch: alloc.int32(plan.miniBatch ? options.batchSize : 0),
-    sample: alloc.int32(plan.miniBatch || plan.nonEmpty > seedSampleSize(plan.nonEmpty, k, options.batchSize) ? plan.nonEmpty : 0),
+    sample: alloc.int32(
+      plan.miniBatch || plan.screenSize > 0 || plan.nonEmpty > seedSampleSize(plan.nonEmpty, k, options.batchSize) ? plan.nonEmpty : 0,
+    ),
+    screen: alloc.int32(plan.screenSize),
     scores: new Float64Array(k),
     bestAssign: new Int32Array(n),
     bestFit: new Float64Array(n),
@@ -226,12 +259,24 @@ export function createWorkspace(plan: KMeansPlan, alloc: Allocator): Workspace {
     candidates: new Int32Array(seedTrials(k)),
     absorbed: new Float64Array(k),
     stepSizes: new Int32Array(k),
+    wide: alloc.float32(plan.miniBatch ? d * k : 0),
+    scale: alloc.float64(k),
+    wideNorm: new Float64Array(k),
+    mark: new Uint8Array(plan.miniBatch ? d * k : 0),
+    touched: new Int32Array(touchable),
+    before: new Float64Array(touchable),
+    oldSq: new Float64Array(k),
+    newSq: new Float64Array(k),
     skippedByPass: new Int32Array(slots),
     bestSkippedByPass: new Int32Array(slots),
     dotsByPass: new Float64Array(slots),
     bestDotsByPass: new Float64Array(slots),
     request: { work: WORK_ASSIGN_PLAIN, list: LIST_ACTIVE, count: 0 },
     passStats: new Float64Array(STAT_LENGTH),
+    pile: active,
+    pileList: LIST_ACTIVE,
+    keptCentroids: new Float32Array(plan.screenSize > 0 ? plan.screenKeep * d * k : 0),
+    keptCounts: new Int32Array(plan.screenSize > 0 ? plan.screenKeep * k : 0),
     scoredTotal: 0,
     skippedTotal: 0,
     dotsTotal: 0,
@@ -259,6 +304,8 @@ export type KMeansProgress = (done: number, total: number) => void;
 export interface RunSummary {
   readonly kept: RestartOutcome;
   readonly restartObjectives: Float64Array;
+  /** Objective of each restart on the screening sample (empty without screening). */
+  readonly screenObjectives: Float64Array;
 }
 
 /** Describes the next pass in `ws.request` and clears `ws.passStats`; the caller then yields. */
@@ -287,6 +334,7 @@ function tally(ws: Workspace, pass: number): void {
  * returns the kept restart's outcome and every restart's objective.
  */
 export function* kmeansSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMeansProgress): Generator<void, RunSummary, void> {
+  if (plan.screenSize > 0) return yield* screenedSteps(ws, plan, onProgress);
   const opts = plan.options;
   const restarts = plan.initial ? 1 : opts.restarts;
   // Progress: steps of every restart (Lloyd passes or mini-batch steps), a restart that stops early jumps to its end.
@@ -308,7 +356,104 @@ export function* kmeansSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMean
       ws.bestDotsByPass.set(ws.dotsByPass);
     }
   }
-  return { kept: kept!, restartObjectives };
+  return { kept: kept!, restartObjectives, screenObjectives: new Float64Array(0) };
+}
+
+/** Keeps the current restart's outcome in `ws.best*` when it beats `kept` (ties to the earlier restart). */
+function keepIfBetter(ws: Workspace, kept: RestartOutcome | undefined, outcome: RestartOutcome): RestartOutcome {
+  if (kept !== undefined && !(outcome.objective > kept.objective)) return kept;
+  ws.bestAssign.set(ws.assign);
+  ws.bestFit.set(ws.fit);
+  ws.bestCentroids.set(ws.centroids);
+  ws.bestSkippedByPass.set(ws.skippedByPass);
+  ws.bestDotsByPass.set(ws.dotsByPass);
+  return outcome;
+}
+
+/** Index of the seed stream of the screening sample (restarts use 0 .. restarts − 1). */
+const SCREEN_STREAM = 0x7fffffff;
+
+/**
+ * The run with screened restarts. A seeded uniform sample of `screenSize`
+ * active rows (drawn once, kept in row order in `ws.screen`) stands in for
+ * the pile: every restart seeds (k-means++, from restart r's stream, as
+ * unscreened) and runs its Lloyd passes on the sample only (with mini-batch
+ * steps to follow, at most `screenPasses` of them). The
+ * `screenKeep` restarts with the best sample objective (ties to the earlier
+ * restart) then continue, in restart order, on all rows from their sample
+ * centroids: Lloyd passes, or mini-batch steps with each centroid's learning
+ * count starting at its sample members, then the final full pass. The best
+ * objective on all rows is kept (ties to the earlier restart). Every draw
+ * comes from seeded streams and every sum runs in a fixed order on the
+ * calling thread, so the result is the same on any number of threads.
+ */
+function* screenedSteps(ws: Workspace, plan: KMeansPlan, onProgress?: KMeansProgress): Generator<void, RunSummary, void> {
+  const opts = plan.options;
+  const { k, active, screen, keptCentroids, keptCounts } = ws;
+  const restarts = opts.restarts;
+  const keep = Math.min(plan.screenKeep, restarts);
+  const dk = ws.centroids.length;
+  const fullPer = plan.miniBatch ? opts.batchIterations : opts.maxIterations;
+  // Mini-batch runs screen briefly: at most `screenPasses` Lloyd passes per restart on the sample.
+  const screenPer = plan.miniBatch ? Math.min(opts.screenPasses, opts.maxIterations) : opts.maxIterations;
+  const total = restarts * screenPer + keep * fullPer;
+  let done = 0;
+  const step = (per: number) => (onProgress ? (s: number) => onProgress(done + Math.min(s, per), total) : undefined);
+
+  drawSample(ws, active, screen.length, createRng(deriveSeed(opts.seed, SCREEN_STREAM)));
+  screen.set(ws.sample.subarray(0, screen.length));
+  screen.sort();
+
+  const screenObjectives = new Float64Array(restarts);
+  const slotObjective = new Float64Array(keep);
+  const slotRestart = new Int32Array(keep).fill(-1);
+  ws.pile = screen;
+  ws.pileList = LIST_SCREEN;
+  for (let r = 0; r < restarts; r++) {
+    const outcome = yield* lloydRestart(ws, createRng(deriveSeed(opts.seed, r)), null, step(screenPer), screenPer);
+    done += screenPer;
+    onProgress?.(done, total);
+    screenObjectives[r] = outcome.objective;
+    // The slot to fill: a free one, else the worst kept (lowest objective, the later restart on ties) if this beats it.
+    let slot = -1;
+    for (let q = 0; q < keep && slot < 0; q++) if (slotRestart[q] === -1) slot = q;
+    if (slot < 0) {
+      let worst = 0;
+      for (let q = 1; q < keep; q++) {
+        if (slotObjective[q]! < slotObjective[worst]! || (slotObjective[q] === slotObjective[worst] && slotRestart[q]! > slotRestart[worst]!)) worst = q;
+      }
+      if (outcome.objective > slotObjective[worst]!) slot = worst;
+    }
+    if (slot < 0) continue;
+    slotObjective[slot] = outcome.objective;
+    slotRestart[slot] = r;
+    keptCentroids.set(ws.centroids, slot * dk);
+    keptCounts.set(ws.counts, slot * k);
+  }
+
+  ws.pile = active;
+  ws.pileList = LIST_ACTIVE;
+  const restartObjectives = new Float64Array(restarts).fill(NaN);
+  let kept: RestartOutcome | undefined;
+  for (let r = 0; r < restarts; r++) {
+    const slot = slotRestart.indexOf(r);
+    if (slot < 0) continue;
+    ws.centroids.set(keptCentroids.subarray(slot * dk, (slot + 1) * dk));
+    let outcome: RestartOutcome;
+    if (plan.miniBatch) {
+      for (let g = 0; g < k; g++) ws.absorbed[g] = keptCounts[slot * k + g]!;
+      const rng = createRng(deriveSeed(deriveSeed(opts.seed, r), 1));
+      outcome = yield* miniBatchFrom(ws, rng, step(fullPer));
+    } else {
+      resetLloyd(ws);
+      outcome = yield* lloydPasses(ws, step(fullPer));
+    }
+    done += fullPer;
+    onProgress?.(done, total);
+    restartObjectives[r] = outcome.objective;
+    kept = keepIfBetter(ws, kept, outcome);
+  }
+  return { kept: kept!, restartObjectives, screenObjectives };
 }
 
 /**
@@ -327,11 +472,11 @@ function seedSampleSize(m: number, k: number, batchSize: number): number {
   return Math.min(m, Math.max(k, 3 * batchSize));
 }
 
-/** Puts a seeded uniform sample of `size` active rows in `ws.sample[0 .. size)` (partial Fisher–Yates). */
-function drawSample(ws: Workspace, size: number, rng: Rng): void {
-  const { active, sample } = ws;
-  const m = active.length;
-  sample.set(active);
+/** Puts a seeded uniform sample of `size` of `rows` in `ws.sample[0 .. size)` (partial Fisher–Yates). */
+function drawSample(ws: Workspace, rows: Int32Array, size: number, rng: Rng): void {
+  const { sample } = ws;
+  const m = rows.length;
+  sample.set(rows);
   for (let s = 0; s < size; s++) {
     const j = s + rng.int(m - s);
     const t = sample[s]!;
@@ -347,33 +492,51 @@ function drawSample(ws: Workspace, size: number, rng: Rng): void {
  * a re-seeding reads it; every restart ends with one, which also gives the
  * fit against the final means when the limit stopped it.
  */
-function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | null, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
-  const { active, assign, fit, upper, lower, options, previous } = ws;
-  const m = active.length;
-  const work = options.prune ? WORK_ASSIGN_PRUNED : WORK_ASSIGN_PLAIN;
-  fit.fill(0);
-  upper.fill(Infinity);
-  lower.fill(-Infinity);
-  previous.fill(-1);
-  ws.skippedByPass.fill(0);
-  ws.dotsByPass.fill(0);
-  assign.fill(-1);
+function* lloydRestart(
+  ws: Workspace,
+  rng: Rng,
+  initial: ArrayLike<number> | null,
+  onStep?: (done: number) => void,
+  limit = ws.options.maxIterations,
+): Generator<void, RestartOutcome, void> {
+  const { pile, assign, options } = ws;
+  const m = pile.length;
+  resetLloyd(ws);
   if (initial) {
-    for (let a = 0; a < m; a++) assign[active[a]!] = initial[active[a]!]!;
+    for (let a = 0; a < m; a++) assign[pile[a]!] = initial[pile[a]!]!;
     countMembers(ws);
     updateCentroids(ws); // every group has a member (validated): no re-seeding
   } else {
     const size = seedSampleSize(m, ws.k, options.batchSize);
     if (size < m) {
-      drawSample(ws, size, rng);
+      drawSample(ws, pile, size, rng);
       yield* seedCentroids(ws, LIST_SAMPLE, size, rng);
-    } else yield* seedCentroids(ws, LIST_ACTIVE, m, rng);
+    } else yield* seedCentroids(ws, ws.pileList, m, rng);
   }
+  return yield* lloydPasses(ws, onStep, limit);
+}
+
+/** Clears the per-row state of a Lloyd run: no group, no fit, bounds unknown. */
+function resetLloyd(ws: Workspace): void {
+  ws.fit.fill(0);
+  ws.upper.fill(Infinity);
+  ws.lower.fill(-Infinity);
+  ws.previous.fill(-1);
+  ws.skippedByPass.fill(0);
+  ws.dotsByPass.fill(0);
+  ws.assign.fill(-1);
+}
+
+/** Lloyd passes over `ws.pile` from the centroids in `ws.centroids` until stable or `maxIterations` (see {@link lloydRestart}). */
+function* lloydPasses(ws: Workspace, onStep?: (done: number) => void, limit = ws.options.maxIterations): Generator<void, RestartOutcome, void> {
+  const { options, pile, pileList } = ws;
+  const m = pile.length;
+  const work = options.prune ? WORK_ASSIGN_PRUNED : WORK_ASSIGN_PLAIN;
   let iterations = 0;
   let converged = false;
   let reseeded = 0;
-  while (iterations < options.maxIterations) {
-    ask(ws, work, LIST_ACTIVE, m);
+  while (iterations < limit) {
+    ask(ws, work, pileList, m);
     yield;
     tally(ws, iterations);
     iterations++;
@@ -385,7 +548,7 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
     }
     countMembers(ws);
     if (options.prune && hasEmptyGroup(ws)) {
-      ask(ws, WORK_FIT, LIST_ACTIVE, m);
+      ask(ws, WORK_FIT, pileList, m);
       yield;
     }
     reseeded += updateCentroids(ws);
@@ -397,14 +560,14 @@ function* lloydRestart(ws: Workspace, rng: Rng, initial: ArrayLike<number> | nul
   }
   // Exact fit of every row against the final centroids: those of the last
   // pass when it converged, the means of the current assignment otherwise.
-  ask(ws, WORK_FIT, LIST_ACTIVE, m);
+  ask(ws, WORK_FIT, pileList, m);
   yield;
   return { objective: objectiveOf(ws), iterations, converged, reseeded, batches: 0 };
 }
 
 /** Sum of `fit` over the rows that take part, in row order. */
 function objectiveOf(ws: Workspace): number {
-  const { active, fit } = ws;
+  const { pile: active, fit } = ws;
   let objective = 0;
   for (let a = 0; a < active.length; a++) objective += fit[active[a]!]!;
   return objective;
@@ -529,7 +692,7 @@ function addRow(matrix: Csr, i: number, sums: Float64Array, k: number, g: number
  * exists: m >= k rows sit in fewer than k groups, so some group has two.
  */
 function farthestMovable(ws: Workspace): number {
-  const { active, assign, fit, counts } = ws;
+  const { pile: active, assign, fit, counts } = ws;
   let far = -1;
   let farFit = Infinity;
   for (let a = 0; a < active.length; a++) {
@@ -552,7 +715,7 @@ function farthestMovable(ws: Workspace): number {
  * Returns the number of rows moved into empty groups.
  */
 function updateCentroids(ws: Workspace): number {
-  const { matrix, active, k, sums, counts, norms, centroids, assign, move, upper, lower, previous, dirty, dirtyList } = ws;
+  const { matrix, pile: active, k, sums, counts, norms, centroids, assign, move, upper, lower, previous, dirty, dirtyList } = ws;
   const { movedRow, movedFrom, movedTo } = ws;
   const m = active.length;
   dirty.fill(0);
@@ -699,22 +862,33 @@ function sortMoves(ws: Workspace): void {
  *    their row without a further pass.
  */
 function* miniBatchRestart(ws: Workspace, rng: Rng, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
-  const { active, sample, batch, assign, fit, upper, options, k } = ws;
+  const { active, options, k } = ws;
   const m = active.length;
   const sampleSize = seedSampleSize(m, k, options.batchSize);
-  drawSample(ws, sampleSize, rng);
+  drawSample(ws, active, sampleSize, rng);
+  yield* seedCentroids(ws, LIST_SAMPLE, sampleSize, rng);
+  ws.absorbed.fill(0);
+  return yield* miniBatchFrom(ws, rng, onStep);
+}
+
+/**
+ * Steps 2 and 3 of {@link miniBatchRestart}: mini-batch steps from the
+ * centroids in `ws.centroids` with the learning counts in `ws.absorbed`,
+ * then the full pass and its repairs.
+ */
+function* miniBatchFrom(ws: Workspace, rng: Rng, onStep?: (done: number) => void): Generator<void, RestartOutcome, void> {
+  const { active, batch, assign, fit, upper, options, k } = ws;
+  const m = active.length;
   assign.fill(-1);
   fit.fill(0);
   ws.skippedByPass.fill(0);
   ws.dotsByPass.fill(0);
-  yield* seedCentroids(ws, LIST_SAMPLE, sampleSize, rng);
-
-  ws.absorbed.fill(0);
   let batches = 0;
   let converged = false;
+  startScaled(ws);
   while (batches < options.batchIterations) {
     for (let b = 0; b < batch.length; b++) batch[b] = active[rng.int(m)]!;
-    ask(ws, WORK_ASSIGN_PLAIN, LIST_BATCH, batch.length);
+    ask(ws, WORK_ASSIGN_SCALED, LIST_BATCH, batch.length);
     yield;
     tally(ws, -1);
     batches++;
@@ -725,6 +899,7 @@ function* miniBatchRestart(ws: Workspace, rng: Rng, onStep?: (done: number) => v
     }
   }
 
+  materialise(ws);
   upper.fill(Infinity);
   let iterations = 0;
   let reseeded = 0;
@@ -753,7 +928,7 @@ function* miniBatchRestart(ws: Workspace, rng: Rng, onStep?: (done: number) => v
 
 /** Members per group of the current assignment, into `ws.counts`. */
 function countMembers(ws: Workspace): void {
-  const { active, assign, counts } = ws;
+  const { pile: active, assign, counts } = ws;
   counts.fill(0);
   for (let a = 0; a < active.length; a++) counts[assign[active[a]!]!]!++;
 }
@@ -780,49 +955,165 @@ function ownScore(ws: Workspace, i: number): number {
 }
 
 /**
- * The centroid move of one mini-batch step (see {@link miniBatchRestart}).
- * Returns the largest movement of a centroid.
+ * Starts the scaled form of the centroids for mini-batch steps: `wide` holds
+ * the float32 centroids as they are, `wideNorm` their squared norms and
+ * `scale` = 1 / ‖wide[·, g]‖; the step sums are cleared. Dense over d × k, once per run.
+ */
+function startScaled(ws: Workspace): void {
+  const { k, centroids, wide, wideNorm, scale, sums } = ws;
+  const d = ws.matrix.cols;
+  wideNorm.fill(0);
+  for (let t = 0; t < d; t++) {
+    const base = t * k;
+    for (let g = 0; g < k; g++) {
+      const c = centroids[base + g]!;
+      wide[base + g] = c;
+      wideNorm[g]! += c * c;
+    }
+  }
+  for (let g = 0; g < k; g++) scale[g] = wideNorm[g]! > 0 ? 1 / Math.sqrt(wideNorm[g]!) : 0;
+  sums.fill(0);
+}
+
+/** Writes the float32 centroids `scale[g] · wide[·, g]` once, after the mini-batch steps. */
+function materialise(ws: Workspace): void {
+  const { k, centroids, wide, scale } = ws;
+  const d = ws.matrix.cols;
+  for (let t = 0; t < d; t++) {
+    const base = t * k;
+    for (let g = 0; g < k; g++) centroids[base + g] = Math.fround(wide[base + g]! * scale[g]!);
+  }
+}
+
+/** Largest and smallest scale kept before a group's vector is rescaled to unit length. */
+const SCALE_HIGH = 2 ** 200;
+const SCALE_LOW = 2 ** -200;
+
+/**
+ * The centroid move of one mini-batch step (see {@link miniBatchRestart}),
+ * on centroids kept as `c_g = scale[g] · w_g` (`w_g` = `wide[·, g]`), at a
+ * cost in proportion to the batch's non-zeros rather than d × k.
+ *
+ * The update `c ← (v₀ c + S) / ‖v₀ c + S‖` (S the sum of the group's batch
+ * rows, v₀ its running count) is `v₀ s (w + S / (v₀ s))` normalised, so only
+ * the entries S touches change: `w ← w + S / (v₀ s)`, and the new scale is
+ * `1 / ‖w‖`, with `‖w‖²` kept up to date (over the stored float32 values) from the touched entries (old and
+ * new squares). The movement `‖c_new − c_old‖` is summed over the touched
+ * entries, plus `(s' − s)² · Σ w²` over the untouched ones (that sum being
+ * `‖w‖²` less the touched entries' old squares). A group that had absorbed
+ * nothing (v₀ = 0: the first step after seeding) takes `S / ‖S‖`, dense over
+ * its column, once. Members that cancel exactly (possible only with
+ * negative values) leave the centroid as it was. A scale outside
+ * 2^±200 rescales its vector to unit length. Returns the largest movement.
  */
 function miniBatchStep(ws: Workspace): number {
-  const { matrix, batch, assign, k, sums, norms, centroids, absorbed, stepSizes, move } = ws;
-  sums.fill(0);
+  const { matrix, batch, assign, k, sums, wide, scale, wideNorm, absorbed, stepSizes, move, mark, touched, before, oldSq, newSq, norms, dirty } = ws;
+  const { indptr, indices, values } = matrix;
+  const d = matrix.cols;
   stepSizes.fill(0);
+  let nt = 0;
   for (let b = 0; b < batch.length; b++) {
     const i = batch[b]!;
     const g = assign[i]!;
     stepSizes[g]!++;
-    addRow(matrix, i, sums, k, g, 1);
-  }
-  const d = matrix.cols;
-  norms.fill(0);
-  for (let t = 0; t < d; t++) {
-    const base = t * k;
-    for (let g = 0; g < k; g++) {
-      if (stepSizes[g] === 0) continue;
-      const v = absorbed[g]! * centroids[base + g]! + sums[base + g]!;
-      sums[base + g] = v;
-      norms[g]! += v * v;
+    for (let j = indptr[i]!; j < indptr[i + 1]!; j++) {
+      const e = indices[j]! * k + g;
+      if (mark[e] === 0) {
+        mark[e] = 1;
+        touched[nt++] = e;
+      }
+      sums[e]! += values[j]!;
     }
   }
-  for (let g = 0; g < k; g++) norms[g] = norms[g]! > 0 ? 1 / Math.sqrt(norms[g]!) : 0;
   move.fill(0);
-  for (let t = 0; t < d; t++) {
-    const base = t * k;
-    for (let g = 0; g < k; g++) {
-      if (norms[g] === 0) continue; // no members this step (or members cancel): centroid stays
-      const c = Math.fround(sums[base + g]! * norms[g]!);
-      const step = c - centroids[base + g]!;
-      move[g]! += step * step;
-      centroids[base + g] = c;
+  oldSq.fill(0);
+  newSq.fill(0);
+  dirty.fill(0);
+  // Groups that absorbed nothing yet: the batch mean direction replaces the centroid (dense, once per run).
+  for (let g = 0; g < k; g++) {
+    if (stepSizes[g] === 0 || absorbed[g] !== 0) continue;
+    dirty[g] = 1;
+    let n2 = 0;
+    for (let t = 0; t < d; t++) n2 += sums[t * k + g]! * sums[t * k + g]!;
+    if (!(n2 > 0)) continue; // members cancel: centroid stays
+    const s = scale[g]!;
+    let r2 = 0;
+    for (let t = 0; t < d; t++) {
+      const w = Math.fround(sums[t * k + g]!);
+      r2 += w * w;
     }
+    const inv = 1 / Math.sqrt(r2);
+    let mv = 0;
+    for (let t = 0; t < d; t++) {
+      const e = t * k + g;
+      const w = Math.fround(sums[e]!);
+      const step = w * inv - s * wide[e]!;
+      mv += step * step;
+      wide[e] = w;
+    }
+    move[g] = mv;
+    wideNorm[g] = r2;
+    scale[g] = inv;
+  }
+  for (let p = 0; p < nt; p++) {
+    const e = touched[p]!;
+    const g = e % k;
+    const old = wide[e]!;
+    before[p] = old;
+    if (dirty[g]) continue;
+    const now = Math.fround(old + sums[e]! / (absorbed[g]! * scale[g]!));
+    wide[e] = now;
+    oldSq[g]! += old * old;
+    newSq[g]! += now * now;
+  }
+  for (let g = 0; g < k; g++) {
+    norms[g] = 0;
+    if (stepSizes[g] === 0 || dirty[g]) continue;
+    const n2 = wideNorm[g]! - oldSq[g]! + newSq[g]!;
+    if (n2 > 0) norms[g] = 1 / Math.sqrt(n2);
+  }
+  for (let p = 0; p < nt; p++) {
+    const e = touched[p]!;
+    const g = e % k;
+    sums[e] = 0;
+    mark[e] = 0;
+    if (dirty[g] || stepSizes[g] === 0) continue;
+    if (norms[g] === 0) {
+      wide[e] = before[p]!; // members cancel: centroid stays
+      continue;
+    }
+    const step = norms[g]! * wide[e]! - scale[g]! * before[p]!;
+    move[g]! += step * step;
   }
   let largest = 0;
   for (let g = 0; g < k; g++) {
+    if (stepSizes[g] !== 0 && !dirty[g] && norms[g] !== 0) {
+      const ds = norms[g]! - scale[g]!;
+      move[g]! += ds * ds * Math.max(0, wideNorm[g]! - oldSq[g]!);
+      wideNorm[g] = wideNorm[g]! - oldSq[g]! + newSq[g]!;
+      scale[g] = norms[g]!;
+    }
+    if (scale[g]! > SCALE_HIGH || scale[g]! < SCALE_LOW) rescale(ws, g);
     absorbed[g]! += stepSizes[g]!;
     const v = Math.sqrt(move[g]!);
     if (v > largest) largest = v;
   }
   return largest;
+}
+
+/** Rewrites group `g`'s vector as the unit centroid itself (scale 1), its squared norm summed afresh. */
+function rescale(ws: Workspace, g: number): void {
+  const { k, wide, scale, wideNorm } = ws;
+  const d = ws.matrix.cols;
+  const s = scale[g]!;
+  let n2 = 0;
+  for (let t = 0; t < d; t++) {
+    const v = Math.fround(wide[t * k + g]! * s);
+    wide[t * k + g] = v;
+    n2 += v * v;
+  }
+  wideNorm[g] = n2;
+  scale[g] = n2 > 0 ? 1 / Math.sqrt(n2) : 0;
 }
 
 /**
@@ -849,6 +1140,7 @@ export function finishResult(ws: Workspace, summary: RunSummary): KMeansResult {
     iterations: kept.iterations,
     converged: kept.converged,
     restartObjectives: summary.restartObjectives,
+    screenObjectives: summary.screenObjectives,
     reseeded: kept.reseeded,
     batches: kept.batches,
     scored: ws.scoredTotal,

@@ -107,6 +107,15 @@ export interface KernelArrays {
   readonly batch: Int32Array;
   /** Rows of the seeded sample that mini-batch seeding draws from (a prefix is used). */
   readonly sample: Int32Array;
+  /** Rows of the screening sample that restarts are first run on, increasing (empty when not screening). */
+  readonly screen: Int32Array;
+  /**
+   * Mini-batch steps: each centroid as `scale[g] · wide[t * k + g]` (term-major
+   * float32 vectors like the centroids, empty without mini-batch), so a step rewrites only the
+   * entries its batch rows hold (see `miniBatchStep` in `kmeans-engine.ts`).
+   */
+  readonly wide: Float32Array;
+  readonly scale: Float64Array;
   /** Scratch for one row's k scores; one per thread, never shared. */
   readonly scores: Float64Array;
 }
@@ -375,6 +384,36 @@ export function refreshFit(s: KernelArrays, rows: Int32Array, from: number, to: 
   }
 }
 
+/**
+ * Mini-batch assignment over `rows[from .. to)` against the centroids
+ * `scale[g] · wide[·, g]`: each score is the dot product with the unscaled
+ * vector, times the group's scale (ties to the lowest group). Writes the
+ * rows' `assign` and `fit`; counts every row as scored.
+ */
+export function assignScaled(s: KernelArrays, rows: Int32Array, from: number, to: number, stats: Float64Array, at: number): void {
+  const { k, indptr, indices, values, wide, scale, assign, fit, scores } = s;
+  let changed = 0;
+  for (let a = from; a < to; a++) {
+    const i = rows[a]!;
+    scoreAll(indices, values, wide, k, indptr[i]!, indptr[i + 1]!, scores);
+    let bestG = 0;
+    let bestS = scores[0]! * scale[0]!;
+    for (let g = 1; g < k; g++) {
+      const v = scores[g]! * scale[g]!;
+      if (v > bestS) {
+        bestS = v;
+        bestG = g;
+      }
+    }
+    if (assign[i] !== bestG) changed++;
+    assign[i] = bestG;
+    fit[i] = bestS;
+  }
+  stats[at + STAT_CHANGED]! += changed;
+  stats[at + STAT_SCORED]! += to - from;
+  stats[at + STAT_DOTS]! += (to - from) * k;
+}
+
 /** Work kind of a block request: assignment pass using the bound. */
 export const WORK_ASSIGN_PRUNED = 0;
 /** Assignment pass scoring every row against every centroid. */
@@ -383,6 +422,8 @@ export const WORK_ASSIGN_PLAIN = 1;
 export const WORK_SEED = 2;
 /** Exact `fit` of every row ({@link refreshFit}). */
 export const WORK_FIT = 3;
+/** Mini-batch assignment against scaled centroids ({@link assignScaled}). */
+export const WORK_ASSIGN_SCALED = 4;
 
 /** Row lists a request can walk: {@link KernelArrays.active}. */
 export const LIST_ACTIVE = 0;
@@ -391,9 +432,12 @@ export const LIST_BATCH = 1;
 /** {@link KernelArrays.sample}. */
 export const LIST_SAMPLE = 2;
 
+/** {@link KernelArrays.screen}. */
+export const LIST_SCREEN = 3;
+
 /** The row list a request names. */
 export function rowList(s: KernelArrays, list: number): Int32Array {
-  return list === LIST_ACTIVE ? s.active : list === LIST_BATCH ? s.batch : s.sample;
+  return list === LIST_ACTIVE ? s.active : list === LIST_BATCH ? s.batch : list === LIST_SAMPLE ? s.sample : s.screen;
 }
 
 /**
@@ -414,5 +458,6 @@ export function runBlock(
   const rows = rowList(s, list);
   if (work === WORK_SEED) scoreTrials(s, rows, from, to);
   else if (work === WORK_FIT) refreshFit(s, rows, from, to);
+  else if (work === WORK_ASSIGN_SCALED) assignScaled(s, rows, from, to, stats, at);
   else assignRows(s, rows, from, to, work === WORK_ASSIGN_PRUNED, stats, at);
 }

@@ -45,6 +45,25 @@ export interface KMeansOptions {
    */
   batchTolerance: number;
   /**
+   * Screen the restarts on a sample: `true`, `false`, or `'auto'` (on from
+   * `SCREEN_AUTO_ROWS` non-empty rows). Screened, every restart seeds and
+   * runs its Lloyd passes on one seeded uniform sample of `screenSize` rows;
+   * only the `screenKeep` best (by objective on the sample) continue on all
+   * rows from their sample centroids, with Lloyd passes or mini-batch steps.
+   * Never with `initialAssignments` or a single restart.
+   */
+  screen: 'auto' | boolean;
+  /** Screening: rows in the sample (at least `groups` are used). Whole number >= 2. */
+  screenSize: number;
+  /** Screening: restarts continued on all rows, the best on the sample first. Whole number >= 1 (at most `restarts` run). */
+  screenKeep: number;
+  /**
+   * Screening before mini-batch steps: most Lloyd passes per restart on the
+   * sample (a brief run to rank the restarts). Whole number >= 1. Full-pass
+   * runs screen with `maxIterations` and `stableShare`.
+   */
+  screenPasses: number;
+  /**
    * Start from this partition instead of k-means++ seeding: one group
    * number from 0 to k − 1 per row (empty rows: −1 or any group, ignored),
    * every group used. One run, full passes.
@@ -72,8 +91,13 @@ export interface KMeansResult {
    * `batchTolerance` (rather than at `batchIterations`).
    */
   readonly converged: boolean;
-  /** Objective reached by each restart, in restart order. */
+  /**
+   * Objective on all rows reached by each restart, in restart order; NaN for
+   * a restart dropped at screening.
+   */
   readonly restartObjectives: Float64Array;
+  /** Objective of each restart on the screening sample, in restart order (empty when not screened). */
+  readonly screenObjectives: Float64Array;
   /** Rows moved into empty groups during the kept restart. */
   readonly reseeded: number;
   /** Mini-batch steps in the kept restart (0 without mini-batch). */

@@ -202,6 +202,9 @@ class Crew {
       active: ws.active,
       batch: ws.batch,
       sample: ws.sample,
+      screen: ws.screen,
+      wide: ws.wide,
+      scale: ws.scale,
     };
     for (const [name, a] of Object.entries(arrays)) {
       if (!isShared(a as ArrayBufferView)) throw new Error(`internal: ${name} is not on shared memory`);

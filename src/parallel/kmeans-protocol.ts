@@ -58,5 +58,8 @@ export interface WorkerInit {
     readonly active: Int32Array;
     readonly batch: Int32Array;
     readonly sample: Int32Array;
+    readonly screen: Int32Array;
+    readonly wide: Float32Array;
+    readonly scale: Float64Array;
   };
 }
