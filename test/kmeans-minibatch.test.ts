@@ -275,7 +275,7 @@ describe('mini-batch spherical k-means', () => {
     // seeds 1..5 the lowest was 0.9486 (k = 6) and 0.9607 (k = 3).
     for (const r of ratios) expect(r, ratios.join(' ')).toBeGreaterThanOrEqual(0.94);
     expect(ratios.reduce((a, b) => a + b, 0) / ratios.length).toBeGreaterThanOrEqual(0.96);
-  }, 60_000);
+  }, 180_000); // about 58 s of k-means on a quiet machine; room for a loaded CI runner
 });
 
 /** Whether two assignments are the same partition (one group numbering maps onto the other). */
