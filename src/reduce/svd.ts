@@ -52,7 +52,23 @@ import { Matrix, SingularValueDecomposition } from 'ml-matrix';
 import type { Csr } from '../types.js';
 import type { Rng } from '../util/random.js';
 import { resolveReduceOptions, type ReduceOptions } from './options.js';
-import { combineRange, gramUpperRange, multiplyCsrDenseRange, projectRange, solveUpperRange } from './svd-kernels.js';
+import {
+  gramUpperRange,
+  multiplyCsrDenseRange,
+  projectRange,
+  runSvdBlock,
+  solveUpperRange,
+  svdWorkRows,
+  SVD_WORK_A,
+  SVD_WORK_AT,
+  SVD_WORK_COMBINE,
+  SVD_WORK_GRAM_OMEGA,
+  SVD_WORK_GRAM_Y,
+  SVD_WORK_PROJECT,
+  SVD_WORK_SOLVE_OMEGA,
+  SVD_WORK_SOLVE_Y,
+  type SvdArrays,
+} from './svd-kernels.js';
 
 /** Outcome of {@link truncatedSvd}. */
 export interface TruncatedSvd {
@@ -359,52 +375,6 @@ function projectOut(q: Float64Array, rows: number, l: number, j: number, dots: F
   return Math.sqrt(norm);
 }
 
-/** Row work of the decomposition: y = A·Ω, split by rows of A. */
-export const SVD_WORK_A = 1;
-/** Row work: Ω = Aᵀ·y, split by terms (rows of Aᵀ). */
-export const SVD_WORK_AT = 2;
-/** Row work: the upper Gram matrix of y, split by rows of G. */
-export const SVD_WORK_GRAM_Y = 3;
-/** Row work: the upper Gram matrix of Ω, split by rows of G. */
-export const SVD_WORK_GRAM_OMEGA = 4;
-/** Row work: y ← yR⁻¹, split by rows of y. */
-export const SVD_WORK_SOLVE_Y = 5;
-/** Row work: Ω ← ΩR⁻¹, split by rows of Ω. */
-export const SVD_WORK_SOLVE_OMEGA = 6;
-/** Row work: term-major V = Q̂W, split by terms. */
-export const SVD_WORK_COMBINE = 7;
-/** Row work: the re-normalised rows A·Vᵀ, split by rows of A. */
-export const SVD_WORK_PROJECT = 8;
-
-/**
- * Every array the row kernels of one decomposition read or write (shared with
- * the worker threads on the parallel path). Sizes: n rows, m terms, l = d + p.
- */
-export interface SvdArrays {
-  /** A, n × m. */
-  readonly a: Csr;
-  /** Aᵀ, m × n ({@link transposeCsr}). */
-  readonly at: Csr;
-  readonly l: number;
-  readonly d: number;
-  /** Ω, then Q̃ⱼ, then Bᵀ and Q̂ (m × l). */
-  readonly omega: Float64Array;
-  /** Yⱼ, then Qⱼ (n × l). */
-  readonly y: Float64Array;
-  /** Upper Gram matrix (l × l). */
-  readonly g: Float64Array;
-  /** Rᵀ of the solve (l × l). */
-  readonly rt: Float64Array;
-  /** W, the right singular vectors of R̂ᵀ kept, in order (l × d). */
-  readonly wd: Float64Array;
-  /** V = Q̂W term-major, before the sign fix (m × d). */
-  readonly compT: Float64Array;
-  /** The Float32 components term-major (m × d). */
-  readonly byTerm: Float32Array;
-  /** The re-normalised rows (n × d). */
-  readonly rows: Float32Array;
-}
-
 /**
  * Allocates the arrays of a decomposition of `a` (with its transpose `at`)
  * into l = d + p columns, through `alloc`; `ws` supplies `g` and `rt`.
@@ -426,54 +396,6 @@ export function createSvdArrays(a: Csr, at: Csr, l: number, d: number, ws: OrthW
     byTerm: alloc.float32(m * d),
     rows: alloc.float32(n * d),
   };
-}
-
-/** The number of output rows a row work covers (what a driver splits into ranges). */
-export function svdWorkRows(s: SvdArrays, work: number): number {
-  switch (work) {
-    case SVD_WORK_A:
-    case SVD_WORK_SOLVE_Y:
-    case SVD_WORK_PROJECT:
-      return s.a.rows;
-    case SVD_WORK_AT:
-    case SVD_WORK_SOLVE_OMEGA:
-    case SVD_WORK_COMBINE:
-      return s.a.cols;
-    case SVD_WORK_GRAM_Y:
-    case SVD_WORK_GRAM_OMEGA:
-      return s.l;
-    default:
-      throw new RangeError(`unknown decomposition work ${work}`);
-  }
-}
-
-/**
- * Runs output rows `from..to` of a row work; the one kernel call that one
- * thread (the whole range) and several (a range each) make. `acc` is scratch
- * of length d.
- */
-export function runSvdBlock(s: SvdArrays, work: number, from: number, to: number, acc: Float64Array): void {
-  const { a, at, l, d } = s;
-  switch (work) {
-    case SVD_WORK_A:
-      return multiplyCsrDenseRange(a, s.omega, l, s.y, from, to);
-    case SVD_WORK_AT:
-      return multiplyCsrDenseRange(at, s.y, l, s.omega, from, to);
-    case SVD_WORK_GRAM_Y:
-      return gramUpperRange(s.y, a.rows, l, s.g, from, to);
-    case SVD_WORK_GRAM_OMEGA:
-      return gramUpperRange(s.omega, a.cols, l, s.g, from, to);
-    case SVD_WORK_SOLVE_Y:
-      return solveUpperRange(s.y, l, s.rt, from, to);
-    case SVD_WORK_SOLVE_OMEGA:
-      return solveUpperRange(s.omega, l, s.rt, from, to);
-    case SVD_WORK_COMBINE:
-      return combineRange(s.omega, l, s.wd, d, s.compT, from, to);
-    case SVD_WORK_PROJECT:
-      return projectRange(a, s.byTerm, d, s.rows, acc, from, to);
-    default:
-      throw new RangeError(`unknown decomposition work ${work}`);
-  }
 }
 
 /** What {@link svdSteps} returns besides the arrays it filled (`byTerm`, `rows`). */
