@@ -176,7 +176,7 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
 
   // Reduced vectors: groups are formed (and refined) on the reduced rows, then named and treed from TF-IDF centroids.
   const reduce = reductionFor(resolved.reduce, nonEmpty, matrix.cols);
-  const tReduce = now();
+  const tReduce = reduce ? now() : 0;
   const space = reduce ? ((yield { kind: 'reduce', matrix, options: reduce, seed: resolved.seed, nonEmptyRows: nonEmpty }) as ReducedSpace) : null;
   if (space) timings.push({ stage: 'reduce', ms: now() - tReduce, items: nonEmpty });
   const grouping = space?.matrix ?? matrix;
