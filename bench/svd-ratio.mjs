@@ -1,9 +1,12 @@
 // Truncated SVD (src/reduce/svd.ts) against a reference build of the same
 // function, on the same matrix, in one process, runs interleaved: CPU time per
 // run and the ratio reference / ours, and whether the outputs are bit-identical.
+// With --threads T (> 1) ours also runs on T threads (truncatedSvdParallel of
+// src/parallel/svd-parallel.ts), interleaved with the others; CPU is the whole
+// process's (workers included), wall is what a user waits.
 //
 // Usage:
-//   node bench/svd-ratio.mjs --mtx DIR/vectors.mtx --ref REFDIST [--runs 2] [--dims 50] [--seed 1]
+//   node bench/svd-ratio.mjs --mtx DIR/vectors.mtx --ref REFDIST [--runs 2] [--dims 50] [--seed 1] [--threads 2]
 // The matrix comes from `sheaf group ... --save-vectors DIR` (the TF-IDF rows
 // the reduce stage sees). REFDIST is a built dist/ of the reference commit
 // (e.g. `git archive REF src | tar -x -C /tmp/ref && npx tsc -p tsconfig.build.json --outDir ...`,
@@ -28,6 +31,7 @@ const dims = Number(opt('--dims', '50'));
 const seed = Number(opt('--seed', '1'));
 const here = path.dirname(fileURLToPath(import.meta.url));
 const ours = await import(pathToFileURL(path.join(here, '..', 'dist', 'index.js')).href);
+const threads = Number(opt('--threads', '1'));
 const ref = await import(pathToFileURL(path.resolve(refDist, 'index.js')).href);
 
 /** MatrixMarket coordinate file (rows in order, as sheaf writes it) → CSR with Float32 values. */
@@ -66,25 +70,42 @@ const cpu = () => {
   const u = process.cpuUsage();
   return (u.user + u.system) / 1000;
 };
-const times = { ref: [], ours: [] };
-let outs = {};
+const variants = [
+  ['ref', () => ref.truncatedSvd(matrix, { dims }, ref.createRng(seed))],
+  ['ours', () => ours.truncatedSvd(matrix, { dims }, ours.createRng(seed))],
+];
+if (threads > 1) variants.push([`ours×${threads}`, () => ours.truncatedSvdParallel(matrix, { dims }, ours.createRng(seed), { threads })]);
+const times = Object.fromEntries(variants.map(([name]) => [name, []]));
+const outs = {};
 for (let r = 0; r < runs; r++) {
-  for (const [name, lib] of r % 2 === 0 ? [['ref', ref], ['ours', ours]] : [['ours', ours], ['ref', ref]]) {
+  // Rotate the order from run to run, so no variant always runs first.
+  const order = variants.map((_, i) => variants[(i + r) % variants.length]);
+  for (const [name, run] of order) {
     const c0 = cpu();
     const t0 = performance.now();
-    const svd = lib.truncatedSvd(matrix, { dims }, lib.createRng(seed));
+    const svd = await run();
     times[name].push({ cpu: cpu() - c0, wall: performance.now() - t0 });
     outs[name] = svd;
   }
 }
 const same = (a, b) => a.length === b.length && a.every((x, i) => Object.is(x, b[i]));
-let maxDiff = 0;
-for (let i = 0; i < outs.ref.rows.length; i++) maxDiff = Math.max(maxDiff, Math.abs(outs.ref.rows[i] - outs.ours.rows[i]));
-const min = (xs, key) => Math.min(...xs.map((x) => x[key]));
-for (const name of ['ref', 'ours']) {
-  console.log(`${name.padEnd(4)} CPU ${times[name].map((t) => (t.cpu / 1000).toFixed(2)).join(', ')} s; wall ${times[name].map((t) => (t.wall / 1000).toFixed(2)).join(', ')} s`);
+const median = (xs, key) => {
+  const s = xs.map((x) => x[key]).sort((a, b) => a - b);
+  return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
+};
+for (const [name] of variants) {
+  const t = times[name];
+  console.log(
+    `${name.padEnd(7)} CPU ${t.map((x) => (x.cpu / 1000).toFixed(2)).join(', ')} s (median ${(median(t, 'cpu') / 1000).toFixed(2)}); wall ${t.map((x) => (x.wall / 1000).toFixed(2)).join(', ')} s (median ${(median(t, 'wall') / 1000).toFixed(2)})`,
+  );
 }
-console.log(`ratio ref / ours (best CPU): ${(min(times.ref, 'cpu') / min(times.ours, 'cpu')).toFixed(2)}×; (best wall): ${(min(times.ref, 'wall') / min(times.ours, 'wall')).toFixed(2)}×`);
-console.log(
-  `bit-identical: components ${same(outs.ref.components, outs.ours.components)}, singular values ${same(outs.ref.singularValues, outs.ours.singularValues)}, rows ${same(outs.ref.rows, outs.ours.rows)} (largest row difference ${maxDiff})`,
-);
+for (const [name] of variants.slice(1)) {
+  console.log(`ratio ref / ${name} (median CPU): ${(median(times.ref, 'cpu') / median(times[name], 'cpu')).toFixed(2)}×; (median wall): ${(median(times.ref, 'wall') / median(times[name], 'wall')).toFixed(2)}×`);
+}
+for (const [name] of variants.slice(1)) {
+  let maxDiff = 0;
+  for (let i = 0; i < outs.ref.rows.length; i++) maxDiff = Math.max(maxDiff, Math.abs(outs.ref.rows[i] - outs[name].rows[i]));
+  console.log(
+    `bit-identical ${name} vs ref: components ${same(outs.ref.components, outs[name].components)}, singular values ${same(outs.ref.singularValues, outs[name].singularValues)}, rows ${same(outs.ref.rows, outs[name].rows)} (largest row difference ${maxDiff})`,
+  );
+}

@@ -50,6 +50,9 @@ export {
   TERM_COUNTS_FORMAT, TERM_COUNTS_VERSION, type TermCounts, type CountsCleaning,
 } from './vectorize/df-counts.js';
 export { kmeansRunner, vectorizeRunner, PARALLEL_MIN_ROWS, PARALLEL_ANALYZE_MIN_CHARS } from './parallel/runners.js';
+export { reduceRunner, PARALLEL_REDUCE_MIN_ROWS, type ReduceRunnerOptions } from './parallel/runners.js';
+export type { ReduceRequest, ReduceRunner } from './runners.js';
+export { truncatedSvdParallel } from './parallel/svd-parallel.js';
 export { sphericalKMeansParallel, resolveParallelOptions, type ParallelOptions } from './parallel/kmeans-parallel.js';
 export {
   groupDocuments,

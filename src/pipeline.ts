@@ -10,7 +10,7 @@ import type { Csr, Doc, StageTiming } from './types.js';
 import type { PipelineHooks } from './hooks.js';
 import { createAnalyzer } from './analyze/index.js';
 import type { TfidfFit, Vocabulary } from './vectorize/index.js';
-import { fitHere, kmeansHere, type PipelineRunners, type PipelineStep, type StepReply } from './runners.js';
+import { fitHere, kmeansHere, reduceHere, type PipelineRunners, type PipelineStep, type StepReply } from './runners.js';
 import { canonicalOrder } from './util/id-order.js';
 import { rowsWithoutEntries } from './util/csr.js';
 import { groupAverageLink, type Dendrogram } from './cluster/tree.js';
@@ -29,7 +29,7 @@ import { findMethod, type GroupChoice, type GroupingMethod, type MethodOutcome }
 import { resolveGroupOptions, type GroupOptions, type ResolvedGroupOptions } from './group-options.js';
 import { refineGroups } from './cluster/unsorted.js';
 import { GUARD_SPARE_TERMS, groupNameStopwords, guardNames } from './label/names.js';
-import { reduceForGrouping, reductionFor, termSpacePartition, type ReducedGrouping } from './reduce/index.js';
+import { reductionFor, termSpacePartition, type ReducedGrouping } from './reduce/index.js';
 import { nextGroupsOf, type NextGroups } from './cluster/second.js';
 
 export type { KMeansRequest, KMeansRunner, PipelineRunners } from './runners.js';
@@ -109,14 +109,14 @@ export function groupDocuments(input: GroupInput, options: GroupOptions | Resolv
   let next = steps.next();
   while (!next.done) {
     const req = next.value;
-    next = steps.next(req.kind === 'kmeans' ? kmeansHere(req) : fitHere(req));
+    next = steps.next(req.kind === 'kmeans' ? kmeansHere(req) : req.kind === 'reduce' ? reduceHere(req) : fitHere(req));
   }
   return next.value;
 }
 
 /**
- * {@link groupDocuments} with k-means runs and the analyze+vectorize step
- * handed to runners (for example the thread runners of `src/parallel`), which
+ * {@link groupDocuments} with k-means runs, the analyze+vectorize step and
+ * the reduction handed to runners (for example the thread runners of `src/parallel`), which
  * return the very same results as the single-thread code, so the output is
  * identical.
  */
@@ -131,6 +131,7 @@ export async function groupDocumentsAsync(
   while (!next.done) {
     const req = next.value;
     if (req.kind === 'kmeans') next = steps.next(await (runners.kmeans ? runners.kmeans(req) : kmeansHere(req)));
+    else if (req.kind === 'reduce') next = steps.next(await (runners.reduce ? runners.reduce(req) : reduceHere(req)));
     else next = steps.next(await (runners.vectorize ? runners.vectorize(req) : fitHere(req)));
   }
   return next.value;
@@ -178,7 +179,9 @@ function* groupSteps(input: GroupInput, options: GroupOptions | ResolvedGroupOpt
 
   // Reduced vectors: groups are formed (and refined) on the reduced rows, then named and treed from TF-IDF centroids.
   const reduce = reductionFor(resolved.reduce, nonEmpty, matrix.cols);
-  const space = reduce ? time('reduce', nonEmpty, () => reduceForGrouping(matrix, reduce, resolved.seed, nonEmpty)) : null;
+  const tReduce = reduce ? now() : 0;
+  const space = reduce ? ((yield { kind: 'reduce', matrix, options: reduce, seed: resolved.seed, nonEmptyRows: nonEmpty }) as ReducedSpace) : null;
+  if (space) timings.push({ stage: 'reduce', ms: now() - tReduce, items: nonEmpty });
   const grouping = space?.matrix ?? matrix;
   const tForm = now();
   // Guided groups: k-means starts from the guide's centres (and seeded ones for the rest); guided groups are numbered first.

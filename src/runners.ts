@@ -1,6 +1,7 @@
 /**
- * The two kinds of heavy work the pipeline hands to its driver, and how each
- * runs on the calling thread: k-means runs and the analyze+vectorize step.
+ * The kinds of heavy work the pipeline hands to its driver, and how each
+ * runs on the calling thread: k-means runs, the analyze+vectorize step and
+ * the reduction (truncated SVD).
  * The thread runners of `src/parallel` implement the same types and return
  * the very same results, so the output never depends on which ran.
  *
@@ -11,6 +12,7 @@ import { createAnalyzer, type AnalyzerOptions, type AnalyzerSettings } from './a
 import { fitTfidf, type TfidfFit, type VectorizeOptions } from './vectorize/index.js';
 import { sphericalKMeans, type KMeansProgress } from './cluster/kmeans.js';
 import type { KMeansOptions, KMeansResult } from './cluster/kmeans-types.js';
+import { reduceForGrouping, type ReducedSpace, type ReduceOptions } from './reduce/index.js';
 
 /** A k-means run the pipeline needs; the driver decides on how many threads it runs. */
 export interface KMeansRequest {
@@ -38,10 +40,29 @@ export interface VectorizeRequest {
 /** Runs an analyze+vectorize step, on the calling thread or on several (same result either way). */
 export type VectorizeRunner = (request: VectorizeRequest) => Promise<TfidfFit>;
 
+/** The reduction of a run: the TF-IDF rows, the decomposition's options, the run's seed. */
+export interface ReduceRequest {
+  readonly matrix: Csr;
+  readonly options: Partial<ReduceOptions>;
+  /** The run's seed (the decomposition draws from its own stream of it). */
+  readonly seed: number;
+  /** Documents with terms (bounds `dims` together with the terms). */
+  readonly nonEmptyRows: number;
+}
+
+/** Runs a reduction, on the calling thread or on several (same result either way, bit for bit). */
+export type ReduceRunner = (request: ReduceRequest) => Promise<ReducedSpace>;
+
 /** The runners of `groupDocumentsAsync`; a missing one runs on the calling thread. */
 export interface PipelineRunners {
   readonly kmeans?: KMeansRunner;
   readonly vectorize?: VectorizeRunner;
+  readonly reduce?: ReduceRunner;
+}
+
+/** A reduction run on the calling thread. */
+export function reduceHere(req: ReduceRequest): ReducedSpace {
+  return reduceForGrouping(req.matrix, req.options, req.seed, req.nonEmptyRows);
 }
 
 /** A k-means request run on the calling thread. */
@@ -64,10 +85,11 @@ export function fitHere(req: VectorizeRequest): TfidfFit {
   return fitTfidf(termLists(), req.vectorize);
 }
 
-/** The work the pipeline hands to its driver: k-means runs and the analyze+vectorize step. */
+/** The work the pipeline hands to its driver: k-means runs, the analyze+vectorize step and the reduction. */
 export type PipelineStep =
   | ({ readonly kind: 'kmeans' } & KMeansRequest)
-  | ({ readonly kind: 'vectorize' } & VectorizeRequest & { readonly analyzer: AnalyzerSettings });
+  | ({ readonly kind: 'vectorize' } & VectorizeRequest & { readonly analyzer: AnalyzerSettings })
+  | ({ readonly kind: 'reduce' } & ReduceRequest);
 
 /** What the driver sends back for a {@link PipelineStep}. */
-export type StepReply = KMeansResult | TfidfFit;
+export type StepReply = KMeansResult | TfidfFit | ReducedSpace;

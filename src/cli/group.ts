@@ -19,7 +19,7 @@ import { resolveTruth } from './truth.js';
 import { groupSummaryLines } from './group-summary.js';
 import { groupDocumentsAsync, type GroupResult, type StageTiming } from '../pipeline.js';
 import { resolveParallelOptions } from '../parallel/kmeans-parallel.js';
-import { kmeansRunner, vectorizeRunner } from '../parallel/runners.js';
+import { kmeansRunner, reduceRunner, vectorizeRunner } from '../parallel/runners.js';
 import { evaluateLabels } from '../report/outputs.js';
 import { groupOutputs, groupSummaryJson, vectorFiles } from '../report/group-outputs.js';
 import { groupRunRecord } from '../report/run-record.js';
@@ -119,7 +119,7 @@ async function runGroup(inputs: string[], flags: GroupFlags, io: CliIo, command:
   const progress = progressReporter(io, flags.quiet ?? false);
   let result: GroupResult;
   try {
-    result = await groupDocumentsAsync({ docs, exportRows: read.exportRows }, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t), ...(previous ? { previous } : {}), ...(edits ? { edits } : {}), ...(guide ? { guide } : {}) });
+    result = await groupDocumentsAsync({ docs, exportRows: read.exportRows }, group, { kmeans: kmeansRunner(threads), vectorize: vectorizeRunner(threads), reduce: reduceRunner(threads) }, { now, progress: (s, d, t) => progress.update(s, d, t), ...(previous ? { previous } : {}), ...(edits ? { edits } : {}), ...(guide ? { guide } : {}) });
   } finally {
     progress.done();
   }

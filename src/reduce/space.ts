@@ -22,7 +22,7 @@
 import type { Csr } from '../types.js';
 import type { Partition } from '../cluster/partition.js';
 import { partitionFromAssignments } from '../cluster/partition.js';
-import { createRng, deriveSeed } from '../util/random.js';
+import { createRng, deriveSeed, type Rng } from '../util/random.js';
 import { truncatedSvd, type TruncatedSvd } from './svd.js';
 import { resolveReduceOptions, type ReduceOptions } from './options.js';
 
@@ -75,9 +75,25 @@ export function denseRowsAsCsr(rows: Float32Array, n: number, d: number): Csr {
  * `nonEmptyRows` bounds `dims` together with the terms.
  */
 export function reduceForGrouping(matrix: Csr, options: Partial<ReduceOptions>, seed: number, nonEmptyRows: number): ReducedSpace {
+  const rng = reductionRng(matrix, options, seed, nonEmptyRows);
+  return reducedSpaceOf(truncatedSvd(matrix, options, rng), matrix.rows);
+}
+
+/**
+ * Checks a run's reduction options against the pile (`dims` bounded by
+ * `nonEmptyRows` and the terms; throws {@link UsageError} naming the option)
+ * and returns the decomposition's generator, derived from `seed`
+ * ({@link REDUCE_SEED_STREAM}): what {@link reduceForGrouping} does before
+ * the decomposition, for drivers that run it elsewhere (on threads).
+ */
+export function reductionRng(matrix: Csr, options: Partial<ReduceOptions>, seed: number, nonEmptyRows: number): Rng {
   resolveReduceOptions(options, Math.min(nonEmptyRows, matrix.cols));
-  const svd = truncatedSvd(matrix, options, createRng(deriveSeed(seed, REDUCE_SEED_STREAM)));
-  return { svd, matrix: denseRowsAsCsr(svd.rows, matrix.rows, svd.dims) };
+  return createRng(deriveSeed(seed, REDUCE_SEED_STREAM));
+}
+
+/** The reduced space of a finished decomposition of `rows` rows: its rows wrapped as full CSR rows. */
+export function reducedSpaceOf(svd: TruncatedSvd, rows: number): ReducedSpace {
+  return { svd, matrix: denseRowsAsCsr(svd.rows, rows, svd.dims) };
 }
 
 /**

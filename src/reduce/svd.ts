@@ -38,12 +38,37 @@
  * once and reused across iterations; nothing else grows with n or m inside
  * the loop.
  *
+ * Threads: the work on the big blocks (products, Gram rows, solves, V = Q̂W,
+ * the projection) is done by the row kernels of `svd-kernels.ts`, each over a
+ * range of output rows; {@link svdSteps} yields each such step to a driver.
+ * {@link truncatedSvd} runs every step over the whole range on the calling
+ * thread; `truncatedSvdParallel` (src/parallel) splits the ranges over
+ * threads, which gives the same bits because each output entry is computed by
+ * the same operations whichever range holds it.
+ *
  * @module
  */
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
 import type { Csr } from '../types.js';
 import type { Rng } from '../util/random.js';
 import { resolveReduceOptions, type ReduceOptions } from './options.js';
+import {
+  gramUpperRange,
+  multiplyCsrDenseRange,
+  projectRange,
+  runSvdBlock,
+  solveUpperRange,
+  svdWorkRows,
+  SVD_WORK_A,
+  SVD_WORK_AT,
+  SVD_WORK_COMBINE,
+  SVD_WORK_GRAM_OMEGA,
+  SVD_WORK_GRAM_Y,
+  SVD_WORK_PROJECT,
+  SVD_WORK_SOLVE_OMEGA,
+  SVD_WORK_SOLVE_Y,
+  type SvdArrays,
+} from './svd-kernels.js';
 
 /** Outcome of {@link truncatedSvd}. */
 export interface TruncatedSvd {
@@ -73,35 +98,11 @@ export function fillGaussian(out: Float64Array, rng: Rng): void {
 }
 
 /**
- * out (n × l) = A (n × m, CSR) · X (m × l), row-major. Four stored values of a
- * row are taken per sweep over the output row (fewer loads and stores of it);
- * each output entry still adds its terms one by one in storage order, so the
- * result is bit-identical to the plain loop.
+ * out (n × l) = A (n × m, CSR) · X (m × l), row-major: every row of A
+ * ({@link multiplyCsrDenseRange}); bit-identical to the plain loop.
  */
 export function multiplyCsrDense(a: Csr, x: Float64Array, l: number, out: Float64Array): void {
-  const { rows, indptr, indices, values } = a;
-  out.fill(0, 0, rows * l);
-  for (let r = 0; r < rows; r++) {
-    const o = r * l;
-    const end = indptr[r + 1]!;
-    let p = indptr[r]!;
-    for (; p + 3 < end; p += 4) {
-      const v0 = values[p]!;
-      const v1 = values[p + 1]!;
-      const v2 = values[p + 2]!;
-      const v3 = values[p + 3]!;
-      const b0 = indices[p]! * l;
-      const b1 = indices[p + 1]! * l;
-      const b2 = indices[p + 2]! * l;
-      const b3 = indices[p + 3]! * l;
-      for (let c = 0; c < l; c++) out[o + c] = out[o + c]! + v0 * x[b0 + c]! + v1 * x[b1 + c]! + v2 * x[b2 + c]! + v3 * x[b3 + c]!;
-    }
-    for (; p < end; p++) {
-      const v = values[p]!;
-      const base = indices[p]! * l;
-      for (let c = 0; c < l; c++) out[o + c]! += v * x[base + c]!;
-    }
-  }
+  multiplyCsrDenseRange(a, x, l, out, 0, a.rows);
 }
 
 /**
@@ -147,6 +148,18 @@ export function transposeCsr(a: Csr): Csr {
   return { rows: cols, cols: rows, indptr: tIndptr, indices: tIndices, values: tValues };
 }
 
+/** How the decomposition allocates the arrays that threads share (plain typed arrays, or on SharedArrayBuffers). */
+export interface SvdAllocator {
+  float64(length: number): Float64Array;
+  float32(length: number): Float32Array;
+}
+
+/** Plain typed arrays: the single-thread path. */
+export const PLAIN_SVD_ALLOCATOR: SvdAllocator = Object.freeze({
+  float64: (length: number) => new Float64Array(length),
+  float32: (length: number) => new Float32Array(length),
+});
+
 /** Work space of {@link orthonormalize} for blocks l columns wide, allocated once per decomposition. */
 export interface OrthWorkspace {
   readonly l: number;
@@ -155,12 +168,29 @@ export interface OrthWorkspace {
   readonly dots: Float64Array;
   readonly gram: Float64Array;
   readonly first: Float64Array;
+  /** The Gram matrix's upper triangle, as the row kernels leave it (l × l; shared with threads on the parallel path). */
+  readonly g: Float64Array;
+  /** Rᵀ of the Cholesky step being applied, read by the row solves (l × l; shared with threads on the parallel path). */
+  readonly rt: Float64Array;
 }
 
-/** Allocates an {@link OrthWorkspace}. */
-export function createOrthWorkspace(l: number): OrthWorkspace {
-  return { l, r: new Float64Array(l * l), dots: new Float64Array(l), gram: new Float64Array(l * l), first: new Float64Array(l * l) };
+/** Allocates an {@link OrthWorkspace}; `g` and `rt` through `alloc` (plain arrays by default). */
+export function createOrthWorkspace(l: number, alloc: SvdAllocator = PLAIN_SVD_ALLOCATOR): OrthWorkspace {
+  return {
+    l,
+    r: new Float64Array(l * l),
+    dots: new Float64Array(l),
+    gram: new Float64Array(l * l),
+    first: new Float64Array(l * l),
+    g: alloc.float64(l * l),
+    rt: alloc.float64(l * l),
+  };
 }
+
+/** Step of {@link orthonormalizeSteps}: the upper Gram matrix of the block into `ws.g` ({@link gramUpperRange} over rows 0..l of G). */
+export const ORTH_GRAM = 0;
+/** Step of {@link orthonormalizeSteps}: the block's rows solved against `ws.rt` ({@link solveUpperRange} over all rows). */
+export const ORTH_SOLVE = 1;
 
 /**
  * Orthonormalises the columns of a row-major `rows × l` block in place and
@@ -174,13 +204,36 @@ export function createOrthWorkspace(l: number): OrthWorkspace {
  * which also copes with rank deficiency.
  */
 export function orthonormalize(q: Float64Array, rows: number, ws: OrthWorkspace, rng: Rng): void {
-  const { l, r, dots, gram, first } = ws;
-  if (!choleskyQrStep(q, rows, l, first, gram)) {
+  const steps = orthonormalizeSteps(q, rows, ws, rng);
+  for (let step = steps.next(); !step.done; step = steps.next()) {
+    if (step.value === ORTH_GRAM) gramUpperRange(q, rows, ws.l, ws.g, 0, ws.l);
+    else solveUpperRange(q, ws.l, ws.rt, 0, rows);
+  }
+}
+
+/**
+ * {@link orthonormalize} as steps: yields {@link ORTH_GRAM} or
+ * {@link ORTH_SOLVE} when the block's rows must go through a row kernel (the
+ * driver runs it, on one thread or split by rows), and does the small l × l
+ * work (Cholesky, the fallback) itself between them.
+ */
+export function* orthonormalizeSteps(q: Float64Array, rows: number, ws: OrthWorkspace, rng: Rng): Generator<number, void, void> {
+  const { l, r, dots, gram, first, g, rt } = ws;
+  yield ORTH_GRAM;
+  if (!choleskyUpper(g, l, first)) {
     gramSchmidtTwice(q, rows, l, r, dots, rng);
     return;
   }
+  transposeInto(first, l, rt);
+  yield ORTH_SOLVE;
   // Second step on the nearly orthonormal block; R = R₂R₁.
-  if (!choleskyQrStep(q, rows, l, gram, r)) gramSchmidtTwice(q, rows, l, gram, dots, rng);
+  yield ORTH_GRAM;
+  if (choleskyUpper(g, l, gram)) {
+    transposeInto(gram, l, rt);
+    yield ORTH_SOLVE;
+  } else {
+    gramSchmidtTwice(q, rows, l, gram, dots, rng);
+  }
   multiplyUpper(gram, first, l, r);
 }
 
@@ -198,13 +251,16 @@ function multiplyUpper(a: Float64Array, b: Float64Array, l: number, out: Float64
   }
 }
 
+function transposeInto(r: Float64Array, l: number, rt: Float64Array): void {
+  for (let k = 0; k < l; k++) for (let c = 0; c < l; c++) rt[c * l + k] = r[k * l + c]!;
+}
+
 /**
- * One Cholesky QR step: G = QᵀQ, G = RᵀR, Q ← QR⁻¹. Returns false (block
- * untouched) when a pivot says the block is too ill-conditioned.
+ * Cholesky G = RᵀR (G's upper triangle read from `g`), R upper into `r`.
+ * Returns false when a pivot says the block is too ill-conditioned (a ratio
+ * of pivots beyond {@link CHOLESKY_QR_CONDITION}, or a pivot not positive).
  */
-function choleskyQrStep(q: Float64Array, rows: number, l: number, r: Float64Array, g: Float64Array): boolean {
-  gramUpper(q, rows, l, g);
-  // Cholesky G = RᵀR, R upper, into r.
+function choleskyUpper(g: Float64Array, l: number, r: Float64Array): boolean {
   r.fill(0, 0, l * l);
   let maxPivot = 0;
   for (let j = 0; j < l; j++) {
@@ -222,80 +278,29 @@ function choleskyQrStep(q: Float64Array, rows: number, l: number, r: Float64Arra
     }
   }
   for (let j = 0; j < l; j++) if (r[j * l + j]! * CHOLESKY_QR_CONDITION < maxPivot) return false;
-  solveUpperRows(q, rows, l, r, g);
   return true;
 }
 
 /**
  * The upper triangle of G = QᵀQ (l × l, row-major) of a row-major `rows × l`
- * block, into `g`. Four rows per sweep over G (a quarter of its loads and
- * stores); every entry still adds its row products one by one in row order
- * (a zero entry adds nothing: its products are ±0), so the bits are those of
+ * block, into `g` ({@link gramUpperRange} over all of G's rows): the bits of
  * the plain row-by-row loop.
  */
 export function gramUpper(q: Float64Array, rows: number, l: number, g: Float64Array): void {
   g.fill(0, 0, l * l);
-  let i = 0;
-  for (; i + 3 < rows; i += 4) {
-    const o0 = i * l;
-    const o1 = o0 + l;
-    const o2 = o1 + l;
-    const o3 = o2 + l;
-    for (let a = 0; a < l; a++) {
-      const x0 = q[o0 + a]!;
-      const x1 = q[o1 + a]!;
-      const x2 = q[o2 + a]!;
-      const x3 = q[o3 + a]!;
-      const ga = a * l;
-      for (let b = a; b < l; b++) g[ga + b] = g[ga + b]! + x0 * q[o0 + b]! + x1 * q[o1 + b]! + x2 * q[o2 + b]! + x3 * q[o3 + b]!;
-    }
-  }
-  for (; i < rows; i++) {
-    const o = i * l;
-    for (let a = 0; a < l; a++) {
-      const x = q[o + a]!;
-      if (x === 0) continue;
-      const ga = a * l;
-      for (let b = a; b < l; b++) g[ga + b]! += x * q[o + b]!;
-    }
-  }
+  gramUpperRange(q, rows, l, g, 0, l);
 }
 
 /**
  * Q ← QR⁻¹ for an upper triangular R (l × l, row-major) with a non-zero
  * diagonal: each row x solves xR = q by forward substitution over the
- * columns. `rt` (l × l) receives Rᵀ so the inner loop reads contiguously;
- * the arithmetic per row is that of the plain loop, bit for bit.
+ * columns. `rt` (l × l) receives Rᵀ so the inner loop reads contiguously
+ * ({@link solveUpperRange}); the arithmetic per row is that of the plain
+ * loop, bit for bit.
  */
 export function solveUpperRows(q: Float64Array, rows: number, l: number, r: Float64Array, rt: Float64Array): void {
-  for (let k = 0; k < l; k++) for (let c = 0; c < l; c++) rt[c * l + k] = r[k * l + c]!;
-  let i = 0;
-  for (; i + 1 < rows; i += 2) {
-    const o0 = i * l;
-    const o1 = o0 + l;
-    for (let c = 0; c < l; c++) {
-      const rc = c * l;
-      let t0 = q[o0 + c]!;
-      let t1 = q[o1 + c]!;
-      for (let k = 0; k < c; k++) {
-        const w = rt[rc + k]!;
-        t0 -= q[o0 + k]! * w;
-        t1 -= q[o1 + k]! * w;
-      }
-      const d = rt[rc + c]!;
-      q[o0 + c] = t0 / d;
-      q[o1 + c] = t1 / d;
-    }
-  }
-  for (; i < rows; i++) {
-    const o = i * l;
-    for (let c = 0; c < l; c++) {
-      const rc = c * l;
-      let t = q[o + c]!;
-      for (let k = 0; k < c; k++) t -= q[o + k]! * rt[rc + k]!;
-      q[o + c] = t / rt[rc + c]!;
-    }
-  }
+  transposeInto(r, l, rt);
+  solveUpperRange(q, l, rt, 0, rows);
 }
 
 /**
@@ -371,89 +376,186 @@ function projectOut(q: Float64Array, rows: number, l: number, j: number, dots: F
 }
 
 /**
- * Truncated SVD of `matrix` (n × m CSR; not modified) with `dims` components,
- * by Halko, Martinsson & Tropp (2011) Algorithms 4.4 and 5.1 (see the module
- * notes). `rng` draws the test matrix Ω (and any replacement direction). The
- * same matrix, options and generator state give bit-identical output.
- * Throws {@link UsageError} for unusable options (dims above the smaller of
- * rows and terms, among others).
+ * Allocates the arrays of a decomposition of `a` (with its transpose `at`)
+ * into l = d + p columns, through `alloc`; `ws` supplies `g` and `rt`.
  */
-export function truncatedSvd(matrix: Csr, options: Partial<ReduceOptions>, rng: Rng): TruncatedSvd {
-  const n = matrix.rows;
-  const m = matrix.cols;
-  const o = resolveReduceOptions(options, Math.min(n, m));
-  const d = o.dims;
-  const l = Math.min(d + o.oversampling, n, m);
-  const omega = new Float64Array(m * l); // Ω, then Q̃ⱼ, then Bᵀ and Q̂ (m × l)
-  const y = new Float64Array(n * l); // Yⱼ, then Qⱼ (n × l)
-  const ws = createOrthWorkspace(l);
-  const at = transposeCsr(matrix); // term-major, built once: Aᵀ products write contiguous rows
+export function createSvdArrays(a: Csr, at: Csr, l: number, d: number, ws: OrthWorkspace, alloc: SvdAllocator): SvdArrays {
+  const n = a.rows;
+  const m = a.cols;
+  return {
+    a,
+    at,
+    l,
+    d,
+    omega: alloc.float64(m * l),
+    y: alloc.float64(n * l),
+    g: ws.g,
+    rt: ws.rt,
+    wd: alloc.float64(l * d),
+    compT: alloc.float64(m * d),
+    byTerm: alloc.float32(m * d),
+    rows: alloc.float32(n * d),
+  };
+}
+
+/** What {@link svdSteps} returns besides the arrays it filled (`byTerm`, `rows`). */
+export interface SvdStepsResult {
+  readonly components: Float32Array;
+  readonly singularValues: Float64Array;
+}
+
+/**
+ * The decomposition (see the module notes) as steps: yields a row work
+ * (`SVD_WORK_*`) whenever the big blocks must go through a row kernel — the
+ * driver runs {@link runSvdBlock} over all {@link svdWorkRows} output rows, on
+ * one thread or split — and does everything else itself (the Gaussian draw,
+ * the l × l factorisations, the sign fix), in a fixed order. `ws` must be the
+ * workspace whose `g` and `rt` the arrays hold.
+ */
+export function* svdSteps(s: SvdArrays, ws: OrthWorkspace, o: ReduceOptions, rng: Rng): Generator<number, SvdStepsResult, void> {
+  const { a, l, d } = s;
+  const n = a.rows;
+  const m = a.cols;
+  const orth = function* (onY: boolean): Generator<number, void, void> {
+    const steps = orthonormalizeSteps(onY ? s.y : s.omega, onY ? n : m, ws, rng);
+    for (let step = steps.next(); !step.done; step = steps.next()) {
+      if (step.value === ORTH_GRAM) yield onY ? SVD_WORK_GRAM_Y : SVD_WORK_GRAM_OMEGA;
+      else yield onY ? SVD_WORK_SOLVE_Y : SVD_WORK_SOLVE_OMEGA;
+    }
+  };
 
   // Stage A: Algorithm 4.4, orthonormalising once per power step, on the side with fewer rows.
-  fillGaussian(omega, rng);
+  fillGaussian(s.omega, rng);
   if (n <= m) {
-    multiplyCsrDense(matrix, omega, l, y);
-    orthonormalize(y, n, ws, rng);
+    yield SVD_WORK_A;
+    yield* orth(true);
     for (let it = 0; it < o.powerIterations; it++) {
-      multiplyCsrDense(at, y, l, omega);
-      multiplyCsrDense(matrix, omega, l, y);
-      orthonormalize(y, n, ws, rng);
+      yield SVD_WORK_AT;
+      yield SVD_WORK_A;
+      yield* orth(true);
     }
   } else {
     for (let it = 0; it < o.powerIterations; it++) {
-      multiplyCsrDense(matrix, omega, l, y);
-      multiplyCsrDense(at, y, l, omega);
-      orthonormalize(omega, m, ws, rng);
+      yield SVD_WORK_A;
+      yield SVD_WORK_AT;
+      yield* orth(false);
     }
-    multiplyCsrDense(matrix, omega, l, y);
-    orthonormalize(y, n, ws, rng);
+    yield SVD_WORK_A;
+    yield* orth(true);
   }
 
   // Stage B: Algorithm 5.1 on Bᵀ = AᵀQ = Q̂R̂, so B = R̂ᵀQ̂ᵀ.
-  multiplyCsrDense(at, y, l, omega);
-  orthonormalize(omega, m, ws, rng);
+  yield SVD_WORK_AT;
+  yield* orth(false);
   const rt = new Matrix(l, l);
   for (let i = 0; i < l; i++) for (let j = 0; j < l; j++) rt.set(j, i, ws.r[i * l + j]!);
   const svd = new SingularValueDecomposition(rt, { computeLeftSingularVectors: false, computeRightSingularVectors: true, autoTranspose: false });
   const sigma = svd.diagonal;
   const w = svd.rightSingularVectors; // l × l, column j is Ŵ's j-th right singular vector
   // ml-matrix returns singular values in descending order; sort defensively (ties by index) all the same.
-  const order = Array.from({ length: l }, (_, i) => i).sort((a, b) => sigma[b]! - sigma[a]! || a - b);
+  const order = Array.from({ length: l }, (_, i) => i).sort((x, y) => sigma[y]! - sigma[x]! || x - y);
 
-  // V = Q̂Ŵ: component j, term t = Σᵢ Q̂[t, i] Ŵ[i, order[j]].
-  const wd = new Float64Array(l * d);
-  for (let i = 0; i < l; i++) for (let j = 0; j < d; j++) wd[i * d + j] = w.get(i, order[j]!);
-  const comp = new Float64Array(d * m);
-  const acc = new Float64Array(d); // one term's d entries, summed in a contiguous buffer, then stored
+  // V = Q̂Ŵ, term-major: component j, term t = Σᵢ Q̂[t, i] Ŵ[i, order[j]].
+  for (let i = 0; i < l; i++) for (let j = 0; j < d; j++) s.wd[i * d + j] = w.get(i, order[j]!);
+  yield SVD_WORK_COMBINE;
+
+  // Sign: the largest entry by magnitude of each component is positive (ties to the lowest term); one pass over the terms.
+  const { compT, byTerm } = s;
+  const bestAbs = new Float64Array(d).fill(-1);
+  const sign = new Float64Array(d);
   for (let t = 0; t < m; t++) {
-    const qo = t * l;
-    acc.fill(0);
-    for (let i = 0; i < l; i++) {
-      const x = omega[qo + i]!;
-      if (x === 0) continue;
-      const wo = i * d;
-      for (let j = 0; j < d; j++) acc[j]! += x * wd[wo + j]!;
-    }
-    for (let j = 0; j < d; j++) comp[j * m + t] = acc[j]!;
-  }
-  const components = new Float32Array(d * m);
-  for (let j = 0; j < d; j++) {
-    // Sign: the largest entry by magnitude is positive (ties to the lowest term).
-    let best = 0;
-    let bestAbs = -1;
-    for (let t = 0; t < m; t++) {
-      const a = Math.abs(comp[j * m + t]!);
-      if (a > bestAbs) {
-        bestAbs = a;
-        best = t;
+    const o2 = t * d;
+    for (let j = 0; j < d; j++) {
+      const v = compT[o2 + j]!;
+      const x = Math.abs(v);
+      if (x > bestAbs[j]!) {
+        bestAbs[j] = x;
+        sign[j] = v < 0 ? -1 : 1;
       }
     }
-    const sign = comp[j * m + best]! < 0 ? -1 : 1;
-    for (let t = 0; t < m; t++) components[j * m + t] = sign * comp[j * m + t]!;
+  }
+  const components = new Float32Array(d * m);
+  for (let t = 0; t < m; t++) {
+    const o2 = t * d;
+    for (let j = 0; j < d; j++) {
+      const v = Math.fround(sign[j]! * compT[o2 + j]!);
+      byTerm[o2 + j] = v;
+      components[j * m + t] = v;
+    }
   }
   const singularValues = Float64Array.from({ length: d }, (_, j) => sigma[order[j]!]!);
-  const rows = projectRows(matrix, components, d);
-  return { options: o, dims: d, terms: m, components, singularValues, rows };
+  yield SVD_WORK_PROJECT;
+  return { components, singularValues };
+}
+
+/** Term-major copies of component arrays (d × terms → terms × d), made once per array and reused by every projection. */
+const TERM_MAJOR = new WeakMap<Float32Array, { readonly dims: number; readonly byTerm: Float32Array }>();
+
+/**
+ * The term-major copy (`byTerm[t · dims + j]`) of `components` (d × terms,
+ * row-major, as in {@link TruncatedSvd}), made on the first call for an
+ * array and returned from then on (the components are treated as read-only,
+ * as a model holds them). Throws a RangeError when `dims` does not divide the
+ * length.
+ */
+export function termMajorComponents(components: Float32Array, dims: number): Float32Array {
+  const known = TERM_MAJOR.get(components);
+  if (known && known.dims === dims) return known.byTerm;
+  if (!Number.isInteger(dims) || dims < 1 || components.length % dims !== 0) {
+    throw new RangeError(`components hold ${components.length} values, not a multiple of ${dims} dims`);
+  }
+  const m = components.length / dims;
+  const byTerm = new Float32Array(m * dims);
+  for (let j = 0; j < dims; j++) for (let t = 0; t < m; t++) byTerm[t * dims + j] = components[j * m + t]!;
+  TERM_MAJOR.set(components, { dims, byTerm });
+  return byTerm;
+}
+
+/**
+ * The {@link TruncatedSvd} once {@link svdSteps} has finished: the rows and
+ * term-major components are taken from `s` (copied off shared memory when
+ * `copy`), and the term-major copy is remembered for later projections.
+ */
+export function finishSvd(o: ReduceOptions, s: SvdArrays, done: SvdStepsResult, copy: boolean): TruncatedSvd {
+  const byTerm = copy ? s.byTerm.slice() : s.byTerm;
+  TERM_MAJOR.set(done.components, { dims: s.d, byTerm });
+  return {
+    options: o,
+    dims: s.d,
+    terms: s.a.cols,
+    components: done.components,
+    singularValues: done.singularValues,
+    rows: copy ? s.rows.slice() : s.rows,
+  };
+}
+
+/** The block width l = d + p, bounded by the rows and the terms. */
+export function svdBlockWidth(o: ReduceOptions, n: number, m: number): number {
+  return Math.min(o.dims + o.oversampling, n, m);
+}
+
+/**
+ * Truncated SVD of `matrix` (n × m CSR; not modified) with `dims` components,
+ * by Halko, Martinsson & Tropp (2011) Algorithms 4.4 and 5.1 (see the module
+ * notes), on the calling thread. `rng` draws the test matrix Ω (and any
+ * replacement direction). The same matrix, options and generator state give
+ * bit-identical output (the thread runner `truncatedSvdParallel` of
+ * `src/parallel` gives the same bits). Throws {@link UsageError} for
+ * unusable options (dims above the smaller of rows and terms, among others).
+ */
+export function truncatedSvd(matrix: Csr, options: Partial<ReduceOptions>, rng: Rng): TruncatedSvd {
+  const o = resolveReduceOptions(options, Math.min(matrix.rows, matrix.cols));
+  const l = svdBlockWidth(o, matrix.rows, matrix.cols);
+  const ws = createOrthWorkspace(l);
+  // Term-major, built once: Aᵀ products write contiguous rows.
+  const s = createSvdArrays(matrix, transposeCsr(matrix), l, o.dims, ws, PLAIN_SVD_ALLOCATOR);
+  const acc = new Float64Array(o.dims);
+  const steps = svdSteps(s, ws, o, rng);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return finishSvd(o, s, step.value, false);
+    runSvdBlock(s, step.value, 0, svdWorkRows(s, step.value), acc);
+  }
 }
 
 /**
@@ -461,36 +563,18 @@ export function truncatedSvd(matrix: Csr, options: Partial<ReduceOptions>, rng: 
  * row-major, as in {@link TruncatedSvd}) and re-normalises each projected
  * row to unit length; rows that project to zero stay zero. Returns n × d
  * Float32, row-major (into `out` when given). Used for the training rows and
- * for new documents filed with a saved model, so both see the same numbers.
+ * for new documents filed with a saved model, so both see the same numbers;
+ * the term-major copy of the components is made once per array
+ * ({@link termMajorComponents}), not per call.
  * Throws a RangeError when the shapes disagree.
  */
 export function projectRows(matrix: Csr, components: Float32Array, dims: number, out?: Float32Array): Float32Array {
-  const { rows: n, cols: m, indptr, indices, values } = matrix;
+  const { rows: n, cols: m } = matrix;
   if (!Number.isInteger(dims) || dims < 1 || components.length !== dims * m) {
     throw new RangeError(`components hold ${components.length} values; ${dims} dims × ${m} terms needs ${dims * m}`);
   }
   const result = out ?? new Float32Array(n * dims);
   if (result.length !== n * dims) throw new RangeError(`out must hold ${n * dims} values; got ${result.length}`);
-  // Term-major copy so each stored value meets a contiguous run of d numbers.
-  const byTerm = new Float32Array(m * dims);
-  for (let j = 0; j < dims; j++) for (let t = 0; t < m; t++) byTerm[t * dims + j] = components[j * m + t]!;
-  const acc = new Float64Array(dims);
-  for (let i = 0; i < n; i++) {
-    acc.fill(0);
-    for (let p = indptr[i]!; p < indptr[i + 1]!; p++) {
-      const v = values[p]!;
-      const base = indices[p]! * dims;
-      for (let j = 0; j < dims; j++) acc[j]! += v * byTerm[base + j]!;
-    }
-    let s = 0;
-    for (let j = 0; j < dims; j++) s += acc[j]! * acc[j]!;
-    const o = i * dims;
-    if (s > 0) {
-      const inv = 1 / Math.sqrt(s);
-      for (let j = 0; j < dims; j++) result[o + j] = acc[j]! * inv;
-    } else {
-      result.fill(0, o, o + dims);
-    }
-  }
+  projectRange(matrix, termMajorComponents(components, dims), dims, result, new Float64Array(dims), 0, n);
   return result;
 }
