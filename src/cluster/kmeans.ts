@@ -95,7 +95,7 @@ export type { KMeansOptions, KMeansResult } from './kmeans-types.js';
  * planted topics 0.922 / 0.921 against 0.920 / 0.917. A 5,000-row sample
  * was 4.7x cheaper but lost 0.04% / 0.02% of the objective and 0.005 NMI; a
  * 20,000-row one was 1.7x cheaper for no gain; continuing the two best
- * (`screenKeep: 2`) kept the same restart on both seeds (bench/speed-notes.md §4).
+ * (`screenKeep: 2`) kept the same restart on both seeds (bench/speed-notes.md §5).
  */
 export const DEFAULT_KMEANS_OPTIONS: Readonly<Omit<KMeansOptions, 'groups' | 'initialAssignments'>> = Object.freeze({
   restarts: 10,
