@@ -46,9 +46,10 @@ export * from './model/index.js';
 export { applyModel, type ModelApplication } from './model/apply.js';
 export { assignBatchText, assignedRowsHeader, assignedRowsText, assignedRowValues, streamCleaning, ASSIGNED_ROW_COLUMNS, ASSIGNED_ROW_FORMATS, type AssignedRowFormat } from './report/assigned-rows.js';
 export {
-  TermCounter, countTerms, mergeTermCounts, termCountsToJson, termCountsFromJson, analyzerDifference, checkCountsFit, countsFor,
+  TermCounter, countTerms, mergeTermCounts, termCountsToJson, termCountsFromJson, analyzerDifference, checkCountsFit,
   TERM_COUNTS_FORMAT, TERM_COUNTS_VERSION, type TermCounts, type CountsCleaning,
 } from './vectorize/df-counts.js';
+export { countsFor } from './vectorize/counts-for.js';
 export { kmeansRunner, vectorizeRunner, PARALLEL_MIN_ROWS, PARALLEL_ANALYZE_MIN_CHARS } from './parallel/runners.js';
 export { reduceRunner, PARALLEL_REDUCE_MIN_ROWS, type ReduceRunnerOptions } from './parallel/runners.js';
 export type { ReduceRequest, ReduceRunner } from './runners.js';

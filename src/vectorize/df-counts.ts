@@ -225,8 +225,6 @@ export function termCountsFromJson(text: string, shownPath = 'counts'): TermCoun
   return sealCounts({ analyzer, cleaning: m.cleaning, documents: m.documents, terms: Object.freeze(m.terms), df: Float64Array.from(m.df) });
 }
 
-// countsFor lives in counts-for.ts (no zod), so that fitting TF-IDF does not load the counts file reader.
-export { countsFor } from './counts-for.js';
 
 /**
  * Checks counts meant to give a run's idf: made with the run's analyzer
